@@ -1,0 +1,85 @@
+package dev.morsel.tokenize;
+
+import java.util.List;
+import java.util.Objects;
+
+/**
+ * Framing: the control tokens put around an encoded text ({@code begin text end}) or a pair
+ * ({@code begin first separator second end}). Spellings name registered control tokens. Markers get
+ * an empty span at their position and the {@link Tokens#FRAME} flag. Immutable.
+ *
+ * @since 0.1.0
+ */
+public final class Template {
+  private static final Template NONE = new Template(List.of(), List.of(), List.of());
+
+  private final List<String> begin;
+  private final List<String> separator;
+  private final List<String> end;
+
+  private Template(List<String> begin, List<String> separator, List<String> end) {
+    this.begin = List.copyOf(begin);
+    this.separator = List.copyOf(separator);
+    this.end = List.copyOf(end);
+  }
+
+  /** No framing. */
+  public static Template none() {
+    return NONE;
+  }
+
+  /**
+   * A template.
+   *
+   * @param begin control spellings put before the (first) text
+   * @param separator control spellings put between the texts of a pair
+   * @param end control spellings put after the (last) text
+   */
+  public static Template of(List<String> begin, List<String> separator, List<String> end) {
+    Objects.requireNonNull(begin, "begin");
+    Objects.requireNonNull(separator, "separator");
+    Objects.requireNonNull(end, "end");
+    return new Template(begin, separator, end);
+  }
+
+  /** Markers before the text. */
+  public List<String> begin() {
+    return begin;
+  }
+
+  /** Markers between the texts of a pair. */
+  public List<String> separator() {
+    return separator;
+  }
+
+  /** Markers after the text. */
+  public List<String> end() {
+    return end;
+  }
+
+  /** Number of markers framing a single text. */
+  public int singleOverhead() {
+    return begin.size() + end.size();
+  }
+
+  /** Number of markers framing a pair. */
+  public int pairOverhead() {
+    return begin.size() + separator.size() + end.size();
+  }
+
+  @Override
+  public boolean equals(Object o) {
+    return o instanceof Template && begin.equals(((Template) o).begin) && separator.equals(((Template) o).separator)
+        && end.equals(((Template) o).end);
+  }
+
+  @Override
+  public int hashCode() {
+    return Objects.hash(begin, separator, end);
+  }
+
+  @Override
+  public String toString() {
+    return "Template[begin=" + begin + ", separator=" + separator + ", end=" + end + "]";
+  }
+}

@@ -1,0 +1,33 @@
+package dev.morsel.tokenize.format;
+
+/**
+ * A model file (or a text export, token list or pair list) is malformed. The message names the
+ * section (or line) and the offset where the problem was found; nothing was built from it.
+ *
+ * @since 0.1.0
+ */
+public final class ModelFormatException extends RuntimeException {
+  private static final long serialVersionUID = 1L;
+
+  private final String section;
+
+  /**
+   * @param section the section tag (or a file/line description) where the problem is; may be {@code "header"}
+   * @param message what is wrong
+   */
+  public ModelFormatException(String section, String message) {
+    super("model section " + section + ": " + message);
+    this.section = section;
+  }
+
+  /** As {@link #ModelFormatException(String, String)} with a cause. */
+  public ModelFormatException(String section, String message, Throwable cause) {
+    super("model section " + section + ": " + message, cause);
+    this.section = section;
+  }
+
+  /** The section tag, or {@code "header"}, {@code "table"}, or a source description for text formats. */
+  public String section() {
+    return section;
+  }
+}

@@ -1,0 +1,58 @@
+package dev.morsel.tokenize.spi;
+
+import dev.morsel.tokenize.format.ModelWriter;
+
+/**
+ * Splits one piece of normalized text into vocabulary tokens. Implementations are immutable and
+ * thread-safe (per-thread scratch state is their own business) and allocate nothing per token in
+ * steady state.
+ *
+ * <p>A segmenter owns a vocabulary of {@link #vocabularySize()} ids, {@code 0..size-1}. Control
+ * tokens reserved by a trainer are part of that vocabulary, but {@link #segment} never produces them
+ * from ordinary text: only the tokenizer's control-token scan and framing do.
+ *
+ * @since 0.1.0
+ */
+public interface Segmenter {
+  /** The kind name that finds this segmenter's {@link SegmenterProvider}, for example {@code "bpe"}. */
+  String kind();
+
+  /** Number of ids in the vocabulary. */
+  int vocabularySize();
+
+  /**
+   * The display spelling of a token: unique per id, readable, and stable across save and load. Byte
+   * tokens that are not complete UTF-8 use the segmenter's own escape convention.
+   *
+   * @throws IndexOutOfBoundsException if {@code id} is not in the vocabulary
+   */
+  String token(int id);
+
+  /** The id whose {@link #token display spelling} is {@code token}, or -1. */
+  int id(String token);
+
+  /**
+   * The id of the unknown token, or -1 if this segmenter never produces one (byte-level schemes).
+   */
+  default int unknownId() {
+    return -1;
+  }
+
+  /**
+   * Segments {@code text[start, end)}, one piece, into tokens reported to {@code sink} in order. Token
+   * spans are absolute indices into {@code text} and cover {@code [start, end)} without gaps, except
+   * that tokens holding parts of one character share that character's span.
+   */
+  void segment(CharSequence text, int start, int end, TokenSink sink);
+
+  /**
+   * Writes the UTF-8 bytes that token {@code id} contributes to decoded text (for example without a
+   * continuation marker, or the raw byte of a byte token).
+   *
+   * @throws IndexOutOfBoundsException if {@code id} is not in the vocabulary
+   */
+  void decodeToken(int id, ByteSink out);
+
+  /** Writes this segmenter's sections of the model file. */
+  void write(ModelWriter out);
+}
