@@ -104,6 +104,12 @@ public interface Tokenizer {
   /** This tokenizer with another template (control tokens it names must be registered). */
   Tokenizer withTemplate(Template template);
 
+  /** The input limits. */
+  Limits limits();
+
+  /** This tokenizer with other input limits. */
+  Tokenizer withLimits(Limits limits);
+
   // ------------------------------------------------------------------ model file
 
   /**

@@ -1,12 +1,25 @@
 package dev.morsel.tokenize;
 
+import dev.morsel.tokenize.format.ModelFile;
+import dev.morsel.tokenize.format.ModelFormatException;
+import dev.morsel.tokenize.format.ModelSections;
+import dev.morsel.tokenize.format.SectionReader;
+import dev.morsel.tokenize.normalize.Normalization;
 import dev.morsel.tokenize.spi.Segmenter;
+import dev.morsel.tokenize.spi.SegmenterProvider;
+import dev.morsel.tokenize.split.Splitting;
 import java.nio.ByteBuffer;
 import java.nio.file.Path;
+import java.util.ArrayList;
+import java.util.Collections;
+import java.util.List;
+import java.util.Map;
+import java.util.ServiceLoader;
+import java.util.Set;
+import java.util.TreeMap;
 
 /**
  * Static factories for {@link Tokenizer}s: from parts, or from a model file.
- * SKELETON: signatures fixed, bodies to be written.
  *
  * @since 0.1.0
  */
@@ -20,7 +33,7 @@ public final class Tokenizers {
    *     or the template names a spelling that is not a registered control token
    */
   public static Tokenizer of(Pipeline pipeline, Segmenter segmenter, ControlTokens controlTokens, Template template) {
-    throw new UnsupportedOperationException();
+    return new PipelineTokenizer(pipeline, segmenter, controlTokens, template, Limits.defaults(), null);
   }
 
   /** A tokenizer with the default pipeline, no control tokens and no framing. */
@@ -30,16 +43,100 @@ public final class Tokenizers {
 
   /** Loads a model file, validating it fully before building anything. */
   public static Tokenizer load(Path path) {
-    throw new UnsupportedOperationException();
+    return build(ModelFile.read(path));
   }
 
   /** Loads a model file's bytes, validating them fully before building anything. */
   public static Tokenizer load(byte[] model) {
-    throw new UnsupportedOperationException();
+    return build(ModelFile.read(model));
   }
 
   /** Loads a model from a buffer (for example a memory-mapped file), validating it fully first. */
   public static Tokenizer load(ByteBuffer model) {
-    throw new UnsupportedOperationException();
+    return build(ModelFile.read(model));
+  }
+
+  /** The kinds of segmenter found on the class path or module path. */
+  public static Set<String> kinds() {
+    return Collections.unmodifiableSet(providers().keySet());
+  }
+
+  // ------------------------------------------------------------------ internals
+
+  private static volatile Map<String, SegmenterProvider> providers;
+
+  private static Map<String, SegmenterProvider> providers() {
+    Map<String, SegmenterProvider> p = providers;
+    if (p == null) {
+      Map<String, SegmenterProvider> found = new TreeMap<>();
+      for (SegmenterProvider provider : ServiceLoader.load(SegmenterProvider.class, Tokenizers.class.getClassLoader())) {
+        found.putIfAbsent(provider.kind(), provider);
+      }
+      if (found.isEmpty()) {
+        // a thread context loader may see providers the api's own loader does not (application servers, notebooks)
+        ClassLoader ctx = Thread.currentThread().getContextClassLoader();
+        if (ctx != null) {
+          for (SegmenterProvider provider : ServiceLoader.load(SegmenterProvider.class, ctx)) {
+            found.putIfAbsent(provider.kind(), provider);
+          }
+        }
+      }
+      p = found;
+      providers = p;
+    }
+    return p;
+  }
+
+  private static Tokenizer build(ModelSections sections) {
+    SectionReader k = sections.reader(PipelineTokenizer.KIND);
+    String kind = k.getString("segmenter kind");
+    k.expectEnd();
+    SegmenterProvider provider = providers().get(kind);
+    if (provider == null) {
+      throw new ModelFormatException(PipelineTokenizer.KIND, "no segmenter of kind '" + kind
+          + "' is on the class path (found: " + providers().keySet() + "); add the module that provides it");
+    }
+    SectionReader p = sections.reader(PipelineTokenizer.PIPE);
+    Pipeline pipeline;
+    String normSpec = p.getString("normalization");
+    String splitSpec = p.getString("splitting");
+    p.expectEnd();
+    try {
+      pipeline = Pipeline.of(Normalization.parse(normSpec), Splitting.parse(splitSpec));
+    } catch (IllegalArgumentException e) {
+      throw new ModelFormatException(PipelineTokenizer.PIPE, e.getMessage(), e);
+    }
+    SectionReader c = sections.reader(PipelineTokenizer.CTRL);
+    ControlTokens.Builder cb = ControlTokens.builder();
+    int n = c.getCount("control tokens", 1 << 20, 8);
+    ControlTokens controls;
+    try {
+      for (int i = 0; i < n; i++) {
+        int id = c.getInt("control token id");
+        cb.add(c.getString("control token spelling"), id);
+      }
+      c.expectEnd();
+      controls = cb.build();
+    } catch (IllegalArgumentException e) {
+      throw new ModelFormatException(PipelineTokenizer.CTRL, e.getMessage(), e);
+    }
+    SectionReader f = sections.reader(PipelineTokenizer.FRAM);
+    List<List<String>> lists = new ArrayList<>();
+    for (String what : List.of("begin markers", "separator markers", "end markers")) {
+      int m = f.getCount(what, 1 << 10, 4);
+      List<String> list = new ArrayList<>(m);
+      for (int i = 0; i < m; i++) {
+        list.add(f.getString(what));
+      }
+      lists.add(list);
+    }
+    f.expectEnd();
+    Segmenter segmenter = provider.read(sections);
+    try {
+      return new PipelineTokenizer(pipeline, segmenter, controls, Template.of(lists.get(0), lists.get(1), lists.get(2)),
+          Limits.defaults(), sections.fingerprint());
+    } catch (IllegalArgumentException e) {
+      throw new ModelFormatException(PipelineTokenizer.CTRL, e.getMessage(), e);
+    }
   }
 }

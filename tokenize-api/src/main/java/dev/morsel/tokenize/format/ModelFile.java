@@ -17,6 +17,12 @@ public final class ModelFile {
   /** Validates the whole container, then returns its sections (views into {@code file}). */
   public static ModelSections read(ByteBuffer file) { throw new UnsupportedOperationException(); }
 
+  /** Reads and validates a model file's bytes. */
+  public static ModelSections read(byte[] file) { throw new UnsupportedOperationException(); }
+
+  /** Reads and validates a model file. */
+  public static ModelSections read(java.nio.file.Path file) { throw new UnsupportedOperationException(); }
+
   /** SHA-256 (lowercase hex) of the canonical content: every section but {@code META}, in tag order. */
   public static String fingerprint(Map<String, byte[]> sections) { throw new UnsupportedOperationException(); }
 }

@@ -1,0 +1,432 @@
+package dev.morsel.tokenize;
+
+import dev.morsel.tokenize.format.ModelFile;
+import dev.morsel.tokenize.format.ModelWriter;
+import dev.morsel.tokenize.format.SectionWriter;
+import dev.morsel.tokenize.normalize.NormalizedText;
+import dev.morsel.tokenize.spi.Segmenter;
+import dev.morsel.tokenize.spi.TokenSink;
+import dev.morsel.tokenize.split.PieceSink;
+import java.io.IOException;
+import java.io.UncheckedIOException;
+import java.nio.charset.StandardCharsets;
+import java.nio.file.Files;
+import java.nio.file.Path;
+import java.util.ArrayList;
+import java.util.Arrays;
+import java.util.List;
+import java.util.Objects;
+import java.util.concurrent.CompletableFuture;
+import java.util.concurrent.CompletionException;
+import java.util.concurrent.Executor;
+import java.util.concurrent.ForkJoinPool;
+
+/**
+ * The one {@link Tokenizer} implementation: control-token scan, normalization with alignment,
+ * splitting, segmentation, assembly of original offsets, framing. Immutable and thread-safe; all
+ * per-call state lives in a per-thread {@link Scratch}.
+ */
+final class PipelineTokenizer implements Tokenizer {
+  /** Model section tags written by the api (see docs/format.md). */
+  static final String KIND = "KIND";
+  static final String PIPE = "PIPE";
+  static final String CTRL = "CTRL";
+  static final String FRAM = "FRAM";
+
+  // ------------------------------------------------------------------ configuration
+
+  private final Pipeline pipeline;
+  private final Segmenter segmenter;
+  private final ControlTokens controls;
+  private final Template template;
+  private final Limits limits;
+  private final int[] beginIds;
+  private final int[] separatorIds;
+  private final int[] endIds;
+  private final byte[][] controlBytes;
+
+  // ------------------------------------------------------------------ state
+
+  private volatile String fingerprint;
+  private final ThreadLocal<Scratch> scratch = ThreadLocal.withInitial(Scratch::new);
+
+  // ------------------------------------------------------------------ life-cycle
+
+  PipelineTokenizer(Pipeline pipeline, Segmenter segmenter, ControlTokens controls, Template template, Limits limits,
+      String fingerprint) {
+    this.pipeline = Objects.requireNonNull(pipeline, "pipeline");
+    this.segmenter = Objects.requireNonNull(segmenter, "segmenter");
+    this.controls = Objects.requireNonNull(controls, "controlTokens");
+    this.template = Objects.requireNonNull(template, "template");
+    this.limits = Objects.requireNonNull(limits, "limits");
+    this.fingerprint = fingerprint;
+    int v = segmenter.vocabularySize();
+    this.controlBytes = new byte[v][];
+    for (String s : controls.spellings()) {
+      int id = controls.id(s);
+      if (id >= v) {
+        throw new IllegalArgumentException("control token '" + s + "' has id " + id + ", outside the vocabulary of "
+            + v + " ids");
+      }
+      controlBytes[id] = s.getBytes(StandardCharsets.UTF_8);
+    }
+    this.beginIds = resolve(template.begin(), "begin");
+    this.separatorIds = resolve(template.separator(), "separator");
+    this.endIds = resolve(template.end(), "end");
+  }
+
+  private int[] resolve(List<String> spellings, String where) {
+    int[] out = new int[spellings.size()];
+    for (int i = 0; i < out.length; i++) {
+      int id = controls.id(spellings.get(i));
+      if (id < 0) {
+        throw new IllegalArgumentException("template " + where + " marker '" + spellings.get(i)
+            + "' is not a registered control token (registered: " + controls.spellings() + ")");
+      }
+      out[i] = id;
+    }
+    return out;
+  }
+
+  // ------------------------------------------------------------------ encode
+
+  @Override
+  public Tokens encode(CharSequence text, Trust trust) {
+    limits.checkText(text, "text");
+    Objects.requireNonNull(trust, "trust");
+    Scratch s = scratch();
+    Tokens.Builder b = s.builder;
+    frame(b, beginIds, 0, 0);
+    content(s, text, trust, 0);
+    frame(b, endIds, text.length(), 0);
+    return b.build();
+  }
+
+  @Override
+  public Tokens encodePair(CharSequence first, CharSequence second, Trust trust) {
+    limits.checkText(first, "first");
+    limits.checkText(second, "second");
+    Objects.requireNonNull(trust, "trust");
+    Scratch s = scratch();
+    Tokens.Builder b = s.builder;
+    frame(b, beginIds, 0, 0);
+    content(s, first, trust, 0);
+    frame(b, separatorIds, first.length(), 0);
+    content(s, second, trust, 1);
+    frame(b, endIds, second.length(), 1);
+    return b.build();
+  }
+
+  private static void frame(Tokens.Builder b, int[] ids, int at, int segment) {
+    for (int id : ids) {
+      b.add(id, at, at, segment, Tokens.CONTROL | Tokens.FRAME);
+    }
+  }
+
+  /** Encodes one text's content into the scratch builder. */
+  private void content(Scratch s, CharSequence text, Trust trust, int segment) {
+    s.segment = segment;
+    int n = text.length();
+    if (trust == Trust.TRUSTED && !controls.isEmpty()) {
+      int at = 0;
+      int[] hit = s.hit;
+      while (at < n) {
+        int found = controls.find(text, at, n, hit);
+        int stop = found < 0 ? n : found;
+        if (stop > at) {
+          plain(s, text, at, stop);
+        }
+        if (found < 0) {
+          break;
+        }
+        s.builder.add(hit[0], found, hit[1], segment, Tokens.CONTROL);
+        at = hit[1];
+      }
+    } else if (n > 0) {
+      plain(s, text, 0, n);
+    }
+  }
+
+  /** Normalizes, splits and segments {@code text[from, to)}, which holds no control token. */
+  private void plain(Scratch s, CharSequence text, int from, int to) {
+    NormalizedText norm = pipeline.normalization().apply(text, from, to);
+    s.norm = norm;
+    String t = norm.text();
+    s.normalized = t;
+    if (!t.isEmpty()) {
+      pipeline.splitting().split(t, 0, t.length(), s.pieceSink);
+    }
+    s.norm = null;
+    s.normalized = null;
+  }
+
+  @Override
+  public List<Tokens> encodeAll(List<? extends CharSequence> texts) {
+    return encodeAll(texts, Trust.UNTRUSTED, ForkJoinPool.commonPool());
+  }
+
+  @Override
+  public List<Tokens> encodeAll(List<? extends CharSequence> texts, Trust trust, Executor executor) {
+    Objects.requireNonNull(texts, "texts");
+    Objects.requireNonNull(trust, "trust");
+    Objects.requireNonNull(executor, "executor");
+    limits.checkBatch(texts.size());
+    int n = texts.size();
+    Tokens[] out = new Tokens[n];
+    // chunks of ~64 texts (or fewer when the batch is small) keep task overhead low and both cores busy
+    int chunk = Math.max(1, Math.min(64, n / 16));
+    List<CompletableFuture<Void>> tasks = new ArrayList<>();
+    for (int start = 0; start < n; start += chunk) {
+      int from = start;
+      int to = Math.min(n, start + chunk);
+      tasks.add(CompletableFuture.runAsync(() -> {
+        for (int i = from; i < to; i++) {
+          CharSequence t = texts.get(i);
+          if (t == null) {
+            throw new NullPointerException("text " + i + " of the batch is null");
+          }
+          out[i] = encode(t, trust);
+        }
+      }, executor));
+    }
+    try {
+      CompletableFuture.allOf(tasks.toArray(new CompletableFuture<?>[0])).join();
+    } catch (CompletionException e) {
+      Throwable c = e.getCause();
+      if (c instanceof RuntimeException) {
+        throw (RuntimeException) c;
+      }
+      if (c instanceof Error) {
+        throw (Error) c;
+      }
+      throw e;
+    }
+    return Arrays.asList(out);
+  }
+
+  @Override
+  public List<Tokens> encodeWindows(CharSequence text, int size, int stride) {
+    limits.checkText(text, "text");
+    if (size < 1 || stride < 1 || stride > size) {
+      throw new IllegalArgumentException("windows need 0 < stride <= size, got size=" + size + ", stride=" + stride);
+    }
+    Scratch s = scratch();
+    content(s, text, Trust.UNTRUSTED, 0);
+    Tokens all = s.builder.build();
+    int n = all.size();
+    List<Tokens> out = new ArrayList<>();
+    for (int start = 0; ; start += stride) {
+      int end = Math.min(n, start + size);
+      Tokens.Builder b = new Tokens.Builder(end - start + template.singleOverhead());
+      int first = start < n ? all.start(start) : text.length();
+      frame(b, beginIds, start == 0 ? 0 : first, 0);
+      for (int i = start; i < end; i++) {
+        b.add(all.id(i), all.start(i), all.end(i), 0, all.flags(i));
+      }
+      int last = end == n ? text.length() : (end > start ? all.end(end - 1) : first);
+      frame(b, endIds, last, 0);
+      out.add(b.build());
+      if (end >= n) {
+        break;
+      }
+    }
+    return out;
+  }
+
+  // ------------------------------------------------------------------ decode
+
+  /** Appends the bytes of {@code id}; returns false if it was dropped. */
+  boolean appendToken(int id, boolean dropControl, Utf8Decoding.ByteRun out, long position) {
+    if (id < 0 || id >= controlBytes.length) {
+      throw new IllegalArgumentException("id " + id + " at position " + position + " is outside the vocabulary of "
+          + controlBytes.length + " ids");
+    }
+    byte[] c = controlBytes[id];
+    if (c != null) {
+      if (dropControl) {
+        return false;
+      }
+      out.write(c, 0, c.length);
+      return true;
+    }
+    segmenter.decodeToken(id, out);
+    return true;
+  }
+
+  @Override
+  public String decode(int[] ids, boolean dropControl, Decoding decoding) {
+    Objects.requireNonNull(ids, "ids");
+    Objects.requireNonNull(decoding, "decoding");
+    Utf8Decoding.ByteRun run = new Utf8Decoding.ByteRun();
+    int[] starts = decoding == Decoding.STRICT ? new int[ids.length] : null;
+    int kept = 0;
+    for (int i = 0; i < ids.length; i++) {
+      int before = run.size;
+      if (appendToken(ids[i], dropControl, run, i) && starts != null) {
+        starts[kept++] = before;
+      }
+    }
+    return Utf8Decoding.decode(run.bytes, run.size, decoding, starts, kept, 0);
+  }
+
+  @Override
+  public StreamDecoder streamDecoder(boolean dropControl, Decoding decoding) {
+    return new Utf8Decoding.Stream(this, dropControl, Objects.requireNonNull(decoding, "decoding"));
+  }
+
+  // ------------------------------------------------------------------ vocabulary
+
+  @Override
+  public int vocabularySize() {
+    return controlBytes.length;
+  }
+
+  @Override
+  public String token(int id) {
+    Objects.checkIndex(id, controlBytes.length);
+    String c = controls.spelling(id);
+    return c != null ? c : segmenter.token(id);
+  }
+
+  @Override
+  public byte[] tokenBytes(int id) {
+    Utf8Decoding.ByteRun run = new Utf8Decoding.ByteRun();
+    appendToken(id, false, run, 0);
+    return Arrays.copyOf(run.bytes, run.size);
+  }
+
+  @Override
+  public int id(String token) {
+    int c = controls.id(token);
+    return c >= 0 ? c : segmenter.id(token);
+  }
+
+  @Override
+  public int unknownId() {
+    return segmenter.unknownId();
+  }
+
+  @Override
+  public String kind() {
+    return segmenter.kind();
+  }
+
+  @Override
+  public ControlTokens controlTokens() {
+    return controls;
+  }
+
+  @Override
+  public Template template() {
+    return template;
+  }
+
+  @Override
+  public Pipeline pipeline() {
+    return pipeline;
+  }
+
+  @Override
+  public Limits limits() {
+    return limits;
+  }
+
+  @Override
+  public Tokenizer withTemplate(Template t) {
+    return new PipelineTokenizer(pipeline, segmenter, controls, t, limits, null);
+  }
+
+  @Override
+  public Tokenizer withLimits(Limits l) {
+    return new PipelineTokenizer(pipeline, segmenter, controls, template, l, fingerprint);
+  }
+
+  /** The segmenter (for modules that need their own segmenter's extra features). */
+  Segmenter segmenter() {
+    return segmenter;
+  }
+
+  // ------------------------------------------------------------------ model file
+
+  ModelWriter sections() {
+    ModelWriter w = new ModelWriter();
+    w.section(KIND).putString(segmenter.kind());
+    w.section(PIPE).putString(pipeline.normalization().spec()).putString(pipeline.splitting().spec());
+    SectionWriter c = w.section(CTRL);
+    List<String> spellings = controls.spellings();
+    c.putInt(spellings.size());
+    for (String s : spellings) {
+      c.putInt(controls.id(s)).putString(s);
+    }
+    SectionWriter f = w.section(FRAM);
+    for (List<String> list : List.of(template.begin(), template.separator(), template.end())) {
+      f.putInt(list.size());
+      for (String s : list) {
+        f.putString(s);
+      }
+    }
+    segmenter.write(w);
+    return w;
+  }
+
+  @Override
+  public String fingerprint() {
+    String f = fingerprint;
+    if (f == null) {
+      f = ModelFile.fingerprint(sections().payloads());
+      fingerprint = f;
+    }
+    return f;
+  }
+
+  @Override
+  public byte[] toBytes() {
+    return ModelFile.write(sections().payloads());
+  }
+
+  @Override
+  public void save(Path path) {
+    Objects.requireNonNull(path, "path");
+    try {
+      Files.write(path, toBytes());
+    } catch (IOException e) {
+      throw new UncheckedIOException("cannot write model file " + path, e);
+    }
+  }
+
+  @Override
+  public String toString() {
+    return "Tokenizer[kind=" + kind() + ", vocabulary=" + vocabularySize() + ", " + pipeline + ", control tokens="
+        + controls.size() + "]";
+  }
+
+  // ------------------------------------------------------------------ internals
+
+  /** Per-thread state for one encode call: the result builder and the callbacks, allocated once. */
+  private final class Scratch {
+    final Tokens.Builder builder = new Tokens.Builder(256);
+    final int[] hit = new int[2];
+    NormalizedText norm;
+    String normalized;
+    int segment;
+
+    final TokenSink tokenSink = (id, start, end) -> {
+      NormalizedText n = norm;
+      builder.add(id, n.spanStart(start), n.spanEnd(end), segment, 0);
+    };
+
+    final PieceSink pieceSink = (start, end) -> segmenter.segment(normalized, start, end, tokenSink);
+
+  }
+
+  /** This thread's scratch, emptied; a scratch grown past 64 Ki tokens (1.1 MB of arrays) is replaced. */
+  private Scratch scratch() {
+    Scratch s = scratch.get();
+    if (s.builder.ids.length > 1 << 16) {
+      s = new Scratch();
+      scratch.set(s);
+    }
+    s.builder.clear();
+    return s;
+  }
+}

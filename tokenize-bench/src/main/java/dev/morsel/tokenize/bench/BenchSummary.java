@@ -1,0 +1,147 @@
+package dev.morsel.tokenize.bench;
+
+import java.io.IOException;
+import java.io.UncheckedIOException;
+import java.nio.charset.StandardCharsets;
+import java.nio.file.Files;
+import java.nio.file.Path;
+import java.nio.file.Paths;
+import java.util.ArrayList;
+import java.util.Arrays;
+import java.util.Collection;
+import java.util.LinkedHashMap;
+import java.util.List;
+import java.util.Locale;
+import java.util.Map;
+import java.util.concurrent.TimeUnit;
+import org.openjdk.jmh.results.RunResult;
+import org.openjdk.jmh.runner.Runner;
+import org.openjdk.jmh.runner.RunnerException;
+import org.openjdk.jmh.runner.options.ChainedOptionsBuilder;
+import org.openjdk.jmh.runner.options.OptionsBuilder;
+import org.openjdk.jmh.runner.options.TimeValue;
+
+/**
+ * Runs the benchmarks and writes {@code bench-summary.json}:
+ * {@code {"corpus_bytes": N, "figures": {name: MB/s or seconds}, "ratios": {name: x}}}.
+ *
+ * <p>Usage: {@code java -jar morsel-bench.jar [--out FILE] [--only REGEX]}, or
+ * {@code java -jar morsel-bench.jar --jmh ARGS...} to run JMH's own command line. The documented
+ * command is {@code tokenize-bench/summary.sh}, which builds the jar and runs this.
+ *
+ * <p>Figures: each JMH benchmark's average time per operation is turned into MB/s with the UTF-8
+ * size of the input one operation processes ({@link Figure#bytes}); figures whose name ends in
+ * {@code _s} are seconds for one operation. Settings are short enough for 2 cores (one fork, 2
+ * warm-up and 3 measured iterations of 1 s each, fixed in the benchmark classes).
+ */
+public final class BenchSummary {
+
+  /** One figure: a JMH benchmark method, and the bytes one of its operations processes (0 = seconds). */
+  record Figure(String name, String benchmark, long bytes) {}
+
+  private BenchSummary() {}
+
+  /** The figures, in report order. Segmenter modules add theirs here. */
+  static List<Figure> figures() {
+    long corpus = Corpus.utf8Bytes(Corpus.bodies());
+    List<Figure> f = new ArrayList<>();
+    f.add(new Figure("utf8", FloorBenchmarks.class.getName() + ".utf8", corpus));
+    f.add(new Figure("normalize_nfkc", FloorBenchmarks.class.getName() + ".normalizeNfkc", corpus));
+    f.add(new Figure("split", FloorBenchmarks.class.getName() + ".split", corpus));
+    f.add(new Figure("count_pieces", FloorBenchmarks.class.getName() + ".countPieces", corpus));
+    return f;
+  }
+
+  /** Ratio name → {numerator figure, denominator figure}; MB/s figures divide as throughput. */
+  static Map<String, String[]> ratios() {
+    Map<String, String[]> r = new LinkedHashMap<>();
+    r.put("split_vs_utf8", new String[] {"split", "utf8"});
+    return r;
+  }
+
+  /** Entry point. */
+  public static void main(String[] args) throws RunnerException {
+    if (args.length > 0 && args[0].equals("--jmh")) {
+      try {
+        org.openjdk.jmh.Main.main(Arrays.copyOfRange(args, 1, args.length));
+      } catch (IOException e) {
+        throw new UncheckedIOException(e);
+      }
+      return;
+    }
+    Path out = Paths.get("tokenize-bench/target/bench-summary.json");
+    String only = ".*";
+    for (int i = 0; i < args.length; i++) {
+      switch (args[i]) {
+        case "--out":
+          out = Paths.get(args[++i]);
+          break;
+        case "--only":
+          only = args[++i];
+          break;
+        default:
+          System.err.println("unknown option " + args[i] + "; usage: [--out FILE] [--only REGEX] | --jmh ARGS...");
+          System.exit(2);
+      }
+    }
+    long corpusBytes = Corpus.utf8Bytes(Corpus.bodies());
+    Map<String, Double> values = new LinkedHashMap<>();
+    for (Figure f : figures()) {
+      if (!f.name().matches(only)) {
+        continue;
+      }
+      ChainedOptionsBuilder o = new OptionsBuilder().include("^" + f.benchmark().replace(".", "\\.") + "$")
+          .shouldFailOnError(true);
+      if (f.bytes() == 0) {
+        o.timeUnit(TimeUnit.MILLISECONDS);
+      }
+      Collection<RunResult> results = new Runner(o.build()).run();
+      for (RunResult rr : results) {
+        double score = rr.getPrimaryResult().getScore();
+        TimeUnit unit = rr.getParams().getTimeUnit();
+        double seconds = score * unit.toNanos(1) / 1e9; // seconds per operation
+        double value = f.bytes() == 0 ? seconds : f.bytes() / 1e6 / seconds;
+        values.put(f.name(), value);
+        System.out.printf(Locale.ROOT, "%-32s %12.3f %s%n", f.name(), value, f.bytes() == 0 ? "s" : "MB/s");
+      }
+    }
+    Map<String, Double> ratioValues = new LinkedHashMap<>();
+    for (Map.Entry<String, String[]> e : ratios().entrySet()) {
+      Double a = values.get(e.getValue()[0]);
+      Double b = values.get(e.getValue()[1]);
+      if (a != null && b != null) {
+        ratioValues.put(e.getKey(), a / b);
+      }
+    }
+    write(out, corpusBytes, values, ratioValues);
+    System.out.println("wrote " + out.toAbsolutePath());
+  }
+
+  static void write(Path out, long corpusBytes, Map<String, Double> figures, Map<String, Double> ratios) {
+    StringBuilder sb = new StringBuilder();
+    sb.append("{\n  \"corpus_bytes\": ").append(corpusBytes).append(",\n  \"figures\": {");
+    appendMap(sb, figures);
+    sb.append("},\n  \"ratios\": {");
+    appendMap(sb, ratios);
+    sb.append("}\n}\n");
+    try {
+      Path parent = out.toAbsolutePath().getParent();
+      if (parent != null) {
+        Files.createDirectories(parent);
+      }
+      Files.write(out, sb.toString().getBytes(StandardCharsets.UTF_8));
+    } catch (IOException e) {
+      throw new UncheckedIOException("cannot write " + out, e);
+    }
+  }
+
+  private static void appendMap(StringBuilder sb, Map<String, Double> m) {
+    boolean first = true;
+    for (Map.Entry<String, Double> e : m.entrySet()) {
+      sb.append(first ? "\n" : ",\n").append("    \"").append(e.getKey()).append("\": ")
+          .append(String.format(Locale.ROOT, "%.4f", e.getValue()));
+      first = false;
+    }
+    sb.append(first ? "" : "\n  ");
+  }
+}
