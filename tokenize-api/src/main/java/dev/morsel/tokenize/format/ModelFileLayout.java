@@ -223,16 +223,21 @@ final class ModelFileLayout {
       throw new ModelFormatException("header", "CRC-32C of header and table at offset " + HEADER_CRC_OFFSET + " is "
           + hexInt(storedCrc) + ", computed " + hexInt(crc));
     }
+    String[] tags = new String[n]; // n <= maxSections (checked above)
+    for (int i = 0; i < n; i++) {
+      int entry = HEADER_LENGTH + ENTRY_LENGTH * i;
+      tags[i] = readTag(f, entry, i);
+      if (i > 0 && tags[i - 1].compareTo(tags[i]) >= 0) {
+        throw new ModelFormatException("table", "entry " + i + " at offset " + entry + ": tag " + tags[i]
+            + (tags[i - 1].equals(tags[i]) ? " repeats the previous entry" : " is out of order after " + tags[i - 1]));
+      }
+    }
     TreeMap<String, ByteBuffer> out = new TreeMap<>();
     String previous = null;
     long expectedOffset = tableEnd;
     for (int i = 0; i < n; i++) {
       int entry = HEADER_LENGTH + ENTRY_LENGTH * i;
-      String tag = readTag(f, entry, i);
-      if (previous != null && previous.compareTo(tag) >= 0) {
-        throw new ModelFormatException("table", "entry " + i + " at offset " + entry + ": tag " + tag
-            + (previous.equals(tag) ? " repeats the previous entry" : " is out of order after " + previous));
-      }
+      String tag = tags[i];
       previous = tag;
       long offset = f.getLong(entry + ENTRY_PAYLOAD_OFFSET);
       long length = f.getLong(entry + ENTRY_PAYLOAD_LENGTH);
