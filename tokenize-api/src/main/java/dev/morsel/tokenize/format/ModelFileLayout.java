@@ -171,7 +171,7 @@ final class ModelFileLayout {
    * length read from the file; every failure is a {@link ModelFormatException}.
    */
   static Map<String, ByteBuffer> validate(ByteBuffer file, ModelLimits limits) {
-    ByteBuffer f = file.slice().order(ByteOrder.LITTLE_ENDIAN).asReadOnlyBuffer().order(ByteOrder.LITTLE_ENDIAN);
+    ByteBuffer f = file.slice().asReadOnlyBuffer().order(ByteOrder.LITTLE_ENDIAN);
     final int size = f.remaining();
     if (size > limits.maxModelBytes()) {
       throw new ModelFormatException("header", "file of " + size + " bytes exceeds the limit maxModelBytes="

@@ -201,6 +201,24 @@ class ModelFileTest {
     assertArrayEquals(raw, ModelFile.write(Map.of("KIND", kind, "VOCB", vocb)));
   }
 
+  /** The worked example in docs/format.md, section 2.8, byte for byte. */
+  @Test
+  void documentedExampleBytes() {
+    ModelWriter w = new ModelWriter();
+    w.section("KIND").putString("skerry");
+    String documented = "9e4d4f52530d0a00" + "00000100" + "01000000" + "4800000000000000" + "00000000" + "5754aa46"
+        + "4b494e44" + "8c3923df" + "3800000000000000" + "0a00000000000000"
+        + "06000000736b6572" + "7279000000000000";
+    assertEquals(documented, Digests.hex(w.toModelFile()));
+    // the CRCs quoted there, recomputed with the independent bitwise CRC-32C
+    byte[] f = w.toModelFile();
+    byte[] covered = new byte[28 + 24];
+    System.arraycopy(f, 0, covered, 0, 28);
+    System.arraycopy(f, 32, covered, 28, 24);
+    assertEquals(0x46AA5457, DigestsTest.bitwiseCrc32c(covered));
+    assertEquals(0xDF23398C, DigestsTest.bitwiseCrc32c(java.util.Arrays.copyOfRange(f, 56, 66)));
+  }
+
   @Test
   void emptyModelIsJustTheHeader() {
     byte[] file = ModelFile.write(Map.of());
