@@ -10,6 +10,7 @@ public final class ModelFormatException extends RuntimeException {
   private static final long serialVersionUID = 1L;
 
   private final String section;
+  private final String detail;
 
   /**
    * @param section the section tag (or a file/line description) where the problem is; may be {@code "header"}
@@ -18,12 +19,31 @@ public final class ModelFormatException extends RuntimeException {
   public ModelFormatException(String section, String message) {
     super("model section " + section + ": " + message);
     this.section = section;
+    this.detail = message;
   }
 
   /** As {@link #ModelFormatException(String, String)} with a cause. */
   public ModelFormatException(String section, String message, Throwable cause) {
     super("model section " + section + ": " + message, cause);
     this.section = section;
+    this.detail = message;
+  }
+
+  /** For text sources: the message is {@code "<source>:<line>: <message>"}. */
+  private ModelFormatException(String sourceLine, String message, boolean text) {
+    super(sourceLine + ": " + message);
+    this.section = sourceLine;
+    this.detail = message;
+  }
+
+  /** A text-format error at {@code source:line} (1-based line). */
+  static ModelFormatException atLine(String source, long line, String message) {
+    return new ModelFormatException(source + ":" + line, message, true);
+  }
+
+  /** The message without the section prefix. */
+  String detail() {
+    return detail;
   }
 
   /** The section tag, or {@code "header"}, {@code "table"}, or a source description for text formats. */

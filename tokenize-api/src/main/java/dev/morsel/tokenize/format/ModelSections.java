@@ -1,5 +1,6 @@
 package dev.morsel.tokenize.format;
 
+import java.nio.ByteBuffer;
 import java.util.Set;
 
 /**
@@ -20,6 +21,17 @@ public interface ModelSections {
    * @throws ModelFormatException if the section is missing
    */
   SectionReader reader(String tag);
+
+  /**
+   * A read-only, little-endian view of section {@code tag}'s whole payload (no copy; a fresh view each
+   * call, position 0).
+   *
+   * @throws ModelFormatException if the section is missing
+   */
+  default ByteBuffer payload(String tag) {
+    SectionReader r = reader(tag);
+    return r.getSlice("payload", r.remaining());
+  }
 
   /** SHA-256 (lowercase hex) of the canonical content: every section but {@code META}, in tag order. */
   String fingerprint();

@@ -36,6 +36,11 @@ public final class ModelWriter {
     return w;
   }
 
+  /** The model file bytes for the sections written so far; same as {@code ModelFile.write(payloads())}. */
+  public byte[] toModelFile() {
+    return ModelFile.write(payloads());
+  }
+
   /** Section payloads by tag, in tag order. */
   public Map<String, byte[]> payloads() {
     Map<String, byte[]> out = new TreeMap<>();

@@ -20,7 +20,7 @@ public final class SectionReader {
 
   /** Reads {@code payload} (its position to its limit) as section {@code tag}. */
   public SectionReader(String tag, ByteBuffer payload) {
-    this.tag = tag;
+    this.tag = java.util.Objects.requireNonNull(tag, "tag");
     this.buf = payload.slice().order(ByteOrder.LITTLE_ENDIAN);
   }
 
@@ -96,6 +96,21 @@ public final class SectionReader {
     byte[] b = new byte[n];
     buf.get(b);
     return b;
+  }
+
+  /**
+   * A read-only view of the next {@code length} bytes (no copy), little-endian, position 0; advances
+   * past them. Lets segmenters use large arrays in place (e.g. {@code getSlice(..).asIntBuffer()}).
+   *
+   * @throws ModelFormatException if fewer than {@code length} bytes remain or {@code length < 0}
+   */
+  public ByteBuffer getSlice(String what, int length) {
+    need(length, what);
+    int at = buf.position();
+    ByteBuffer view = buf.duplicate().position(at).limit(at + length).slice().asReadOnlyBuffer()
+        .order(ByteOrder.LITTLE_ENDIAN);
+    buf.position(at + length);
+    return view;
   }
 
   /** Reads a length-prefixed UTF-8 string, rejecting malformed UTF-8. */

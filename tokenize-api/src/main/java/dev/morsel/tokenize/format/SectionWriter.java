@@ -9,17 +9,22 @@ import java.util.Arrays;
  * @since 0.1.0
  */
 public final class SectionWriter {
+  /** Largest payload: the largest array most JVMs allocate (Integer.MAX_VALUE - 16, a margin for headers). */
+  private static final int MAX_PAYLOAD = Integer.MAX_VALUE - 16;
+
   private byte[] buf = new byte[64];
   private int size;
 
   SectionWriter() {}
 
-  private void ensure(int extra) {
+  private void ensure(long extra) {
     if (size + extra > buf.length) {
-      long want = Math.max((long) buf.length * 2, (long) size + extra);
-      if (want > Integer.MAX_VALUE - 16) {
-        throw new IllegalStateException("section payload over 2 GiB");
+      long need = size + extra;
+      if (need > MAX_PAYLOAD) {
+        throw new IllegalStateException("section payload of " + need + " bytes would exceed " + MAX_PAYLOAD
+            + " bytes (a model file is at most ModelFile.MAX_MODEL_BYTES)");
       }
+      long want = Math.max(Math.min((long) buf.length * 2, MAX_PAYLOAD), need);
       buf = Arrays.copyOf(buf, (int) want);
     }
   }
@@ -74,7 +79,7 @@ public final class SectionWriter {
   /** Appends an int array prefixed with its length (u32). */
   public SectionWriter putInts(int[] a) {
     putInt(a.length);
-    ensure(4 * a.length);
+    ensure(4L * a.length);
     for (int v : a) {
       putInt(v);
     }
