@@ -28,10 +28,10 @@ import java.util.concurrent.ForkJoinPool;
  */
 final class PipelineTokenizer implements Tokenizer {
   /** Model section tags written by the api (see docs/format.md). */
-  static final String KIND = "KIND";
-  static final String PIPE = "PIPE";
-  static final String CTRL = "CTRL";
-  static final String FRAM = "FRAM";
+  static final String KIND = ModelFile.TAG_KIND;
+  static final String PIPE = ModelFile.TAG_PIPE;
+  static final String CTRL = ModelFile.TAG_CTRL;
+  static final String FRAM = ModelFile.TAG_FRAM;
 
   // ------------------------------------------------------------------ configuration
 
