@@ -233,6 +233,28 @@ final class PipelineTokenizer implements Tokenizer {
     return out;
   }
 
+  @Override
+  public List<String> explain(CharSequence text) {
+    limits.checkText(text, "text");
+    NormalizedText norm = pipeline.normalization().apply(text, 0, text.length());
+    String t = norm.text();
+    List<String> out = new ArrayList<>();
+    out.add("normalized (" + pipeline.normalization().spec() + "): \"" + t + "\"");
+    List<int[]> pieces = new ArrayList<>();
+    if (!t.isEmpty()) {
+      pipeline.splitting().split(t, 0, t.length(), (s, e) -> pieces.add(new int[] {s, e}));
+    }
+    out.add(pieces.size() + " piece(s) (" + pipeline.splitting().spec() + ")");
+    for (int[] p : pieces) {
+      out.add("piece \"" + t.substring(p[0], p[1]) + "\" from original [" + norm.spanStart(p[0]) + ", "
+          + norm.spanEnd(p[1]) + ")");
+      for (String line : segmenter.explain(t, p[0], p[1])) {
+        out.add("  " + line);
+      }
+    }
+    return out;
+  }
+
   // ------------------------------------------------------------------ decode
 
   /** Appends the bytes of {@code id}; returns false if it was dropped. */

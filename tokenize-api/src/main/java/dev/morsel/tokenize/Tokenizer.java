@@ -52,6 +52,13 @@ public interface Tokenizer {
    */
   List<Tokens> encodeWindows(CharSequence text, int size, int stride);
 
+  /**
+   * Explains, for people, how {@code text} is encoded: the normalized text, each piece, and the
+   * segmenter's own account of each piece (merges applied, matches and back-offs, best paths).
+   * Treats the text as untrusted.
+   */
+  java.util.List<String> explain(CharSequence text);
+
   // ------------------------------------------------------------------ decode
 
   /** Decodes ids to text, keeping control tokens' spellings; ill-formed UTF-8 becomes U+FFFD. */

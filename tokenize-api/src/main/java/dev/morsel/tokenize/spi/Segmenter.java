@@ -53,6 +53,18 @@ public interface Segmenter {
    */
   void decodeToken(int id, ByteSink out);
 
+  /**
+   * Explains, one line each, why {@code text[start, end)} (one piece) segments the way it does: for
+   * example the merges applied in order, the matches and back-offs, or the best and runner-up paths.
+   * For people, not machines; the default lists the tokens.
+   */
+  default java.util.List<String> explain(CharSequence text, int start, int end) {
+    java.util.List<String> out = new java.util.ArrayList<>();
+    segment(text, start, end, (id, s, e) -> out.add("token " + id + " '" + token(id) + "' for ["
+        + s + ", " + e + ")"));
+    return out;
+  }
+
   /** Writes this segmenter's sections of the model file. */
   void write(ModelWriter out);
 }
