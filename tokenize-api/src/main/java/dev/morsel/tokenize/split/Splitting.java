@@ -49,8 +49,9 @@ import java.util.Objects;
  * <ul>
  *   <li>a maximal run of one class among letter, punctuation, symbol, replacement and each "other"
  *       category; a mark always continues the piece before it (it stays in its grapheme cluster), and
- *       a code point with {@code Extended_Pictographic} directly after U+200D continues the piece too,
- *       so emoji ZWJ sequences and skin tones are never cut. An apostrophe is punctuation even
+ *       an {@code Extended_Pictographic} code point continues the piece when it follows
+ *       {@code Extended_Pictographic Extend* U+200D} (rule GB11 of [2]), so emoji ZWJ sequences and
+ *       skin tones are never cut. An apostrophe is punctuation even
  *       between letters: {@code "ferry's"} is {@code "ferry" "'" "s"} (kept simple on purpose).
  *       A mark with nothing before it in its piece (at the start, or after whitespace) starts a
  *       piece of marks;
@@ -324,10 +325,35 @@ public final class Splitting {
     return cp < 0x10000 ? Bmp.TABLE[cp] : classifyIcu(cp);
   }
 
-  /** Whether a piece may continue with a code point of class {@code cls} at {@code i}. */
-  private static boolean joinsPrevious(CharSequence text, int i, int cp, byte cls) {
-    return cls == MARK
-        || (text.charAt(i - 1) == ZWJ && UCharacter.hasBinaryProperty(cp, UProperty.EXTENDED_PICTOGRAPHIC));
+  /**
+   * Whether the piece that began at {@code from} may continue with code point {@code cp} of class
+   * {@code cls} at {@code i}: a mark always does; a pictograph does when it follows
+   * {@code Extended_Pictographic Extend* ZWJ} (UAX #29 rule GB11).
+   */
+  private static boolean joinsPrevious(CharSequence text, int from, int i, int cp, byte cls) {
+    if (cls == MARK) {
+      return true;
+    }
+    if (text.charAt(i - 1) != ZWJ || !UCharacter.hasBinaryProperty(cp, UProperty.EXTENDED_PICTOGRAPHIC)) {
+      return false;
+    }
+    // walk back over the marks before the ZWJ; linear overall, as each walk stops at the last non-mark
+    int j = i - 1;
+    while (j > from) {
+      int before = text.charAt(j - 1);
+      if (Character.isLowSurrogate((char) before) && j - 2 >= from && Character.isHighSurrogate(text.charAt(j - 2))) {
+        before = Character.toCodePoint(text.charAt(j - 2), (char) before);
+      }
+      if (classifyAny(before) != MARK) {
+        return UCharacter.hasBinaryProperty(before, UProperty.EXTENDED_PICTOGRAPHIC);
+      }
+      j -= Character.charCount(before);
+    }
+    return false;
+  }
+
+  private static byte classifyAny(int cp) {
+    return cp < 128 ? ASCII[cp] : classifyNonAscii(cp);
   }
 
   /** The code point at {@code i}, not looking at or beyond {@code end} for a low surrogate. */
@@ -384,15 +410,15 @@ public final class Splitting {
           }
           break;
         case DIGIT:
-          j = scanDigits(text, i + n, end, maxDigits - 1);
+          j = scanDigits(text, i, i + n, end, maxDigits - 1);
           sink.piece(pieceStart, j);
           break;
         case IDEOGRAPH:
-          j = scanRun(text, i + n, end, MARK);
+          j = scanRun(text, i, i + n, end, MARK);
           sink.piece(pieceStart, j);
           break;
         default:
-          j = scanRun(text, i + n, end, cls);
+          j = scanRun(text, i, i + n, end, cls);
           sink.piece(pieceStart, j);
           break;
       }
@@ -421,8 +447,8 @@ public final class Splitting {
     return i;
   }
 
-  /** End of the run of class {@code cls} (plus marks and ZWJ-joined pictographs) from {@code i}. */
-  private static int scanRun(CharSequence text, int i, int end, byte cls) {
+  /** End of the run of class {@code cls} (plus marks and ZWJ-joined pictographs) from {@code i}; the piece began at {@code from}. */
+  private static int scanRun(CharSequence text, int from, int i, int end, byte cls) {
     final byte[] ascii = ASCII;
     while (i < end) {
       char c = text.charAt(i);
@@ -434,7 +460,7 @@ public final class Splitting {
       } else {
         int cp = codePointAt(text, i, end);
         byte k = classifyNonAscii(cp);
-        if (k != cls && !joinsPrevious(text, i, cp, k)) {
+        if (k != cls && !joinsPrevious(text, from, i, cp, k)) {
           return i;
         }
         i += Character.charCount(cp);
@@ -444,7 +470,7 @@ public final class Splitting {
   }
 
   /** End of a digit group from {@code i} that may take {@code left} more digits (and any marks). */
-  private static int scanDigits(CharSequence text, int i, int end, int left) {
+  private static int scanDigits(CharSequence text, int from, int i, int end, int left) {
     final byte[] ascii = ASCII;
     while (i < end) {
       char c = text.charAt(i);
@@ -462,7 +488,7 @@ public final class Splitting {
             return i;
           }
           left--;
-        } else if (!joinsPrevious(text, i, cp, k)) {
+        } else if (!joinsPrevious(text, from, i, cp, k)) {
           return i;
         }
         i += Character.charCount(cp);
