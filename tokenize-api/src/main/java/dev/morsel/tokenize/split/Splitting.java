@@ -530,14 +530,17 @@ public final class Splitting {
 
   // ---------------------------------------------------------------- internals: WORDS
 
-  private static final BreakIterator WORD_PROTOTYPE = BreakIterator.getWordInstance(ULocale.ROOT);
+  /** Loaded on first use of WORDS mode only (ICU reads its break rules then). */
+  private static final class Words {
+    static final BreakIterator PROTOTYPE = BreakIterator.getWordInstance(ULocale.ROOT);
 
-  /** BreakIterator is not thread-safe: one clone per thread. */
-  private static final ThreadLocal<BreakIterator> WORD_ITERATOR =
-      ThreadLocal.withInitial(() -> (BreakIterator) WORD_PROTOTYPE.clone());
+    /** BreakIterator is not thread-safe: one clone per thread. */
+    static final ThreadLocal<BreakIterator> ITERATOR =
+        ThreadLocal.withInitial(() -> PROTOTYPE.clone());
+  }
 
   private static void splitWords(CharSequence text, int start, int end, PieceSink sink) {
-    BreakIterator it = WORD_ITERATOR.get();
+    BreakIterator it = Words.ITERATOR.get();
     CharSequence range = start == 0 && end == text.length() ? text : text.subSequence(start, end);
     it.setText(range);
     try {
