@@ -6,15 +6,16 @@ import java.util.SplittableRandom;
 /**
  * A bounded, thread-safe cache from a piece's characters to its tokens.
  *
- * <p>Direct-mapped: a fixed array of {@code capacity} slots (a power of two), each holding one
- * immutable {@link Entry} (final fields only, so any thread that sees the reference sees its
+ * <p>Two-way set associative: a fixed array of {@code capacity} slots (a power of two, at least 2),
+ * paired into sets by the hash; a new entry takes an empty way of its set, else a way chosen by a hash
+ * bit (a fixed, not recency-based, replacement). Each slot holds one immutable {@link Entry} (final fields only, so any thread that sees the reference sees its
  * contents). Writers overwrite a slot without locking; a reader either finds the full entry it
  * checks, another piece's entry (a miss, detected by comparing the characters) or null. Races
  * therefore only cost misses, never wrong results. A hit compares characters and emits tokens: no
  * allocation.
  *
  * <p>Slots are chosen by a 64-bit hash seeded per cache instance at random, so untrusted text cannot
- * aim many pieces at one slot in advance; and since a slot holds one entry (no chains), even a
+ * aim many pieces at one slot in advance; and since a set holds two entries (no chains), even a
  * successful collision attack only turns hits into misses, whose cost is bounded by the encoder.
  */
 public final class PieceCache {
@@ -25,12 +26,9 @@ public final class PieceCache {
   private final int mask;
   private final long seed;
 
-  /** A cache of at least {@code entries} slots (rounded up to a power of two; at least 1). */
+  /** A cache of at least {@code entries} slots (rounded up to a power of two; at least 2). */
   public PieceCache(int entries) {
-    int cap = Integer.highestOneBit(Math.max(1, entries - 1)) << 1;
-    if (entries <= 1) {
-      cap = 1;
-    }
+    int cap = entries <= 2 ? 2 : Integer.highestOneBit(entries - 1) << 1;
     this.slots = new Entry[cap];
     this.mask = cap - 1;
     this.seed = new SplittableRandom().nextLong() | 1L;
@@ -54,9 +52,13 @@ public final class PieceCache {
   }
 
   boolean emitIfPresent(long hash, CharSequence text, int start, int end, TokenSink sink) {
-    Entry e = slots[(int) hash & mask];
+    int set = (int) hash & mask & ~1;
+    Entry e = slots[set];
     if (e == null || e.hash != hash) {
-      return false;
+      e = slots[set | 1];
+      if (e == null || e.hash != hash) {
+        return false;
+      }
     }
     char[] key = e.key;
     if (key.length != end - start) {
@@ -88,7 +90,9 @@ public final class PieceCache {
       d[3 * j + 1] = s.charStart[bs];
       d[3 * j + 2] = s.charEnd[be - 1];
     }
-    slots[(int) hash & mask] = new Entry(hash, key, d);
+    int set = (int) hash & mask & ~1;
+    int way = slots[set] == null ? 0 : slots[set | 1] == null ? 1 : (int) (hash >>> 40) & 1;
+    slots[set | way] = new Entry(hash, key, d);
   }
 
   /** One cached piece: immutable. */
