@@ -14,8 +14,8 @@ import java.util.SplittableRandom;
  *       adjacent pair, O(k^2) integer compares but only O(k) map lookups;
  *   <li>longer pieces: a doubly linked list over the byte positions plus a binary heap of
  *       {@code (rank << 32 | position)} longs, lazily invalidated: a popped entry is applied only if
- *       its position is alive and the pair now there still has that rank. Each merge pushes at most two
- *       entries, so the heap holds at most 3k entries and the work is O(k log k).
+ *       its position is alive and the pair now there still has that rank. Each merge pops one entry and pushes at most two,
+ *       so the heap holds at most 2k entries and the work is O(k log k).
  * </ul>
  * Since ranks identify pairs, "leftmost among equal ranks" is "smallest position" in the heap order.
  *
@@ -33,6 +33,12 @@ import java.util.SplittableRandom;
 public final class Encoder {
   /** Pieces up to this many UTF-8 bytes take the array scan (k^2/2 = 128 int compares at most). */
   public static final int SHORT_PIECE_BYTES = 16;
+  /**
+   * Scratch kept per thread covers pieces up to this many UTF-16 units (about 21 bytes of arrays per
+   * unit, so 4,096 units keep about 86 KiB); buffers grown for longer pieces are dropped afterwards, so
+   * one huge piece does not pin hundreds of MiB per thread.
+   */
+  static final int RETAINED_PIECE_CHARS = 4096;
 
   private final Vocab vocab;
   private final int base; // id of byte 0
@@ -77,6 +83,9 @@ public final class Encoder {
       cache.store(hash, text, start, end, s, m);
     }
     s.emit(m, start, sink);
+    if (len > RETAINED_PIECE_CHARS) {
+      scratch.remove();
+    }
   }
 
   /** Segments with BPE-dropout probability {@code p}, drawing from {@code random}; never cached. */
@@ -88,6 +97,9 @@ public final class Encoder {
     int n = s.load(text, start, end);
     int m = mergeHeap(s, n, p, random);
     s.emit(m, start, sink);
+    if (end - start > RETAINED_PIECE_CHARS) {
+      scratch.remove();
+    }
   }
 
   /** Test hook: the array-scan path on any length; ids into {@code out}, returns the count. */
@@ -156,7 +168,7 @@ public final class Encoder {
 
   /** Linked list + heap; with {@code p > 0} applies dropout. Leaves output like {@link #mergeShort}. */
   private int mergeHeap(Scratch s, int n, double p, SplittableRandom random) {
-    s.ensureHeap(n);
+    s.ensureHeap(n, p > 0.0);
     final int[] sym = s.sym;
     final int[] next = s.next;
     final int[] prev = s.prev;
@@ -260,13 +272,16 @@ public final class Encoder {
       return byteCount;
     }
 
-    void ensureHeap(int n) {
+    /** Heap bound: n-1 initial entries, and each merge pops one and pushes at most two: 2n. */
+    void ensureHeap(int n, boolean dropout) {
       if (sym.length < n) {
         sym = new int[n];
         next = new int[n];
         prev = new int[n];
-        heap = new long[3 * n];
-        dropped = new long[3 * n];
+        heap = new long[2 * n];
+      }
+      if (dropout && dropped.length < 2 * n) {
+        dropped = new long[2 * n];
       }
     }
 
