@@ -79,7 +79,7 @@ public final class BpeSegmenter implements Segmenter {
     this.encoder = encoder;
     this.controlTokens = controls;
     this.cacheEntries = cacheEntries;
-    this.cache = cacheEntries == 0 ? null : new PieceCache(cacheEntries);
+    this.cache = cacheEntries == 0 || dropout > 0 ? null : new PieceCache(cacheEntries); // dropout bypasses it
     this.dropout = dropout;
     this.seed = seed;
     if (dropout > 0) {

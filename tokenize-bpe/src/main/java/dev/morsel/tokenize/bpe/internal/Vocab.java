@@ -23,6 +23,7 @@ public final class Vocab {
   /** Builds error exceptions: (entry index, message) → exception to throw. */
   @FunctionalInterface
   public interface Failure {
+    /** The exception for a problem with merge entry {@code index}. */
     RuntimeException at(int index, String message);
   }
 
