@@ -1,0 +1,372 @@
+package dev.morsel.tokenize.bpe;
+
+import dev.morsel.tokenize.ControlTokens;
+import dev.morsel.tokenize.bpe.internal.BpeSections;
+import dev.morsel.tokenize.bpe.internal.ByteSpelling;
+import dev.morsel.tokenize.bpe.internal.Encoder;
+import dev.morsel.tokenize.bpe.internal.PieceCache;
+import dev.morsel.tokenize.bpe.internal.Vocab;
+import dev.morsel.tokenize.format.ModelFormatException;
+import dev.morsel.tokenize.format.ModelSections;
+import dev.morsel.tokenize.format.ModelWriter;
+import dev.morsel.tokenize.spi.ByteSink;
+import dev.morsel.tokenize.spi.Segmenter;
+import dev.morsel.tokenize.spi.TokenSink;
+import java.io.BufferedReader;
+import java.io.IOException;
+import java.io.Reader;
+import java.io.UncheckedIOException;
+import java.nio.charset.StandardCharsets;
+import java.util.HashMap;
+import java.util.List;
+import java.util.Map;
+import java.util.Objects;
+import java.util.SplittableRandom;
+
+/**
+ * Byte-level BPE segmenter: applies ranked merges to the UTF-8 bytes of each piece. Immutable and
+ * thread-safe; allocates nothing per token (per-thread scratch buffers, and cache hits allocate
+ * nothing at all).
+ *
+ * <p>Vocabulary: control tokens {@code 0..k-1} (never produced by {@link #segment}), then the 256
+ * byte tokens {@code k..k+255} (all present, so there is no unknown token), then one token per merge
+ * in rank order. Segmentation repeatedly merges the lowest-ranked adjacent pair, leftmost first among
+ * equal ranks [1]; a token that holds part of a multi-byte character reports that whole character's
+ * span; a lone surrogate is encoded as U+FFFD (normalization already replaces it; this is defensive).
+ *
+ * <p>Display spellings ({@link #token}): a token's bytes as text where they are well-formed UTF-8,
+ * with {@code \\} for a backslash, and {@code \xHH} (lowercase hex) for C0 controls, DEL, and every
+ * byte not part of a complete well-formed UTF-8 sequence. Control tokens show their spelling. Token
+ * bytes are unique, so spellings are unique, and {@link #id(String)} inverts {@link #token(int)}.
+ *
+ * <p>Piece cache: on by default with {@link #DEFAULT_CACHE_ENTRIES} entries; see
+ * {@link #withCacheEntries(int)}. Results are identical with the cache on or off, cold or warm.
+ * BPE-dropout [2]: {@link #withDropout(double, long)}.
+ *
+ * <p>References: [1] Sennrich, Haddow, Birch (2016), "Neural Machine Translation of Rare Words with
+ * Subword Units", ACL 2016. [2] Provilkov, Emelianenko, Voita (2020), "BPE-Dropout: Simple and
+ * Effective Subword Regularization", ACL 2020.
+ *
+ * @since 0.1.0
+ */
+public final class BpeSegmenter implements Segmenter {
+  /** Kind name in model files. */
+  public static final String KIND = "bpe";
+  /**
+   * Default piece cache size, in entries (one entry = one distinct piece of up to 256 UTF-16 units and
+   * its tokens; 65,536 entries cover the frequent pieces of a typical language with a few MiB).
+   */
+  public static final int DEFAULT_CACHE_ENTRIES = 65_536;
+  /** Largest allowed cache, in entries. */
+  public static final int MAX_CACHE_ENTRIES = BpeSections.MAX_CACHE_ENTRIES;
+  /** Longest token a model may hold, in bytes. */
+  public static final int MAX_TOKEN_BYTES = Vocab.MAX_TOKEN_BYTES;
+
+  // ------------------------------------------------------------------ state
+
+  private final Vocab vocab;
+  private final Encoder encoder;
+  private final ControlTokens controlTokens;
+  private final int cacheEntries;
+  private final PieceCache cache; // null when off
+  private final double dropout;
+  private final long seed;
+  private final SplittableRandom dropoutRoot; // null when dropout is off
+  private final ThreadLocal<SplittableRandom> dropoutRandom;
+
+  private BpeSegmenter(Vocab vocab, Encoder encoder, ControlTokens controls, int cacheEntries, double dropout, long seed) {
+    this.vocab = vocab;
+    this.encoder = encoder;
+    this.controlTokens = controls;
+    this.cacheEntries = cacheEntries;
+    this.cache = cacheEntries == 0 || dropout > 0 ? null : new PieceCache(cacheEntries); // dropout bypasses it
+    this.dropout = dropout;
+    this.seed = seed;
+    if (dropout > 0) {
+      SplittableRandom root = new SplittableRandom(seed);
+      this.dropoutRoot = root;
+      this.dropoutRandom = ThreadLocal.withInitial(() -> {
+        synchronized (root) {
+          return root.split();
+        }
+      });
+    } else {
+      this.dropoutRoot = null;
+      this.dropoutRandom = null;
+    }
+  }
+
+  static BpeSegmenter create(Vocab vocab, int cacheEntries) {
+    ControlTokens.Builder b = ControlTokens.builder();
+    for (int i = 0; i < vocab.controlCount(); i++) {
+      b.add(vocab.controls().get(i), i);
+    }
+    return new BpeSegmenter(vocab, new Encoder(vocab), b.build(), cacheEntries, 0.0, 0L);
+  }
+
+  // ------------------------------------------------------------------ factories
+
+  /**
+   * A segmenter from explicit merges: merge {@code r} joins {@code left[r]} and {@code right[r]} into
+   * id {@code controls.size() + 256 + r}.
+   *
+   * @throws IllegalArgumentException if a merge refers to a control id or an id not below its own, a
+   *     pair repeats, two tokens would have the same bytes, a token exceeds {@link #MAX_TOKEN_BYTES},
+   *     or the control spellings are invalid (see {@link ControlTokens.Builder})
+   */
+  public static BpeSegmenter of(List<String> controls, int[] left, int[] right) {
+    Objects.requireNonNull(controls, "controls");
+    if (left.length != right.length) {
+      throw new IllegalArgumentException("left (" + left.length + ") and right (" + right.length + ") differ in length");
+    }
+    Vocab v = Vocab.build(controls, left, right, (i, msg) -> new IllegalArgumentException(msg));
+    return create(v, DEFAULT_CACHE_ENTRIES);
+  }
+
+  /**
+   * Reads a segmenter from its model sections ({@code BPEC}, {@code BPEM}).
+   *
+   * @throws ModelFormatException naming the section and the entry that is wrong
+   */
+  public static BpeSegmenter read(ModelSections sections) {
+    BpeSections.Read r = BpeSections.read(sections);
+    try {
+      return create(r.vocab, r.cacheEntries);
+    } catch (IllegalArgumentException e) {
+      throw new ModelFormatException(BpeSections.SETTINGS, e.getMessage(), e);
+    }
+  }
+
+  /**
+   * Reads a ranked pair list: one merge a line, rank = line order, each line two token spellings in
+   * line form (display spelling with spaces written {@code \x20}) separated by one space. Empty
+   * lines are not allowed. Tokens are looked up by their bytes among the byte tokens and earlier lines.
+   *
+   * @param source a name for the input used in error messages (a file name, say)
+   * @param controls control spellings, ids {@code 0..k-1}
+   * @throws ModelFormatException naming {@code source} and the line: malformed line or escape, unknown
+   *     token, repeated pair, a token that already exists, a token over {@link #MAX_TOKEN_BYTES}
+   * @throws UncheckedIOException if reading fails
+   */
+  public static BpeSegmenter readMergeList(Reader in, String source, List<String> controls) {
+    Objects.requireNonNull(in, "in");
+    int k = controls.size();
+    Map<String, Integer> byBytes = new HashMap<>();
+    for (int b = 0; b < 256; b++) {
+      byBytes.put(String.valueOf((char) b), k + b);
+    }
+    Map<String, Integer> pairs = new HashMap<>();
+    it.unimi.dsi.fastutil.ints.IntArrayList left = new it.unimi.dsi.fastutil.ints.IntArrayList();
+    it.unimi.dsi.fastutil.ints.IntArrayList right = new it.unimi.dsi.fastutil.ints.IntArrayList();
+    BufferedReader r = in instanceof BufferedReader ? (BufferedReader) in : new BufferedReader(in);
+    int lineNo = 0;
+    try {
+      String line;
+      while ((line = r.readLine()) != null) {
+        lineNo++;
+        String where = source + " line " + lineNo;
+        int sp = line.indexOf(' ');
+        if (sp <= 0 || sp == line.length() - 1 || line.indexOf(' ', sp + 1) >= 0) {
+          throw new ModelFormatException(where, "expected two token spellings separated by one space, got '" + line + "'");
+        }
+        String a = latin1(where, line.substring(0, sp));
+        String b = latin1(where, line.substring(sp + 1));
+        Integer ia = byBytes.get(a);
+        Integer ib = byBytes.get(b);
+        if (ia == null || ib == null) {
+          throw new ModelFormatException(where, "unknown token '" + (ia == null ? line.substring(0, sp)
+              : line.substring(sp + 1)) + "' (not a byte token nor made by an earlier line)");
+        }
+        Integer prevRank = pairs.putIfAbsent(ia + "," + ib, lineNo);
+        if (prevRank != null) {
+          throw new ModelFormatException(where, "repeated pair, first given on line " + prevRank);
+        }
+        String merged = a + b;
+        if (merged.length() > MAX_TOKEN_BYTES) {
+          throw new ModelFormatException(where, "token of " + merged.length() + " bytes; the limit is MAX_TOKEN_BYTES="
+              + MAX_TOKEN_BYTES);
+        }
+        if (byBytes.putIfAbsent(merged, k + 256 + left.size()) != null) {
+          throw new ModelFormatException(where, "the merged token already exists: token bytes must be unique");
+        }
+        left.add(ia);
+        right.add(ib);
+      }
+    } catch (IOException e) {
+      throw new UncheckedIOException("reading " + source + " failed after line " + lineNo, e);
+    }
+    try {
+      return of(controls, left.toIntArray(), right.toIntArray());
+    } catch (IllegalArgumentException e) {
+      throw new ModelFormatException(source, e.getMessage(), e);
+    }
+  }
+
+  private static String latin1(String where, String spelling) {
+    try {
+      return new String(ByteSpelling.parse(spelling), StandardCharsets.ISO_8859_1);
+    } catch (IllegalArgumentException e) {
+      throw new ModelFormatException(where, e.getMessage(), e);
+    }
+  }
+
+  // ------------------------------------------------------------------ options
+
+  /**
+   * This segmenter with a piece cache of {@code entries} entries (rounded up to a power of two), or
+   * none for 0. Each instance has its own cache. Default {@link #DEFAULT_CACHE_ENTRIES}.
+   *
+   * @throws IllegalArgumentException if {@code entries} is outside [0, {@link #MAX_CACHE_ENTRIES}]
+   */
+  public BpeSegmenter withCacheEntries(int entries) {
+    if (entries < 0 || entries > MAX_CACHE_ENTRIES) {
+      throw new IllegalArgumentException("cacheEntries=" + entries + " is outside [0, " + MAX_CACHE_ENTRIES + "]");
+    }
+    return new BpeSegmenter(vocab, encoder, controlTokens, entries, dropout, seed);
+  }
+
+  /** The configured cache size in entries (0 = off). */
+  public int cacheEntries() {
+    return cacheEntries;
+  }
+
+  /**
+   * This segmenter with BPE-dropout [2]: at every merge step of a piece, each candidate merge (each
+   * adjacent pair occurrence that has a rank) is skipped independently with probability {@code p};
+   * the lowest-ranked remaining candidate, leftmost among equals, is applied; when every candidate of
+   * a step is skipped, the piece's segmentation ends there. {@code p = 0} gives plain segmentation,
+   * {@code p = 1} single bytes. The cache is bypassed. Each thread draws from its own generator,
+   * split from a root {@code SplittableRandom(seed)} in the order threads first use it, so a
+   * single-threaded run is reproducible for a given seed.
+   *
+   * @throws IllegalArgumentException if {@code p} is not in [0, 1]
+   */
+  public BpeSegmenter withDropout(double p, long seed) {
+    if (!(p >= 0.0 && p <= 1.0)) {
+      throw new IllegalArgumentException("dropout=" + p + " is not a probability in [0, 1]");
+    }
+    return new BpeSegmenter(vocab, encoder, controlTokens, cacheEntries, p, seed);
+  }
+
+  /** The dropout probability (0 = off). */
+  public double dropout() {
+    return dropout;
+  }
+
+  // ------------------------------------------------------------------ API
+
+  @Override
+  public String kind() {
+    return KIND;
+  }
+
+  @Override
+  public int vocabularySize() {
+    return vocab.size();
+  }
+
+  @Override
+  public String token(int id) {
+    Objects.checkIndex(id, vocab.size());
+    return vocab.display(id);
+  }
+
+  @Override
+  public int id(String token) {
+    return token == null ? -1 : vocab.id(token);
+  }
+
+  /** The control tokens reserved by the trainer, ids {@code 0..k-1}, for assembling a tokenizer. */
+  public ControlTokens controlTokens() {
+    return controlTokens;
+  }
+
+  /** Number of merges. */
+  public int mergeCount() {
+    return vocab.mergeCount();
+  }
+
+  /** Left operand id of merge {@code rank}. */
+  public int mergeLeft(int rank) {
+    Objects.checkIndex(rank, vocab.mergeCount());
+    return vocab.left(rank);
+  }
+
+  /** Right operand id of merge {@code rank}. */
+  public int mergeRight(int rank) {
+    Objects.checkIndex(rank, vocab.mergeCount());
+    return vocab.right(rank);
+  }
+
+  /** A copy of token {@code id}'s bytes (a control token's spelling as UTF-8). */
+  public byte[] tokenBytes(int id) {
+    Objects.checkIndex(id, vocab.size());
+    return vocab.tokenBytes(id);
+  }
+
+  @Override
+  public void segment(CharSequence text, int start, int end, TokenSink sink) {
+    Objects.checkFromToIndex(start, end, text.length());
+    if (dropout > 0) {
+      encoder.segmentDropout(text, start, end, sink, dropout, dropoutRandom.get());
+    } else {
+      encoder.segment(text, start, end, sink, cache);
+    }
+  }
+
+  /**
+   * As {@link #segment(CharSequence, int, int, TokenSink)} with this segmenter's dropout probability
+   * but drawing from {@code random} (plain segmentation if dropout is off).
+   */
+  public void segment(CharSequence text, int start, int end, TokenSink sink, SplittableRandom random) {
+    Objects.checkFromToIndex(start, end, text.length());
+    Objects.requireNonNull(random, "random");
+    if (dropout > 0) {
+      encoder.segmentDropout(text, start, end, sink, dropout, random);
+    } else {
+      encoder.segment(text, start, end, sink, cache);
+    }
+  }
+
+  @Override
+  public void decodeToken(int id, ByteSink out) {
+    Objects.checkIndex(id, vocab.size());
+    out.write(vocab.byteStore(), vocab.offset(id), vocab.length(id));
+  }
+
+  @Override
+  public void write(ModelWriter out) {
+    BpeSections.write(out, vocab, cacheEntries);
+  }
+
+  /**
+   * Writes the merges as a ranked pair list (see {@link #readMergeList}), one line per merge ending
+   * in {@code \n}.
+   *
+   * @throws UncheckedIOException if {@code out} fails
+   */
+  public void writeMergeList(Appendable out) {
+    byte[] store = vocab.byteStore();
+    try {
+      for (int r = 0; r < vocab.mergeCount(); r++) {
+        int a = vocab.left(r);
+        int b = vocab.right(r);
+        out.append(ByteSpelling.lineForm(store, vocab.offset(a), vocab.length(a))).append(' ')
+            .append(ByteSpelling.lineForm(store, vocab.offset(b), vocab.length(b))).append('\n');
+      }
+    } catch (IOException e) {
+      throw new UncheckedIOException(e);
+    }
+  }
+
+  /** Test and benchmark access to the two merge paths and the vocabulary. */
+  Encoder encoder() {
+    return encoder;
+  }
+
+  @Override
+  public String toString() {
+    return "BpeSegmenter[" + vocab.controlCount() + " control, " + vocab.mergeCount() + " merges, cache "
+        + cacheEntries + (dropout > 0 ? ", dropout " + dropout : "") + "]";
+  }
+}

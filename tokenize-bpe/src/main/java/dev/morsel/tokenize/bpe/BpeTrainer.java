@@ -1,0 +1,206 @@
+package dev.morsel.tokenize.bpe;
+
+import dev.morsel.tokenize.ControlTokens;
+import dev.morsel.tokenize.bpe.internal.ByteSpelling;
+import dev.morsel.tokenize.bpe.internal.MergeLearner;
+import dev.morsel.tokenize.bpe.internal.Utf8;
+import dev.morsel.tokenize.bpe.internal.Vocab;
+import dev.morsel.tokenize.train.PieceCounts;
+import dev.morsel.tokenize.train.TrainingListener;
+import java.util.ArrayList;
+import java.util.List;
+import java.util.Objects;
+
+/**
+ * Learns a byte-level BPE vocabulary [1] from piece counts. Immutable and thread-safe; build one with
+ * {@link #builder()}.
+ *
+ * <p>Each piece becomes a word: its UTF-8 bytes (a lone surrogate as U+FFFD), weighted by its count.
+ * Merges are learned until the vocabulary (control tokens + 256 bytes + merges) reaches
+ * {@code vocabularySize}, or no pair occurs at least {@code minPairCount} times, or no pair is
+ * eligible. A pair is eligible unless its token would exceed {@code maxTokenBytes}, its bytes are
+ * already a token, or its display spelling equals a control spelling.
+ *
+ * <p>Tie-break (deterministic): highest weighted pair count; then the smallest concatenated bytes in
+ * unsigned lexicographic order; then the shorter left operand. Pair counts count overlapping
+ * occurrences ("aaa" holds (a, a) twice); applying a merge replaces occurrences left to right without
+ * overlap ("aaa" becomes "aa" "a").
+ *
+ * <p>Algorithm and memory: see {@code docs/bpe.md}. Incremental pair counts with an index from pairs
+ * to words and a lazily invalidated priority queue; the initial count runs on {@code threads} threads.
+ * Memory is about 4 bytes per byte of distinct pieces for the words, plus at most 12 bytes per byte for
+ * the pair index, plus the pair count map; {@code minPieceCount} drops rare pieces to bound it.
+ *
+ * <p>[1] Sennrich, Haddow, Birch (2016), "Neural Machine Translation of Rare Words with Subword
+ * Units", ACL 2016, section 3.2, Algorithm 1.
+ *
+ * @since 0.1.0
+ */
+public final class BpeTrainer {
+  /** Default {@code vocabularySize}: 32,000 ids. */
+  public static final int DEFAULT_VOCABULARY_SIZE = 32_000;
+  /** Default {@code minPairCount}: 2 (a pair seen once compresses nothing). */
+  public static final long DEFAULT_MIN_PAIR_COUNT = 2;
+  /** Default {@code maxTokenBytes}: 64 bytes. */
+  public static final int DEFAULT_MAX_TOKEN_BYTES = 64;
+  /** Default {@code minPieceCount}: 1 (keep every piece). */
+  public static final long DEFAULT_MIN_PIECE_COUNT = 1;
+
+  private final int vocabularySize;
+  private final long minPairCount;
+  private final int maxTokenBytes;
+  private final long minPieceCount;
+  private final List<String> controls;
+  private final int threads;
+  private final TrainingListener listener;
+
+  private BpeTrainer(Builder b) {
+    this.vocabularySize = b.vocabularySize;
+    this.minPairCount = b.minPairCount;
+    this.maxTokenBytes = b.maxTokenBytes;
+    this.minPieceCount = b.minPieceCount;
+    this.controls = List.copyOf(b.controls);
+    this.threads = b.threads;
+    this.listener = b.listener;
+  }
+
+  /** A builder with the defaults above, no control tokens, all processors, no listener. */
+  public static Builder builder() {
+    return new Builder();
+  }
+
+  /**
+   * Learns the merges.
+   *
+   * @throws IllegalArgumentException if {@code pieces} is empty (or empty after {@code minPieceCount})
+   */
+  public BpeSegmenter train(PieceCounts pieces) {
+    Objects.requireNonNull(pieces, "pieces");
+    PieceCounts kept = minPieceCount > 1 ? pieces.withMinCount(minPieceCount) : pieces;
+    if (kept.isEmpty()) {
+      throw new IllegalArgumentException(pieces.isEmpty() ? "piece counts are empty: nothing to train on"
+          : "no piece has a count >= minPieceCount=" + minPieceCount);
+    }
+    List<byte[]> words = new ArrayList<>(kept.size());
+    long[] weights = new long[kept.size()];
+    for (int i = 0; i < kept.size(); i++) {
+      words.add(Utf8.encode(kept.piece(i)));
+      weights[i] = kept.count(i);
+    }
+    int k = controls.size();
+    int budget = vocabularySize - k - 256;
+    MergeLearner learner = new MergeLearner(k, words, weights, budget, minPairCount, maxTokenBytes, controls, listener);
+    int[][] merges = learner.run(threads);
+    Vocab v = Vocab.build(controls, merges[0], merges[1], (i, msg) -> new IllegalStateException(msg));
+    return BpeSegmenter.create(v, BpeSegmenter.DEFAULT_CACHE_ENTRIES);
+  }
+
+  /** Builder; every setting is checked at {@link #build()}. Not thread-safe. */
+  public static final class Builder {
+    private int vocabularySize = DEFAULT_VOCABULARY_SIZE;
+    private long minPairCount = DEFAULT_MIN_PAIR_COUNT;
+    private int maxTokenBytes = DEFAULT_MAX_TOKEN_BYTES;
+    private long minPieceCount = DEFAULT_MIN_PIECE_COUNT;
+    private List<String> controls = List.of();
+    private int threads = Runtime.getRuntime().availableProcessors();
+    private TrainingListener listener = TrainingListener.NONE;
+
+    private Builder() {}
+
+    /** Target number of ids: control tokens + 256 bytes + merges. Default 32,000. */
+    public Builder vocabularySize(int size) {
+      this.vocabularySize = size;
+      return this;
+    }
+
+    /** Smallest weighted pair count worth a merge (at least 1). Default 2. */
+    public Builder minPairCount(long count) {
+      this.minPairCount = count;
+      return this;
+    }
+
+    /** Longest token, in bytes, in [2, {@link BpeSegmenter#MAX_TOKEN_BYTES}]. Default 64. */
+    public Builder maxTokenBytes(int bytes) {
+      this.maxTokenBytes = bytes;
+      return this;
+    }
+
+    /** Pieces with a smaller count are dropped before training, to bound memory. Default 1. */
+    public Builder minPieceCount(long count) {
+      this.minPieceCount = count;
+      return this;
+    }
+
+    /**
+     * Control token spellings, given ids {@code 0..k-1} in this order. They must satisfy
+     * {@link ControlTokens.Builder}'s rules and must not spell a single byte token.
+     */
+    public Builder controlTokens(List<String> spellings) {
+      this.controls = List.copyOf(Objects.requireNonNull(spellings, "spellings"));
+      return this;
+    }
+
+    /** Threads for the initial pair count (at least 1). Default: available processors. */
+    public Builder threads(int n) {
+      this.threads = n;
+      return this;
+    }
+
+    /** Progress: stage {@code "merges"}, merges done, merge budget, detail {@code "left+right count"}. */
+    public Builder listener(TrainingListener l) {
+      this.listener = Objects.requireNonNull(l, "listener");
+      return this;
+    }
+
+    /**
+     * The trainer.
+     *
+     * @throws IllegalArgumentException naming the setting that is out of range or the control token
+     *     that is invalid
+     */
+    public BpeTrainer build() {
+      ControlTokens.Builder cb = ControlTokens.builder();
+      for (int i = 0; i < controls.size(); i++) {
+        String c = controls.get(i);
+        if (c == null) {
+          throw new IllegalArgumentException("controlTokens: spelling " + i + " is null");
+        }
+        try {
+          cb.add(c, i);
+        } catch (IllegalArgumentException e) {
+          throw new IllegalArgumentException("controlTokens: " + e.getMessage(), e);
+        }
+        for (int b = 0; b < 256; b++) {
+          if (c.equals(ByteSpelling.display(new byte[] {(byte) b}, 0, 1))) {
+            throw new IllegalArgumentException("controlTokens: spelling '" + c + "' is the display spelling of byte token "
+                + b + "; choose a spelling no byte token has");
+          }
+        }
+      }
+      try {
+        cb.build();
+      } catch (IllegalArgumentException e) {
+        throw new IllegalArgumentException("controlTokens: " + e.getMessage(), e);
+      }
+      int floor = 256 + controls.size();
+      if (vocabularySize < floor) {
+        throw new IllegalArgumentException("vocabularySize=" + vocabularySize + " is below " + floor + " (256 byte tokens + "
+            + controls.size() + " control tokens)");
+      }
+      if (minPairCount < 1) {
+        throw new IllegalArgumentException("minPairCount=" + minPairCount + " must be at least 1");
+      }
+      if (maxTokenBytes < 2 || maxTokenBytes > BpeSegmenter.MAX_TOKEN_BYTES) {
+        throw new IllegalArgumentException("maxTokenBytes=" + maxTokenBytes + " is outside [2, "
+            + BpeSegmenter.MAX_TOKEN_BYTES + "]");
+      }
+      if (minPieceCount < 1) {
+        throw new IllegalArgumentException("minPieceCount=" + minPieceCount + " must be at least 1");
+      }
+      if (threads < 1) {
+        throw new IllegalArgumentException("threads=" + threads + " must be at least 1");
+      }
+      return new BpeTrainer(this);
+    }
+  }
+}

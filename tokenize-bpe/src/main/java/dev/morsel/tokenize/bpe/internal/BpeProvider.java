@@ -1,0 +1,22 @@
+package dev.morsel.tokenize.bpe.internal;
+
+import dev.morsel.tokenize.bpe.BpeSegmenter;
+import dev.morsel.tokenize.format.ModelSections;
+import dev.morsel.tokenize.spi.Segmenter;
+import dev.morsel.tokenize.spi.SegmenterProvider;
+
+/** Reads {@link BpeSegmenter}s from model files; registered for {@link java.util.ServiceLoader}. */
+public final class BpeProvider implements SegmenterProvider {
+  /** For {@link java.util.ServiceLoader}. */
+  public BpeProvider() {}
+
+  @Override
+  public String kind() {
+    return BpeSegmenter.KIND;
+  }
+
+  @Override
+  public Segmenter read(ModelSections sections) {
+    return BpeSegmenter.read(sections);
+  }
+}

@@ -1,0 +1,114 @@
+package dev.morsel.tokenize.bpe.internal;
+
+import dev.morsel.tokenize.format.ModelFormatException;
+import dev.morsel.tokenize.format.ModelSections;
+import dev.morsel.tokenize.format.ModelWriter;
+import dev.morsel.tokenize.format.SectionReader;
+import dev.morsel.tokenize.format.SectionWriter;
+import java.util.ArrayList;
+import java.util.List;
+
+/**
+ * Layout of the byte-level BPE sections of a model file (little-endian, written through the api's
+ * {@link SectionWriter}).
+ *
+ * <pre>
+ * BPEC  settings
+ *   u32 layout version (1)
+ *   u32 control count k (&lt;= {@link #MAX_CONTROLS})
+ *   k x (u32 byte length, UTF-8 spelling)   control spellings in id order (ids 0..k-1)
+ *   u32 cache size default (entries, 0 = off, &lt;= {@link #MAX_CACHE_ENTRIES})
+ * BPEM  merges
+ *   u32 merge count m (&lt;= {@link #MAX_MERGES})
+ *   m x (u32 left id, u32 right id)           in rank order; merge r is id k+256+r
+ * </pre>
+ * The api also writes control spellings in its own section; this copy lets the segmenter stand alone.
+ */
+public final class BpeSections {
+  /** Settings section tag. */
+  public static final String SETTINGS = "BPEC";
+  /** Merges section tag. */
+  public static final String MERGES = "BPEM";
+  /** Layout version written in {@link #SETTINGS}. */
+  public static final int VERSION = 1;
+  /** Most control tokens accepted when reading (reason: bounds the allocation before validation). */
+  public static final int MAX_CONTROLS = 1 << 16;
+  /** Most merges accepted (16 Mi ids: far beyond any useful vocabulary, well inside int ids). */
+  public static final int MAX_MERGES = 1 << 24;
+  /** Largest cache accepted, in entries (16 Mi slots = 64 MiB of references). */
+  public static final int MAX_CACHE_ENTRIES = 1 << 24;
+
+  private BpeSections() {}
+
+  /** Writes both sections. */
+  public static void write(ModelWriter out, Vocab vocab, int cacheEntries) {
+    SectionWriter s = out.section(SETTINGS);
+    s.putInt(VERSION);
+    s.putInt(vocab.k);
+    for (String c : vocab.controls) {
+      s.putString(c);
+    }
+    s.putInt(cacheEntries);
+    SectionWriter m = out.section(MERGES);
+    m.putInt(vocab.left.length);
+    for (int r = 0; r < vocab.left.length; r++) {
+      m.putInt(vocab.left[r]);
+      m.putInt(vocab.right[r]);
+    }
+  }
+
+  /** What {@link #read} returns. */
+  public static final class Read {
+    /** The vocabulary. */
+    public final Vocab vocab;
+    /** The stored cache size. */
+    public final int cacheEntries;
+
+    Read(Vocab vocab, int cacheEntries) {
+      this.vocab = vocab;
+      this.cacheEntries = cacheEntries;
+    }
+  }
+
+  /**
+   * Reads and validates both sections.
+   *
+   * @throws ModelFormatException naming the section and entry
+   */
+  public static Read read(ModelSections sections) {
+    SectionReader s = sections.reader(SETTINGS);
+    int version = s.getInt("layout version");
+    if (version != VERSION) {
+      throw s.fail("layout version " + version + " is not supported (this reader knows " + VERSION + ")");
+    }
+    int k = s.getCount("control tokens", MAX_CONTROLS, 4);
+    List<String> controls = new ArrayList<>(k);
+    for (int i = 0; i < k; i++) {
+      String c = s.getString("control token " + i);
+      if (c.isEmpty()) {
+        throw new ModelFormatException(SETTINGS, "control token " + i + " has an empty spelling");
+      }
+      if (controls.contains(c)) {
+        throw new ModelFormatException(SETTINGS, "control token " + i + " repeats spelling '" + c + "'");
+      }
+      controls.add(c);
+    }
+    int cache = s.getInt("cache size");
+    if (cache < 0 || cache > MAX_CACHE_ENTRIES) {
+      throw s.fail("cache size " + cache + " is outside [0, " + MAX_CACHE_ENTRIES + "]");
+    }
+    s.expectEnd();
+    SectionReader m = sections.reader(MERGES);
+    int count = m.getCount("merges", MAX_MERGES, 8);
+    int[] left = new int[count];
+    int[] right = new int[count];
+    for (int r = 0; r < count; r++) {
+      left[r] = m.getInt("merge " + r + " left");
+      right[r] = m.getInt("merge " + r + " right");
+    }
+    m.expectEnd();
+    Vocab v = Vocab.build(controls, left, right,
+        (index, msg) -> new ModelFormatException(MERGES, "entry " + index + ": " + msg));
+    return new Read(v, cache);
+  }
+}

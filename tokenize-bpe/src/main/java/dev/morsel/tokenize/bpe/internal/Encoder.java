@@ -1,0 +1,339 @@
+package dev.morsel.tokenize.bpe.internal;
+
+import dev.morsel.tokenize.spi.TokenSink;
+import java.util.SplittableRandom;
+
+/**
+ * Applies the merges of a {@link Vocab} to one piece. Thread-safe: all mutable state lives in
+ * per-thread {@link Scratch} buffers, and the {@link PieceCache} tolerates races.
+ *
+ * <p>Semantics (the textbook rule of [1]): repeatedly merge the adjacent pair of lowest rank,
+ * leftmost among equal ranks, until no adjacent pair has a rank. Two paths give exactly this result:
+ * <ul>
+ *   <li>pieces of at most {@link #SHORT_PIECE_BYTES} bytes: an array scan with one cached rank per
+ *       adjacent pair, O(k^2) integer compares but only O(k) map lookups;
+ *   <li>longer pieces: a doubly linked list over the byte positions plus a binary heap of
+ *       {@code (rank << 32 | position)} longs, lazily invalidated: a popped entry is applied only if
+ *       its position is alive and the pair now there still has that rank. Each merge pops one entry and pushes at most two,
+ *       so the heap holds at most 2k entries and the work is O(k log k).
+ * </ul>
+ * Since ranks identify pairs, "leftmost among equal ranks" is "smallest position" in the heap order.
+ *
+ * <p>BPE-dropout [2]: at every merge step each candidate (each adjacent pair occurrence that has a
+ * rank) is removed from consideration independently with probability p; the lowest-ranked surviving
+ * candidate (leftmost among equals) is applied; if every candidate was removed, segmentation of the
+ * piece stops. The heap path realises this by popping candidates in (rank, position) order and drawing
+ * for each until one survives; the dropped ones are pushed back for the next step, where they are
+ * drawn afresh. The draws for candidates behind the survivor are never needed, as they are independent.
+ *
+ * <p>References: [1] Sennrich, Haddow, Birch (2016), "Neural Machine Translation of Rare Words with
+ * Subword Units", section 3.2 and Algorithm 1. [2] Provilkov, Emelianenko, Voita (2020),
+ * "BPE-Dropout: Simple and Effective Subword Regularization", section 3.
+ */
+public final class Encoder {
+  /** Pieces up to this many UTF-8 bytes take the array scan (k^2/2 = 128 int compares at most). */
+  public static final int SHORT_PIECE_BYTES = 16;
+  /**
+   * Scratch kept per thread covers pieces up to this many UTF-16 units (about 21 bytes of arrays per
+   * unit, so 4,096 units keep about 86 KiB); buffers grown for longer pieces are dropped afterwards, so
+   * one huge piece does not pin hundreds of MiB per thread.
+   */
+  static final int RETAINED_PIECE_CHARS = 4096;
+
+  private final Vocab vocab;
+  private final int base; // id of byte 0
+  private final int mergeBase; // id of merge rank 0
+  private final ThreadLocal<Scratch> scratch = ThreadLocal.withInitial(Scratch::new);
+
+  /** An encoder over {@code vocab}. */
+  public Encoder(Vocab vocab) {
+    this.vocab = vocab;
+    this.base = vocab.k;
+    this.mergeBase = vocab.k + 256;
+  }
+
+  /** The vocabulary. */
+  public Vocab vocab() {
+    return vocab;
+  }
+
+  // ------------------------------------------------------------------ API
+
+  /**
+   * Segments {@code text[start, end)}, reporting absolute spans to {@code sink}. With a non-null
+   * {@code cache} the piece is looked up first and stored after a miss.
+   */
+  public void segment(CharSequence text, int start, int end, TokenSink sink, PieceCache cache) {
+    if (start >= end) {
+      return;
+    }
+    int len = end - start;
+    long hash = 0;
+    boolean cacheable = cache != null && len <= PieceCache.MAX_PIECE_CHARS;
+    if (cacheable) {
+      hash = cache.hash(text, start, end);
+      if (cache.emitIfPresent(hash, text, start, end, sink)) {
+        return;
+      }
+    }
+    Scratch s = scratch.get();
+    int n = s.load(text, start, end);
+    int m = n <= SHORT_PIECE_BYTES ? mergeShort(s, n) : mergeHeap(s, n, 0.0, null);
+    if (cacheable) {
+      cache.store(hash, text, start, end, s, m);
+    }
+    s.emit(m, start, sink);
+    if (len > RETAINED_PIECE_CHARS) {
+      scratch.remove();
+    }
+  }
+
+  /** Segments with BPE-dropout probability {@code p}, drawing from {@code random}; never cached. */
+  public void segmentDropout(CharSequence text, int start, int end, TokenSink sink, double p, SplittableRandom random) {
+    if (start >= end) {
+      return;
+    }
+    Scratch s = scratch.get();
+    int n = s.load(text, start, end);
+    int m = mergeHeap(s, n, p, random);
+    s.emit(m, start, sink);
+    if (end - start > RETAINED_PIECE_CHARS) {
+      scratch.remove();
+    }
+  }
+
+  /** Test hook: the array-scan path on any length; ids into {@code out}, returns the count. */
+  public int segmentShortPath(CharSequence text, int[] out) {
+    Scratch s = scratch.get();
+    int n = s.load(text, 0, text.length());
+    int m = mergeShort(s, n);
+    System.arraycopy(s.outId, 0, out, 0, m);
+    return m;
+  }
+
+  /** Test hook: the heap path on any length; ids into {@code out}, returns the count. */
+  public int segmentHeapPath(CharSequence text, int[] out) {
+    Scratch s = scratch.get();
+    int n = s.load(text, 0, text.length());
+    int m = mergeHeap(s, n, 0.0, null);
+    System.arraycopy(s.outId, 0, out, 0, m);
+    return m;
+  }
+
+  // ------------------------------------------------------------------ internals
+
+  /** Array scan; leaves ids in outId and token byte starts in outAt; returns the token count. */
+  private int mergeShort(Scratch s, int n) {
+    final int[] sym = s.outId;
+    final int[] at = s.outAt;
+    final int[] rk = s.rank;
+    final byte[] buf = s.buf;
+    final int b0 = base;
+    for (int i = 0; i < n; i++) {
+      sym[i] = b0 + (buf[i] & 0xFF);
+      at[i] = i;
+    }
+    int m = n;
+    for (int i = 0; i + 1 < m; i++) {
+      rk[i] = vocab.ranks.get(Vocab.pair(sym[i], sym[i + 1]));
+    }
+    while (m > 1) {
+      int best = -1;
+      int bestRank = Integer.MAX_VALUE;
+      for (int i = 0; i + 1 < m; i++) {
+        int r = rk[i];
+        if (r >= 0 && r < bestRank) {
+          bestRank = r;
+          best = i;
+        }
+      }
+      if (best < 0) {
+        break;
+      }
+      sym[best] = mergeBase + bestRank;
+      int tail = m - best - 2;
+      System.arraycopy(sym, best + 2, sym, best + 1, tail);
+      System.arraycopy(at, best + 2, at, best + 1, tail);
+      System.arraycopy(rk, best + 2, rk, best + 1, Math.max(0, tail - 1));
+      m--;
+      if (best > 0) {
+        rk[best - 1] = vocab.ranks.get(Vocab.pair(sym[best - 1], sym[best]));
+      }
+      if (best + 1 < m) {
+        rk[best] = vocab.ranks.get(Vocab.pair(sym[best], sym[best + 1]));
+      }
+    }
+    return m;
+  }
+
+  /** Linked list + heap; with {@code p > 0} applies dropout. Leaves output like {@link #mergeShort}. */
+  private int mergeHeap(Scratch s, int n, double p, SplittableRandom random) {
+    s.ensureHeap(n, p > 0.0);
+    final int[] sym = s.sym;
+    final int[] next = s.next;
+    final int[] prev = s.prev;
+    final byte[] buf = s.buf;
+    final int b0 = base;
+    for (int i = 0; i < n; i++) {
+      sym[i] = b0 + (buf[i] & 0xFF);
+      next[i] = i + 1;
+      prev[i] = i - 1;
+    }
+    s.heapSize = 0;
+    for (int i = 0; i + 1 < n; i++) {
+      int r = vocab.ranks.get(Vocab.pair(sym[i], sym[i + 1]));
+      if (r >= 0) {
+        s.push(((long) r << 32) | i);
+      }
+    }
+    boolean dropout = p > 0.0;
+    int dropped = 0;
+    outer:
+    while (s.heapSize > 0) {
+      long e = s.pop();
+      int r = (int) (e >>> 32);
+      int pos = (int) e;
+      if (sym[pos] < 0) {
+        continue;
+      }
+      int q = next[pos];
+      if (q >= n || vocab.ranks.get(Vocab.pair(sym[pos], sym[q])) != r) {
+        continue;
+      }
+      if (dropout && random.nextDouble() < p) {
+        s.dropped[dropped++] = e;
+        if (s.heapSize == 0) {
+          break outer; // every candidate of this step was dropped: stop
+        }
+        continue;
+      }
+      for (int d = 0; d < dropped; d++) {
+        s.push(s.dropped[d]);
+      }
+      dropped = 0;
+      sym[pos] = mergeBase + r;
+      sym[q] = -1;
+      int nq = next[q];
+      next[pos] = nq;
+      if (nq < n) {
+        prev[nq] = pos;
+        int r2 = vocab.ranks.get(Vocab.pair(sym[pos], sym[nq]));
+        if (r2 >= 0) {
+          s.push(((long) r2 << 32) | pos);
+        }
+      }
+      int pp = prev[pos];
+      if (pp >= 0) {
+        int r1 = vocab.ranks.get(Vocab.pair(sym[pp], sym[pos]));
+        if (r1 >= 0) {
+          s.push(((long) r1 << 32) | pp);
+        }
+      }
+    }
+    int m = 0;
+    for (int i = 0; i < n; i = next[i]) {
+      s.outId[m] = sym[i];
+      s.outAt[m] = i;
+      m++;
+    }
+    return m;
+  }
+
+  /** Per-thread buffers. Grow on demand and are kept. */
+  static final class Scratch {
+    byte[] buf = new byte[0];
+    int[] charStart = new int[0];
+    int[] charEnd = new int[0];
+    int[] outId = new int[0];
+    int[] outAt = new int[0];
+    int[] rank = new int[0];
+    int byteCount;
+    // heap path
+    int[] sym = new int[0];
+    int[] next = new int[0];
+    int[] prev = new int[0];
+    long[] heap = new long[0];
+    long[] dropped = new long[0];
+    int heapSize;
+
+    /** Encodes the piece; returns its byte count. */
+    int load(CharSequence text, int start, int end) {
+      int cap = 3 * (end - start);
+      if (buf.length < cap) {
+        int c = Math.max(cap, 64);
+        buf = new byte[c];
+        charStart = new int[c];
+        charEnd = new int[c];
+        outId = new int[c];
+        outAt = new int[c];
+        rank = new int[c];
+      }
+      byteCount = Utf8.encode(text, start, end, buf, charStart, charEnd);
+      return byteCount;
+    }
+
+    /** Heap bound: n-1 initial entries, and each merge pops one and pushes at most two: 2n. */
+    void ensureHeap(int n, boolean dropout) {
+      if (sym.length < n) {
+        sym = new int[n];
+        next = new int[n];
+        prev = new int[n];
+        heap = new long[2 * n];
+      }
+      if (dropout && dropped.length < 2 * n) {
+        dropped = new long[2 * n];
+      }
+    }
+
+    void push(long v) {
+      long[] h = heap;
+      int i = heapSize++;
+      while (i > 0) {
+        int parent = (i - 1) >>> 1;
+        long pv = h[parent];
+        if (pv <= v) {
+          break;
+        }
+        h[i] = pv;
+        i = parent;
+      }
+      h[i] = v;
+    }
+
+    long pop() {
+      long[] h = heap;
+      long top = h[0];
+      int size = --heapSize;
+      if (size > 0) {
+        long v = h[size];
+        int i = 0;
+        while (true) {
+          int c = 2 * i + 1;
+          if (c >= size) {
+            break;
+          }
+          if (c + 1 < size && h[c + 1] < h[c]) {
+            c++;
+          }
+          if (h[c] >= v) {
+            break;
+          }
+          h[i] = h[c];
+          i = c;
+        }
+        h[i] = v;
+      }
+      return top;
+    }
+
+    /** Reports the m tokens left in outId/outAt to {@code sink}, spans offset by {@code start}. */
+    void emit(int m, int start, TokenSink sink) {
+      int n = byteCount;
+      for (int j = 0; j < m; j++) {
+        int bs = outAt[j];
+        int be = j + 1 < m ? outAt[j + 1] : n;
+        sink.token(outId[j], start + charStart[bs], start + charEnd[be - 1]);
+      }
+    }
+  }
+}

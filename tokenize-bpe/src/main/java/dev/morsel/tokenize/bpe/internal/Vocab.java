@@ -1,0 +1,212 @@
+package dev.morsel.tokenize.bpe.internal;
+
+import it.unimi.dsi.fastutil.longs.Long2IntOpenHashMap;
+import it.unimi.dsi.fastutil.objects.Object2IntOpenHashMap;
+import java.nio.charset.StandardCharsets;
+import java.util.Arrays;
+import java.util.List;
+
+/**
+ * The immutable vocabulary of a byte-level BPE model.
+ *
+ * <p>Layout: control tokens {@code 0..k-1}; byte tokens {@code k..k+255} (byte value {@code b} is id
+ * {@code k+b}); merge of rank {@code r} is id {@code k+256+r}. A merge's operands are byte-level
+ * tokens (never control ids) with ids below its own. Token byte strings are unique, so the display
+ * spelling (see {@link ByteSpelling}) is unique per id.
+ */
+public final class Vocab {
+  /** Longest token, in bytes: longer tokens buy almost no compression, and the bound keeps a forged model from claiming unbounded memory. */
+  public static final int MAX_TOKEN_BYTES = 4096;
+  /** Most bytes held by all tokens together (256 MiB), against forged models. */
+  static final long MAX_TOTAL_BYTES = 1L << 28;
+
+  /** Builds error exceptions: (entry index, message) → exception to throw. */
+  @FunctionalInterface
+  public interface Failure {
+    /** The exception for a problem with merge entry {@code index}. */
+    RuntimeException at(int index, String message);
+  }
+
+  final int k;
+  final String[] controls;
+  final int[] left;
+  final int[] right;
+  final byte[] bytes;
+  final int[] offsets; // id -> start in bytes; offsets[size] = total
+  final Long2IntOpenHashMap ranks; // pair(left,right) -> rank, -1 if absent
+  final String[] display;
+  final Object2IntOpenHashMap<String> displayIds;
+
+  private Vocab(String[] controls, int[] left, int[] right, byte[] bytes, int[] offsets, Long2IntOpenHashMap ranks,
+      String[] display, Object2IntOpenHashMap<String> displayIds) {
+    this.k = controls.length;
+    this.controls = controls;
+    this.left = left;
+    this.right = right;
+    this.bytes = bytes;
+    this.offsets = offsets;
+    this.ranks = ranks;
+    this.display = display;
+    this.displayIds = displayIds;
+  }
+
+  /** The pair key: left id in the high 32 bits, right id in the low 32 bits. */
+  public static long pair(int left, int right) {
+    return ((long) left << 32) | (right & 0xFFFFFFFFL);
+  }
+
+  /**
+   * Validates and builds. Controls are assumed valid (checked by {@code ControlTokens}); merges are
+   * checked here: operands are existing byte-level ids below the merge's own id, no pair twice, no
+   * token's bytes twice, no display equal to a control spelling, lengths within the limits.
+   */
+  public static Vocab build(List<String> controlList, int[] left, int[] right, Failure fail) {
+    String[] controls = controlList.toArray(new String[0]);
+    int k = controls.length;
+    int m = left.length;
+    int size = k + 256 + m;
+    int[] offsets = new int[size + 1];
+    long total = 0;
+    byte[][] ctl = new byte[k][];
+    for (int i = 0; i < k; i++) {
+      ctl[i] = controls[i].getBytes(StandardCharsets.UTF_8);
+      total += ctl[i].length;
+    }
+    total += 256;
+    int[] len = new int[size];
+    Long2IntOpenHashMap ranks = new Long2IntOpenHashMap(Math.max(16, m));
+    ranks.defaultReturnValue(-1);
+    for (int i = 0; i < k; i++) {
+      len[i] = ctl[i].length;
+    }
+    for (int b = 0; b < 256; b++) {
+      len[k + b] = 1;
+    }
+    for (int r = 0; r < m; r++) {
+      int id = k + 256 + r;
+      int a = left[r];
+      int b = right[r];
+      if (a < k || a >= id || b < k || b >= id) {
+        throw fail.at(r, "merge " + r + " (" + a + ", " + b + ") refers to an id outside the byte-level tokens ["
+            + k + ", " + id + ") that precede it");
+      }
+      if (ranks.putIfAbsent(pair(a, b), r) != -1) {
+        throw fail.at(r, "merge " + r + " repeats the pair (" + a + ", " + b + ") of merge " + ranks.get(pair(a, b)));
+      }
+      long l = (long) len[a] + len[b];
+      if (l > MAX_TOKEN_BYTES) {
+        throw fail.at(r, "merge " + r + " makes a token of " + l + " bytes; the limit is MAX_TOKEN_BYTES="
+            + MAX_TOKEN_BYTES);
+      }
+      len[id] = (int) l;
+      total += l;
+      if (total > MAX_TOTAL_BYTES) {
+        throw fail.at(r, "merge " + r + " brings token bytes over " + MAX_TOTAL_BYTES);
+      }
+    }
+    byte[] bytes = new byte[(int) total];
+    int at = 0;
+    for (int i = 0; i < k; i++) {
+      offsets[i] = at;
+      System.arraycopy(ctl[i], 0, bytes, at, ctl[i].length);
+      at += ctl[i].length;
+    }
+    for (int b = 0; b < 256; b++) {
+      offsets[k + b] = at;
+      bytes[at++] = (byte) b;
+    }
+    for (int r = 0; r < m; r++) {
+      int id = k + 256 + r;
+      offsets[id] = at;
+      int a = left[r];
+      int b = right[r];
+      System.arraycopy(bytes, offsets[a], bytes, at, len[a]);
+      at += len[a];
+      System.arraycopy(bytes, offsets[b], bytes, at, len[b]);
+      at += len[b];
+    }
+    offsets[size] = at;
+    String[] display = new String[size];
+    Object2IntOpenHashMap<String> ids = new Object2IntOpenHashMap<>(size);
+    ids.defaultReturnValue(-1);
+    for (int i = 0; i < k; i++) {
+      display[i] = controls[i];
+      ids.put(controls[i], i);
+    }
+    for (int id = k; id < size; id++) {
+      display[id] = ByteSpelling.display(bytes, offsets[id], len[id]);
+      int prev = ids.putIfAbsent(display[id], id);
+      if (prev != -1) {
+        int r = id - k - 256;
+        throw fail.at(Math.max(r, 0), (prev < k ? "token " + id + " is spelled like control token " + prev
+            : "merge " + r + " makes token '" + display[id] + "', already token " + prev) + ": token bytes must be unique");
+      }
+    }
+    return new Vocab(controls, left.clone(), right.clone(), bytes, offsets, ranks, display, ids);
+  }
+
+  /** Number of control tokens. */
+  public int controlCount() {
+    return k;
+  }
+
+  /** Control spellings in id order. */
+  public List<String> controls() {
+    return List.of(controls);
+  }
+
+  /** Number of merges. */
+  public int mergeCount() {
+    return left.length;
+  }
+
+  /** Vocabulary size. */
+  public int size() {
+    return display.length;
+  }
+
+  /** Left operand of merge {@code rank}. */
+  public int left(int rank) {
+    return left[rank];
+  }
+
+  /** Right operand of merge {@code rank}. */
+  public int right(int rank) {
+    return right[rank];
+  }
+
+  /** Rank of the pair, or -1. */
+  public int rank(int a, int b) {
+    return ranks.get(pair(a, b));
+  }
+
+  /** Display spelling of {@code id}. */
+  public String display(int id) {
+    return display[id];
+  }
+
+  /** Id of a display spelling, or -1. */
+  public int id(String spelling) {
+    return displayIds.getInt(spelling);
+  }
+
+  /** A copy of token {@code id}'s bytes (a control token's spelling as UTF-8). */
+  public byte[] tokenBytes(int id) {
+    return Arrays.copyOfRange(bytes, offsets[id], offsets[id + 1]);
+  }
+
+  /** Backing byte store (read only). */
+  public byte[] byteStore() {
+    return bytes;
+  }
+
+  /** Start of token {@code id} in {@link #byteStore()}. */
+  public int offset(int id) {
+    return offsets[id];
+  }
+
+  /** Length in bytes of token {@code id}. */
+  public int length(int id) {
+    return offsets[id + 1] - offsets[id];
+  }
+}

@@ -1,0 +1,202 @@
+package dev.morsel.tokenize.bpe;
+
+import static org.junit.jupiter.api.Assertions.assertArrayEquals;
+import static org.junit.jupiter.api.Assertions.assertEquals;
+import static org.junit.jupiter.api.Assertions.assertThrows;
+import static org.junit.jupiter.api.Assertions.assertTrue;
+
+import dev.morsel.tokenize.format.ModelFormatException;
+import dev.morsel.tokenize.format.ModelWriter;
+import dev.morsel.tokenize.spi.Segmenter;
+import dev.morsel.tokenize.spi.SegmenterProvider;
+import java.io.StringReader;
+import java.nio.ByteBuffer;
+import java.nio.ByteOrder;
+import java.nio.charset.StandardCharsets;
+import java.util.HashMap;
+import java.util.List;
+import java.util.Map;
+import java.util.ServiceLoader;
+import org.junit.jupiter.api.Test;
+
+/** Model sections (BPEC, BPEM), the provider, and the ranked pair list text format. */
+class ModelFormatTest {
+  private static final List<String> CONTROLS = List.of("«dock»", "«sail»");
+
+  private static BpeSegmenter withControls() {
+    return BpeTrainer.builder().vocabularySize(2 + 256 + 300).controlTokens(CONTROLS).threads(1).build()
+        .train(Fixtures.countPieces(Fixtures.europarlBodies().subList(0, 300)));
+  }
+
+  private static Map<String, byte[]> payloads(BpeSegmenter s) {
+    ModelWriter w = new ModelWriter();
+    s.write(w);
+    return w.payloads();
+  }
+
+  private static void assertSameSegmenter(BpeSegmenter a, Segmenter b) {
+    assertEquals(a.vocabularySize(), b.vocabularySize());
+    for (int id = 0; id < a.vocabularySize(); id++) {
+      assertEquals(a.token(id), b.token(id), "token " + id);
+    }
+    for (String body : Fixtures.europarlBodies().subList(300, 700)) {
+      int[] p = Fixtures.pieces(body);
+      for (int j = 0; j < p.length; j += 2) {
+        Fixtures.Collected x = new Fixtures.Collected();
+        Fixtures.Collected y = new Fixtures.Collected();
+        a.segment(body, p[j], p[j + 1], x::add);
+        b.segment(body, p[j], p[j + 1], y::add);
+        assertArrayEquals(x.ids(), y.ids(), body);
+        assertArrayEquals(x.starts(), y.starts(), body);
+        assertArrayEquals(x.ends(), y.ends(), body);
+      }
+    }
+  }
+
+  @Test
+  void sectionsWriteThenReadGiveTheSameSegmenter() {
+    BpeSegmenter s = withControls().withCacheEntries(1024);
+    Map<String, byte[]> pl = payloads(s);
+    assertEquals(java.util.Set.of("BPEC", "BPEM"), pl.keySet());
+    BpeSegmenter back = BpeSegmenter.read(new Fixtures.MapSections(pl));
+    assertSameSegmenter(s, back);
+    assertEquals(1024, back.cacheEntries());
+    assertEquals(s.controlTokens(), back.controlTokens());
+    assertEquals(1, back.controlTokens().id("«sail»"));
+    // writing again is byte-identical
+    Map<String, byte[]> again = payloads(back);
+    assertArrayEquals(pl.get("BPEM"), again.get("BPEM"));
+    assertArrayEquals(pl.get("BPEC"), again.get("BPEC"));
+  }
+
+  @Test
+  void providerIsFoundOnTheClassPath() {
+    BpeSegmenter s = withControls();
+    SegmenterProvider found = null;
+    for (SegmenterProvider p : ServiceLoader.load(SegmenterProvider.class)) {
+      if (p.kind().equals("bpe")) {
+        found = p;
+      }
+    }
+    assertTrue(found != null, "no provider of kind bpe");
+    assertSameSegmenter(s, found.read(new Fixtures.MapSections(payloads(s))));
+  }
+
+  /** A BPEM payload with these (left, right) pairs. */
+  private static byte[] merges(int count, int... pairs) {
+    ByteBuffer b = ByteBuffer.allocate(4 + 4 * pairs.length).order(ByteOrder.LITTLE_ENDIAN);
+    b.putInt(count);
+    for (int v : pairs) {
+      b.putInt(v);
+    }
+    return b.array();
+  }
+
+  private static ModelFormatException corrupt(byte[] bpem) {
+    Map<String, byte[]> pl = new HashMap<>(payloads(BpeSegmenter.of(List.of(), new int[0], new int[0])));
+    pl.put("BPEM", bpem);
+    return assertThrows(ModelFormatException.class, () -> BpeSegmenter.read(new Fixtures.MapSections(pl)));
+  }
+
+  private static void assertNames(ModelFormatException e, String section, String part) {
+    assertEquals(section, e.section(), e.getMessage());
+    assertTrue(e.getMessage().contains(part), "message '" + e.getMessage() + "' lacks '" + part + "'");
+  }
+
+  @Test
+  void corruptMergesAreRejectedNamingSectionAndEntry() {
+    int a = 'a';
+    int b = 'b';
+    // unknown id (beyond the vocabulary)
+    assertNames(corrupt(merges(2, a, b, 256, 9999)), "BPEM", "entry 1");
+    // an id not below the merge's own id (merge 0 is id 256)
+    assertNames(corrupt(merges(1, 256, a)), "BPEM", "entry 0");
+    // negative id
+    assertNames(corrupt(merges(1, -1, a)), "BPEM", "entry 0");
+    // repeated pair
+    assertNames(corrupt(merges(3, a, b, 256, a, a, b)), "BPEM", "entry 2");
+    // the same bytes twice: (a,b)=ab, (ab,a)=aba, (b,a)=ba, (a,ba)=aba again
+    assertNames(corrupt(merges(4, a, b, 256, a, b, a, a, 258)), "BPEM", "entry 3");
+    // forged count far beyond the payload
+    assertNames(corrupt(merges(0x7FFFFFFF, a, b)), "BPEM", "merges");
+    // trailing bytes
+    assertNames(corrupt(merges(1, a, b, 7)), "BPEM", "trailing");
+    // doubling chain past MAX_TOKEN_BYTES (2^13 = 8192 > 4096)
+    int[] chain = new int[26];
+    chain[0] = a;
+    chain[1] = a;
+    for (int r = 1; r < 13; r++) {
+      chain[2 * r] = 255 + r;
+      chain[2 * r + 1] = 255 + r;
+    }
+    assertNames(corrupt(merges(13, chain)), "BPEM", "MAX_TOKEN_BYTES");
+  }
+
+  @Test
+  void corruptSettingsAreRejected() {
+    Map<String, byte[]> pl = new HashMap<>(payloads(withControls()));
+    byte[] c = pl.get("BPEC").clone();
+    c[0] = 9; // version
+    pl.put("BPEC", c);
+    assertNames(assertThrows(ModelFormatException.class, () -> BpeSegmenter.read(new Fixtures.MapSections(pl))),
+        "BPEC", "version");
+    Map<String, byte[]> missing = new HashMap<>(payloads(withControls()));
+    missing.remove("BPEM");
+    assertNames(assertThrows(ModelFormatException.class, () -> BpeSegmenter.read(new Fixtures.MapSections(missing))),
+        "BPEM", "missing");
+    // a control spelling that contains another (ControlTokens rule) is rejected
+    ModelWriter w = new ModelWriter();
+    w.section("BPEC").putInt(1).putInt(2).putString("«dock»").putString("dock").putInt(0);
+    w.section("BPEM").putInt(0);
+    assertNames(assertThrows(ModelFormatException.class, () -> BpeSegmenter.read(new Fixtures.MapSections(w.payloads()))),
+        "BPEC", "contains");
+  }
+
+  @Test
+  void mergeListRoundTripsIncludingSpacesAndPartialCharacters() {
+    BpeSegmenter s = withControls();
+    StringBuilder sb = new StringBuilder();
+    s.writeMergeList(sb);
+    String text = sb.toString();
+    assertEquals(s.mergeCount(), text.split("\n", -1).length - 1);
+    assertTrue(text.contains("\\x20"), "pieces with leading spaces are in the list");
+    BpeSegmenter back = BpeSegmenter.readMergeList(new StringReader(text), "merges.txt", CONTROLS);
+    assertSameSegmenter(s, back);
+    // a merge of two partial-character bytes uses \xHH in both display and line form
+    BpeSegmenter partial = BpeSegmenter.of(List.of(), new int[] {0xC3, 0xE2}, new int[] {0xA9, 0x82});
+    StringBuilder p = new StringBuilder();
+    partial.writeMergeList(p);
+    assertEquals("\\xc3 \\xa9\n\\xe2 \\x82\n", p.toString());
+    assertEquals("é", partial.token(256)); // C3 A9 is U+00E9 (RFC 3629)
+    assertEquals("\\xe2\\x82", partial.token(257)); // truncated 3-byte sequence
+  }
+
+  @Test
+  void mergeListErrorsNameTheLine() {
+    ModelFormatException unknown = assertThrows(ModelFormatException.class,
+        () -> BpeSegmenter.readMergeList(new StringReader("f e\nfe r\nfer zz\n"), "ferry.txt", List.of()));
+    assertNames(unknown, "ferry.txt line 3", "unknown token 'zz'");
+    ModelFormatException repeated = assertThrows(ModelFormatException.class,
+        () -> BpeSegmenter.readMergeList(new StringReader("f e\nq u\nf e\n"), "ferry.txt", List.of()));
+    assertNames(repeated, "ferry.txt line 3", "repeated pair, first given on line 1");
+    ModelFormatException malformed = assertThrows(ModelFormatException.class,
+        () -> BpeSegmenter.readMergeList(new StringReader("f e\nq  u\n"), "ferry.txt", List.of()));
+    assertNames(malformed, "ferry.txt line 2", "one space");
+    ModelFormatException escape = assertThrows(ModelFormatException.class,
+        () -> BpeSegmenter.readMergeList(new StringReader("\\q e\n"), "ferry.txt", List.of()));
+    assertNames(escape, "ferry.txt line 1", "malformed escape");
+    ModelFormatException twice = assertThrows(ModelFormatException.class,
+        () -> BpeSegmenter.readMergeList(new StringReader("a b\nab c\nb c\na bc\n"), "ferry.txt", List.of()));
+    assertNames(twice, "ferry.txt line 4", "already exists");
+    assertEquals(2, BpeSegmenter.readMergeList(new StringReader("\\\\ n\n\\x0a \\x20\n"), "ok.txt", List.of()).mergeCount());
+  }
+
+  @Test
+  void explicitMergesAreValidated() {
+    TrainerTest.assertMessage("refers to an id", () -> BpeSegmenter.of(List.of(), new int[] {300}, new int[] {'a'}));
+    TrainerTest.assertMessage("refers to an id", () -> BpeSegmenter.of(List.of("«dock»"), new int[] {0}, new int[] {'a'}));
+    TrainerTest.assertMessage("differ in length", () -> BpeSegmenter.of(List.of(), new int[] {97}, new int[0]));
+    assertEquals("ab", new String(BpeSegmenter.of(List.of(), new int[] {'a'}, new int[] {'b'}).tokenBytes(256),
+        StandardCharsets.UTF_8));
+  }
+}
