@@ -120,7 +120,8 @@ final class TestSupport {
   }
 
   /**
-   * Naive greedy longest-match-first [2]: at each position try the longest remaining prefix and
+   * Naive greedy longest-match-first [2]: at each position try the longest remaining prefix (up to
+   * the longest token) and
    * shrink until a vocabulary entry of the right kind (word-initial at the piece start, continuation
    * after) matches; if none matches, or the piece is too long, the whole piece is the unknown id.
    * Written from the method's definition only.
@@ -130,6 +131,7 @@ final class TestSupport {
     private final Map<String, Integer> continuation = new HashMap<>();
     private final int unknown;
     private final int maxLength;
+    private int longestToken;
 
     /** Vocabulary spellings in id order, laid out as controls, unknown, the rest. */
     NaiveGreedy(List<String> spellings, int controls, String marker, int maxLength) {
@@ -137,11 +139,14 @@ final class TestSupport {
       this.maxLength = maxLength;
       for (int id = controls + 1; id < spellings.size(); id++) {
         String s = spellings.get(id);
+        String body = s;
         if (s.startsWith(marker) && s.length() > marker.length()) {
-          continuation.put(s.substring(marker.length()), id);
+          body = s.substring(marker.length());
+          continuation.put(body, id);
         } else {
           initial.put(s, id);
         }
+        longestToken = Math.max(longestToken, body.length());
       }
     }
 
@@ -157,7 +162,7 @@ final class TestSupport {
       while (pos < piece.length()) {
         Map<String, Integer> table = pos == 0 ? initial : continuation;
         int found = -1;
-        int end = piece.length();
+        int end = Math.min(piece.length(), pos + longestToken);
         for (; end > pos; end--) {
           Integer id = table.get(piece.substring(pos, end));
           if (id != null) {
