@@ -48,6 +48,11 @@ final class LinMaxMatchTrie {
   static final int CONT_ROOT = 1;
   /** Dense child tables cover chars below this (ASCII). */
   private static final int DENSE = 128;
+  /**
+   * Most failure-pop entries kept, in ints (128 MiB): the runs total at most the sum of node depths,
+   * which a forged vocabulary of very long tokens could drive quadratic; such a vocabulary is refused.
+   */
+  static final int MAX_POPS = 1 << 25;
   /** Fibonacci hashing multiplier (2^64 / golden ratio), spreads (node, char) keys over the table. */
   private static final long MIX = 0x9E3779B97F4A7C15L;
 
@@ -73,11 +78,14 @@ final class LinMaxMatchTrie {
    * @param bodies token bodies (continuation bodies without the marker), indexed by token id; {@code
    *     null} for ids that are not matched (control and unknown tokens)
    * @param continuation whether each id is a continuation token
+   * @param maxLength bodies longer than this (in UTF-16 units) can never match a piece and are left
+   *     out
+   * @throws IllegalArgumentException if the vocabulary is too large for the automaton's limits
    */
-  LinMaxMatchTrie(String[] bodies, boolean[] continuation) {
+  LinMaxMatchTrie(String[] bodies, boolean[] continuation, int maxLength) {
     long totalChars = 0;
     for (String b : bodies) {
-      if (b != null) {
+      if (b != null && b.length() <= maxLength) {
         totalChars += b.length();
       }
     }
@@ -102,7 +110,7 @@ final class LinMaxMatchTrie {
     int maxDepth = 0;
     for (int id = 0; id < bodies.length; id++) {
       String b = bodies[id];
-      if (b == null) {
+      if (b == null || b.length() > maxLength) {
         continue;
       }
       int node = continuation[id] ? CONT_ROOT : ROOT;
@@ -165,6 +173,10 @@ final class LinMaxMatchTrie {
         fail[v] = lookup(z, c);
       }
       popLength[v] = pool.size() - popStart[v];
+      if (pool.size() > MAX_POPS) {
+        throw new IllegalArgumentException("the vocabulary's failure pops exceed " + MAX_POPS
+            + " entries (very long tokens); shorten the tokens or lower maxPieceLength");
+      }
     }
     pops = pool.toIntArray();
 

@@ -153,7 +153,7 @@ public final class WordPieceSegmenter implements Segmenter {
     }
     decodeStart[n] = at;
     try {
-      trie = new LinMaxMatchTrie(bodies, cont);
+      trie = new LinMaxMatchTrie(bodies, cont, settings.maxPieceLength());
     } catch (IllegalArgumentException e) {
       throw errors.fail(-1, e.getMessage());
     }

@@ -2,6 +2,8 @@ package dev.morsel.tokenize.wordpiece;
 
 import static org.junit.jupiter.api.Assertions.assertArrayEquals;
 import static org.junit.jupiter.api.Assertions.assertEquals;
+import static org.junit.jupiter.api.Assertions.assertThrows;
+import static org.junit.jupiter.api.Assertions.assertTrue;
 
 import java.util.ArrayList;
 import java.util.List;
@@ -46,6 +48,21 @@ class AdversarialInputTest {
             "k=" + k + " n=" + n + " +b");
       }
     }
+  }
+
+  @Test
+  void forgedVocabularyWithQuadraticFailurePopsIsRefused() {
+    // failure pops of the path a, aa, ..., a^L (L = 9000) hold about L^2 / 2 entries [3, §3]
+    String longToken = "a".repeat(9000) + "b";
+    WordPieceSettings st = WordPieceSettings.defaults().withMaxPieceLength(10_000);
+    IllegalArgumentException e = assertThrows(IllegalArgumentException.class,
+        () -> WordPieceSegmenter.of(List.of(WordPieceSettings.DEFAULT_UNKNOWN, "a", M + "a", longToken), 0, st));
+    assertTrue(e.getMessage().contains("maxPieceLength"), e.getMessage());
+    // with the default piece limit the long token can never match and is left out of the trie
+    WordPieceSegmenter s = WordPieceSegmenter.of(List.of(WordPieceSettings.DEFAULT_UNKNOWN, "a", M + "a", longToken), 0,
+        WordPieceSettings.defaults());
+    assertEquals(3, s.id(longToken));
+    assertArrayEquals(new int[] {1, 2, 2}, TestSupport.segmentOne(s, "aaa", 0, 3).ids.toIntArray());
   }
 
   @Test

@@ -121,9 +121,8 @@ final class TestSupport {
 
   /**
    * Naive greedy longest-match-first [2]: at each position try the longest remaining prefix (up to
-   * the longest token) and
-   * shrink until a vocabulary entry of the right kind (word-initial at the piece start, continuation
-   * after) matches; if none matches, or the piece is too long, the whole piece is the unknown id.
+   * the longest token) and shrink until a vocabulary entry of the right kind (word-initial at the
+   * piece start, continuation after) matches; if none matches, or the piece is too long, the whole piece is the unknown id.
    * Written from the method's definition only.
    */
   static final class NaiveGreedy {
