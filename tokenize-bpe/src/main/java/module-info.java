@@ -1,6 +1,6 @@
 /** Segmenters whose vocabularies are learned by merging pairs. */
 module dev.morsel.tokenize.bpe {
-  requires dev.morsel.tokenize;
+  requires transitive dev.morsel.tokenize;
   requires it.unimi.dsi.fastutil.core;
 
   exports dev.morsel.tokenize.wordpiece;

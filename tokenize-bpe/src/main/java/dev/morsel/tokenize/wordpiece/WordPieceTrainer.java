@@ -99,7 +99,7 @@ public final class WordPieceTrainer {
 
     /**
      * Target vocabulary size in tokens, control and unknown tokens included (default {@value
-     * #DEFAULT_VOCABULARY_SIZE}).
+     * WordPieceTrainer#DEFAULT_VOCABULARY_SIZE}).
      *
      * @throws IllegalArgumentException if not in {@code [2, MAX_VOCABULARY_SIZE]}
      */
@@ -113,7 +113,7 @@ public final class WordPieceTrainer {
     }
 
     /**
-     * Pieces seen fewer times are dropped (default {@value #DEFAULT_MIN_COUNT}).
+     * Pieces seen fewer times are dropped (default {@value WordPieceTrainer#DEFAULT_MIN_COUNT}).
      *
      * @throws IllegalArgumentException if below 1
      */
@@ -126,7 +126,7 @@ public final class WordPieceTrainer {
     }
 
     /**
-     * Most distinct code points kept in the alphabet (default {@value #DEFAULT_MAX_ALPHABET}).
+     * Most distinct code points kept in the alphabet (default {@value WordPieceTrainer#DEFAULT_MAX_ALPHABET}).
      *
      * @throws IllegalArgumentException if below 1
      */

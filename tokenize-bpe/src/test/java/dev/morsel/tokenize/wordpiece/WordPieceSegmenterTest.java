@@ -25,8 +25,8 @@ class WordPieceSegmenterTest {
   @Test
   void paperWorkedExample() {
     // from memory: [3] Song et al. (2021), "Fast WordPiece Tokenization", §3 running example:
-    // vocabulary {a, abcdx, ##b, ##c, ##cdy, ##dz}, input "abcdz" -> [a, ##b, ##c, ##dz]
-    // (written here with our marker instead of the paper's).
+    // vocabulary {a, abcdx, +b, +c, +cdy, +dz} ("+" standing for the continuation marker), input
+    // "abcdz" -> [a, +b, +c, +dz]; written here with our marker.
     WordPieceSegmenter s = seg(UNK, "a", "abcdx", M + "b", M + "c", M + "cdy", M + "dz");
     TestSupport.Encoded e = TestSupport.segmentOne(s, "abcdz", 0, 5);
     assertArrayEquals(new int[] {1, 3, 4, 6}, e.ids.toIntArray());
