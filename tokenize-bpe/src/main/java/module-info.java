@@ -1,13 +1,18 @@
 /**
- * Byte-level BPE for Morsel: {@link dev.morsel.tokenize.bpe.BpeTrainer} learns merges from piece
- * counts, {@link dev.morsel.tokenize.bpe.BpeSegmenter} applies them. Found by the api's loader under
- * the kind name {@code "bpe"}.
+ * Segmenters whose vocabularies are learned by merging pairs: byte-level BPE
+ * ({@link dev.morsel.tokenize.bpe.BpeTrainer}, {@link dev.morsel.tokenize.bpe.BpeSegmenter}, kind
+ * {@code "bpe"}) and WordPiece ({@link dev.morsel.tokenize.wordpiece.WordPieceTrainer},
+ * {@link dev.morsel.tokenize.wordpiece.WordPieceSegmenter}, kind {@code "wordpiece"}). Found by the
+ * api's loader under their kind names.
  */
 module dev.morsel.tokenize.bpe {
-  requires dev.morsel.tokenize;
+  requires transitive dev.morsel.tokenize;
   requires it.unimi.dsi.fastutil.core;
 
   exports dev.morsel.tokenize.bpe;
+  exports dev.morsel.tokenize.wordpiece;
 
-  provides dev.morsel.tokenize.spi.SegmenterProvider with dev.morsel.tokenize.bpe.internal.BpeProvider;
+  provides dev.morsel.tokenize.spi.SegmenterProvider with
+      dev.morsel.tokenize.bpe.internal.BpeProvider,
+      dev.morsel.tokenize.wordpiece.internal.WordPieceProvider;
 }

@@ -1,0 +1,375 @@
+package dev.morsel.tokenize.wordpiece;
+
+import dev.morsel.tokenize.format.ModelFormatException;
+import dev.morsel.tokenize.format.ModelSections;
+import dev.morsel.tokenize.format.ModelWriter;
+import dev.morsel.tokenize.format.SectionReader;
+import dev.morsel.tokenize.format.SectionWriter;
+import dev.morsel.tokenize.spi.ByteSink;
+import dev.morsel.tokenize.spi.Segmenter;
+import dev.morsel.tokenize.spi.TokenSink;
+import it.unimi.dsi.fastutil.objects.Object2IntOpenHashMap;
+import java.io.IOException;
+import java.io.Reader;
+import java.io.UncheckedIOException;
+import java.nio.charset.StandardCharsets;
+import java.util.List;
+import java.util.Objects;
+
+/**
+ * A WordPiece segmenter: each piece is segmented greedily, longest match first, against a
+ * vocabulary of word-initial and continuation tokens; a piece that cannot be covered, or that is
+ * longer than {@link WordPieceSettings#maxPieceLength()}, becomes the unknown token as a whole.
+ * Immutable and thread-safe; {@link #segment} allocates nothing in steady state and runs in time
+ * linear in the piece length on every input (LinMaxMatch [3]).
+ *
+ * <p>Vocabulary layout: ids {@code 0..controlCount-1} are control tokens (user spellings, never
+ * produced by {@link #segment}), id {@code controlCount} is the unknown token, the rest are
+ * ordinary tokens. An ordinary spelling that starts with the marker and is longer than it is a
+ * continuation token whose text is the spelling without the marker; any other spelling is a
+ * word-initial token. Spellings are distinct and well-formed UTF-16.
+ *
+ * <p>Decoding: a word-initial token writes its text, a continuation token its text without the
+ * marker, the unknown token the UTF-8 of its spelling and a control token the UTF-8 of its spelling.
+ * Decoding is therefore lossless only for results without an unknown token.
+ *
+ * <p>Model sections: {@value #SETTINGS_TAG} (format version, marker, unknown spelling, maximum
+ * piece length, control count) and {@value #VOCABULARY_TAG} (token count, then each spelling);
+ * see {@code docs/wordpiece.md}.
+ *
+ * <p>References: [2] Wu et al. (2016), "Google's Neural Machine Translation System", §4.1; [3]
+ * Song et al. (2021), "Fast WordPiece Tokenization", EMNLP 2021.
+ *
+ * @since 0.1.0
+ */
+public final class WordPieceSegmenter implements Segmenter {
+  /** The kind name written in model files. */
+  public static final String KIND = "wordpiece";
+  /** Section tag of the settings. */
+  public static final String SETTINGS_TAG = "WPST";
+  /** Section tag of the vocabulary. */
+  public static final String VOCABULARY_TAG = "WPVO";
+  /** Version of the two sections' layout. */
+  static final int FORMAT_VERSION = 1;
+  /** Most tokens a vocabulary may hold (keeps trie keys and pop runs in int range). */
+  public static final int MAX_VOCABULARY_SIZE = 1 << 24;
+
+  private static final byte CONTROL = 0;
+  private static final byte UNKNOWN = 1;
+  private static final byte INITIAL = 2;
+  private static final byte CONTINUATION = 3;
+
+  // ------------------------------------------------------------------ state
+
+  private final WordPieceSettings settings;
+  private final int controlCount;
+  private final int unknownId;
+  private final String[] spellings;
+  private final byte[] kinds;
+  private final int[] bodyLength;
+  private final byte[] decodePool;
+  private final int[] decodeStart; // length n + 1
+  private final Object2IntOpenHashMap<String> ids;
+  private final LinMaxMatchTrie trie;
+  private final ThreadLocal<int[]> scratch;
+
+  // ------------------------------------------------------------------ life-cycle
+
+  /** Validates and builds; {@code errors} turns (entry index, message) into the exception to throw. */
+  private WordPieceSegmenter(List<String> tokens, int controlCount, WordPieceSettings settings, Errors errors) {
+    this.settings = Objects.requireNonNull(settings, "settings");
+    int n = tokens.size();
+    if (n > MAX_VOCABULARY_SIZE) {
+      throw errors.fail(-1, "vocabulary of " + n + " tokens exceeds " + MAX_VOCABULARY_SIZE);
+    }
+    if (controlCount < 0 || controlCount >= n) {
+      throw errors.fail(-1, "control count " + controlCount + " must lie in [0, " + (n - 1)
+          + "] so that the unknown token follows the control tokens in a vocabulary of " + n + " tokens");
+    }
+    this.controlCount = controlCount;
+    this.unknownId = controlCount;
+    String marker = settings.marker();
+    spellings = new String[n];
+    kinds = new byte[n];
+    bodyLength = new int[n];
+    String[] bodies = new String[n];
+    boolean[] cont = new boolean[n];
+    ids = new Object2IntOpenHashMap<>(n);
+    ids.defaultReturnValue(-1);
+    byte[][] bytes = new byte[n][];
+    long poolSize = 0;
+    for (int i = 0; i < n; i++) {
+      String s = tokens.get(i);
+      if (s == null || s.isEmpty()) {
+        throw errors.fail(i, "token is " + (s == null ? "null" : "empty"));
+      }
+      if (!WordPieceSettings.wellFormed(s)) {
+        throw errors.fail(i, "token '" + s + "' holds a lone surrogate");
+      }
+      int prev = ids.putIfAbsent(s, i);
+      if (prev >= 0) {
+        throw errors.fail(i, "token '" + s + "' duplicates token " + prev);
+      }
+      spellings[i] = s;
+      String text;
+      if (i < controlCount) {
+        kinds[i] = CONTROL;
+        text = s;
+      } else if (i == controlCount) {
+        if (!s.equals(settings.unknownToken())) {
+          throw errors.fail(i, "expected the unknown token '" + settings.unknownToken() + "' after "
+              + controlCount + " control tokens but found '" + s + "'");
+        }
+        kinds[i] = UNKNOWN;
+        text = s;
+      } else if (s.length() > marker.length() && s.startsWith(marker)) {
+        kinds[i] = CONTINUATION;
+        text = s.substring(marker.length());
+        if (!WordPieceSettings.wellFormed(text)) {
+          throw errors.fail(i, "continuation token '" + s + "' holds a lone surrogate after the marker");
+        }
+        bodies[i] = text;
+        cont[i] = true;
+        bodyLength[i] = text.length();
+      } else {
+        kinds[i] = INITIAL;
+        text = s;
+        bodies[i] = text;
+        bodyLength[i] = text.length();
+      }
+      bytes[i] = text.getBytes(StandardCharsets.UTF_8);
+      poolSize += bytes[i].length;
+    }
+    if (poolSize > Integer.MAX_VALUE - 16) {
+      throw errors.fail(-1, "vocabulary text of " + poolSize + " bytes is too large");
+    }
+    decodePool = new byte[(int) poolSize];
+    decodeStart = new int[n + 1];
+    int at = 0;
+    for (int i = 0; i < n; i++) {
+      decodeStart[i] = at;
+      System.arraycopy(bytes[i], 0, decodePool, at, bytes[i].length);
+      at += bytes[i].length;
+    }
+    decodeStart[n] = at;
+    try {
+      trie = new LinMaxMatchTrie(bodies, cont, settings.maxPieceLength());
+    } catch (IllegalArgumentException e) {
+      throw errors.fail(-1, e.getMessage());
+    }
+    int scratchSize = settings.maxPieceLength();
+    scratch = ThreadLocal.withInitial(() -> new int[scratchSize]);
+  }
+
+  /** Maps a validation failure at an entry (or -1 for the whole) to an exception. */
+  @FunctionalInterface
+  private interface Errors {
+    RuntimeException fail(int index, String message);
+  }
+
+  /**
+   * A segmenter over {@code tokens} in id order: {@code controlCount} control tokens, then the
+   * unknown token, then word-initial and continuation tokens (marked with the settings' marker).
+   *
+   * @throws IllegalArgumentException naming the token index if a token is null, empty, duplicated or
+   *     holds a lone surrogate, if the unknown token is not at index {@code controlCount}, or if the
+   *     control count is out of range
+   */
+  public static WordPieceSegmenter of(List<String> tokens, int controlCount, WordPieceSettings settings) {
+    Objects.requireNonNull(tokens, "tokens");
+    return new WordPieceSegmenter(tokens, controlCount, settings,
+        (i, m) -> new IllegalArgumentException(i < 0 ? m : "token " + i + ": " + m));
+  }
+
+  /**
+   * Reads a plain token list (UTF-8 text, one spelling a line in id order; escapes {@code \\},
+   * {@code \n}, {@code \r}, {@code \t}, {@code \}{@code uXXXX}) laid out as in {@link #of}.
+   *
+   * @param source names the input in error messages, for example a file name
+   * @throws ModelFormatException naming the line if a line is malformed or the vocabulary is invalid
+   * @throws UncheckedIOException if reading fails
+   */
+  public static WordPieceSegmenter readTokenList(Reader in, String source, int controlCount,
+      WordPieceSettings settings) {
+    Objects.requireNonNull(in, "in");
+    Objects.requireNonNull(source, "source");
+    List<String> tokens = TokenListText.read(in, source);
+    return new WordPieceSegmenter(tokens, controlCount, settings,
+        (i, m) -> new ModelFormatException(i < 0 ? source : source + " line " + (i + 1), m));
+  }
+
+  /**
+   * Reads a segmenter from its model sections ({@value #SETTINGS_TAG}, {@value #VOCABULARY_TAG}),
+   * validating everything before building.
+   *
+   * @throws ModelFormatException naming the section and entry that is wrong
+   */
+  public static WordPieceSegmenter read(ModelSections sections) {
+    SectionReader st = sections.reader(SETTINGS_TAG);
+    int version = st.getInt("format version");
+    if (version != FORMAT_VERSION) {
+      throw st.fail("format version " + version + " is not supported (expected " + FORMAT_VERSION + ")");
+    }
+    String marker = st.getString("marker");
+    String unknown = st.getString("unknown token");
+    int maxPieceLength = st.getInt("max piece length");
+    int controlCount = st.getInt("control count");
+    st.expectEnd();
+    WordPieceSettings settings;
+    try {
+      settings = WordPieceSettings.defaults().withMarker(marker).withUnknownToken(unknown)
+          .withMaxPieceLength(maxPieceLength);
+    } catch (IllegalArgumentException e) {
+      throw new ModelFormatException(SETTINGS_TAG, e.getMessage(), e);
+    }
+    SectionReader vo = sections.reader(VOCABULARY_TAG);
+    int n = vo.getCount("token", MAX_VOCABULARY_SIZE, 4);
+    String[] tokens = new String[n];
+    for (int i = 0; i < n; i++) {
+      tokens[i] = vo.getString("token " + i);
+    }
+    vo.expectEnd();
+    if (controlCount < 0 || controlCount >= n) {
+      throw new ModelFormatException(SETTINGS_TAG, "control count " + controlCount + " must lie in [0, "
+          + (n - 1) + "] for a vocabulary of " + n + " tokens");
+    }
+    return new WordPieceSegmenter(List.of(tokens), controlCount, settings,
+        (i, m) -> new ModelFormatException(VOCABULARY_TAG, i < 0 ? m : "entry " + i + ": " + m));
+  }
+
+  // ------------------------------------------------------------------ API
+
+  @Override
+  public String kind() {
+    return KIND;
+  }
+
+  @Override
+  public int vocabularySize() {
+    return spellings.length;
+  }
+
+  @Override
+  public String token(int id) {
+    return spellings[Objects.checkIndex(id, spellings.length)];
+  }
+
+  @Override
+  public int id(String token) {
+    return ids.getInt(token);
+  }
+
+  @Override
+  public int unknownId() {
+    return unknownId;
+  }
+
+  /** The settings: marker, unknown spelling, piece limit. */
+  public WordPieceSettings settings() {
+    return settings;
+  }
+
+  /** Number of control tokens (ids {@code 0..controlCount-1}). */
+  public int controlCount() {
+    return controlCount;
+  }
+
+  /**
+   * Whether {@code id} is a continuation token.
+   *
+   * @throws IndexOutOfBoundsException if {@code id} is not in the vocabulary
+   */
+  public boolean isContinuation(int id) {
+    return kinds[Objects.checkIndex(id, kinds.length)] == CONTINUATION;
+  }
+
+  /**
+   * The spellings in id order, as given to {@link #of}.
+   */
+  public List<String> tokens() {
+    return List.of(spellings);
+  }
+
+  /**
+   * Writes the vocabulary as a plain token list readable by {@link #readTokenList}.
+   *
+   * @throws UncheckedIOException if {@code out} fails
+   */
+  public void writeTokenList(Appendable out) {
+    try {
+      for (String s : spellings) {
+        TokenListText.writeLine(out, s);
+      }
+    } catch (IOException e) {
+      throw new UncheckedIOException(e);
+    }
+  }
+
+  /**
+   * {@inheritDoc}
+   *
+   * <p>The piece is segmented greedily, longest match first; if it cannot be covered or is longer
+   * than {@link WordPieceSettings#maxPieceLength()}, one unknown token spans the whole piece. The
+   * sink must not call back into this segmenter on the same thread.
+   */
+  @Override
+  public void segment(CharSequence text, int start, int end, TokenSink sink) {
+    Objects.checkFromToIndex(start, end, text.length());
+    int len = end - start;
+    if (len == 0) {
+      return;
+    }
+    if (len > settings.maxPieceLength()) {
+      sink.token(unknownId, start, end);
+      return;
+    }
+    int[] buf = scratch.get();
+    int n = trie.match(text, start, end, buf);
+    if (n < 0) {
+      sink.token(unknownId, start, end);
+      return;
+    }
+    final int[] lengths = bodyLength;
+    int pos = start;
+    for (int k = 0; k < n; k++) {
+      int id = buf[k];
+      int e = pos + lengths[id];
+      sink.token(id, pos, e);
+      pos = e;
+    }
+  }
+
+  @Override
+  public void decodeToken(int id, ByteSink out) {
+    Objects.checkIndex(id, spellings.length);
+    int s = decodeStart[id];
+    out.write(decodePool, s, decodeStart[id + 1] - s);
+  }
+
+  @Override
+  public void write(ModelWriter out) {
+    SectionWriter st = out.section(SETTINGS_TAG);
+    st.putInt(FORMAT_VERSION);
+    st.putString(settings.marker());
+    st.putString(settings.unknownToken());
+    st.putInt(settings.maxPieceLength());
+    st.putInt(controlCount);
+    SectionWriter vo = out.section(VOCABULARY_TAG);
+    vo.putInt(spellings.length);
+    for (String s : spellings) {
+      vo.putString(s);
+    }
+  }
+
+  // ------------------------------------------------------------------ internals (diagnostics)
+
+  /** Number of trie nodes (both roots included); for memory diagnostics and benchmarks. */
+  int trieNodeCount() {
+    return trie.nodeCount();
+  }
+
+  @Override
+  public String toString() {
+    return "WordPieceSegmenter[" + spellings.length + " tokens, " + settings + "]";
+  }
+}

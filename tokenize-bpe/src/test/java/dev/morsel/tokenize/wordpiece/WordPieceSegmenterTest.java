@@ -1,0 +1,170 @@
+package dev.morsel.tokenize.wordpiece;
+
+import static org.junit.jupiter.api.Assertions.assertArrayEquals;
+import static org.junit.jupiter.api.Assertions.assertEquals;
+import static org.junit.jupiter.api.Assertions.assertFalse;
+import static org.junit.jupiter.api.Assertions.assertThrows;
+import static org.junit.jupiter.api.Assertions.assertTrue;
+
+import dev.morsel.tokenize.format.ModelFormatException;
+import dev.morsel.tokenize.testkit.OffsetInvariants;
+import java.io.StringReader;
+import java.nio.charset.StandardCharsets;
+import java.util.List;
+import org.junit.jupiter.api.Test;
+
+/** Unit checks of the segmenter: the paper's example, unknown handling, spans, decoding, validation. */
+class WordPieceSegmenterTest {
+  private static final String M = WordPieceSettings.DEFAULT_MARKER;
+  private static final String UNK = WordPieceSettings.DEFAULT_UNKNOWN;
+
+  private static WordPieceSegmenter seg(String... tokens) {
+    return WordPieceSegmenter.of(List.of(tokens), 0, WordPieceSettings.defaults());
+  }
+
+  @Test
+  void paperWorkedExample() {
+    // from memory: [3] Song et al. (2021), "Fast WordPiece Tokenization", §3 running example:
+    // vocabulary {a, abcdx, +b, +c, +cdy, +dz} ("+" standing for the continuation marker), input
+    // "abcdz" -> [a, +b, +c, +dz]; written here with our marker.
+    WordPieceSegmenter s = seg(UNK, "a", "abcdx", M + "b", M + "c", M + "cdy", M + "dz");
+    TestSupport.Encoded e = TestSupport.segmentOne(s, "abcdz", 0, 5);
+    assertArrayEquals(new int[] {1, 3, 4, 6}, e.ids.toIntArray());
+    assertArrayEquals(new int[] {0, 1, 2, 3}, e.starts.toIntArray());
+    assertArrayEquals(new int[] {1, 2, 3, 5}, e.ends.toIntArray());
+    assertEquals("abcdz", new String(TestSupport.decode(s, e.ids.toIntArray()), StandardCharsets.UTF_8));
+  }
+
+  @Test
+  void uncoverablePieceIsOneUnknownSpanningThePiece() {
+    // [2] §4.1 (greedy matching; an unmatched word maps to the unknown token as a whole)
+    WordPieceSegmenter s = seg(UNK, "a", "abcdx", M + "b", M + "c", M + "cdy", M + "dz");
+    String text = "zz abcq zz";
+    TestSupport.Encoded e = TestSupport.segmentOne(s, text, 3, 7);
+    assertArrayEquals(new int[] {0}, e.ids.toIntArray());
+    assertArrayEquals(new int[] {3}, e.starts.toIntArray());
+    assertArrayEquals(new int[] {7}, e.ends.toIntArray());
+    // first char not word-initial
+    assertArrayEquals(new int[] {0}, TestSupport.segmentOne(s, "b", 0, 1).ids.toIntArray());
+    // empty piece yields nothing
+    assertEquals(0, TestSupport.segmentOne(s, "abc", 1, 1).ids.size());
+  }
+
+  @Test
+  void spansAreAbsoluteInTheText() {
+    WordPieceSegmenter s = seg(UNK, " ferry", " fer", M + "ry", M + "ries", "s");
+    String text = "the ferries";
+    TestSupport.Encoded e = TestSupport.segmentOne(s, text, 3, 11);
+    assertArrayEquals(new int[] {2, 4}, e.ids.toIntArray());
+    assertArrayEquals(new int[] {3, 7}, e.starts.toIntArray());
+    assertArrayEquals(new int[] {7, 11}, e.ends.toIntArray());
+    OffsetInvariants.check(e.tokens(), text);
+  }
+
+  @Test
+  void pieceLongerThanTheLimitIsUnknown() {
+    WordPieceSettings st = WordPieceSettings.defaults().withMaxPieceLength(4);
+    WordPieceSegmenter s = WordPieceSegmenter.of(List.of(UNK, "dock", "do", M + "ck", M + "s"), 0, st);
+    assertArrayEquals(new int[] {1}, TestSupport.segmentOne(s, "dock", 0, 4).ids.toIntArray());
+    assertArrayEquals(new int[] {0}, TestSupport.segmentOne(s, "docks", 0, 5).ids.toIntArray());
+    assertEquals(5, TestSupport.segmentOne(s, "docks", 0, 5).ends.getInt(0));
+  }
+
+  @Test
+  void surrogatePairsStayWholeAndLoneSurrogatesAreUnknown() {
+    String clef = new String(Character.toChars(0x1D11E));
+    WordPieceSegmenter s = seg(UNK, clef, M + "a", M + clef, "a");
+    String text = clef + "a" + clef;
+    TestSupport.Encoded e = TestSupport.segmentOne(s, text, 0, text.length());
+    assertArrayEquals(new int[] {1, 2, 3}, e.ids.toIntArray());
+    assertArrayEquals(new int[] {0, 2, 3}, e.starts.toIntArray());
+    assertArrayEquals(new int[] {2, 3, 5}, e.ends.toIntArray());
+    OffsetInvariants.check(e.tokens(), text);
+    String lone = "a" + clef.charAt(0);
+    assertArrayEquals(new int[] {0}, TestSupport.segmentOne(s, lone, 0, 2).ids.toIntArray());
+    assertThrows(IllegalArgumentException.class, () -> seg(UNK, "a" + clef.charAt(1)));
+  }
+
+  @Test
+  void decodeDropsTheMarkerAndUnknownWritesItsSpelling() {
+    WordPieceSegmenter s = WordPieceSegmenter.of(List.of("harbour-bell", UNK, " pier", M + "s"), 1,
+        WordPieceSettings.defaults());
+    assertEquals(" piers", new String(TestSupport.decode(s, new int[] {2, 3}), StandardCharsets.UTF_8));
+    assertEquals(UNK, new String(TestSupport.decode(s, new int[] {1}), StandardCharsets.UTF_8));
+    assertTrue(s.isContinuation(3));
+    assertFalse(s.isContinuation(2));
+    assertEquals(1, s.unknownId());
+    assertEquals(3, s.id(M + "s"));
+    assertEquals(M + "s", s.token(3));
+    assertEquals(-1, s.id("s"));
+    // a control spelling in ordinary text is never produced as the control token
+    TestSupport.Encoded e = TestSupport.segmentOne(s, "harbour-bell", 0, 12);
+    assertArrayEquals(new int[] {1}, e.ids.toIntArray());
+    assertThrows(IndexOutOfBoundsException.class, () -> s.token(4));
+    assertThrows(IndexOutOfBoundsException.class, () -> s.decodeToken(-1, (b, o, l) -> {}));
+  }
+
+  @Test
+  void multiCharMarkerAndTokensThatSpellTheMarker() {
+    WordPieceSettings st = WordPieceSettings.defaults().withMarker("~+").withUnknownToken("?ferry?");
+    // "~+" alone is a word-initial token (not longer than the marker)
+    WordPieceSegmenter s = WordPieceSegmenter.of(List.of("?ferry?", "~+", "~", "~+~+", "~+x", "deck"), 0, st);
+    assertFalse(s.isContinuation(1));
+    assertTrue(s.isContinuation(3));
+    // "~+~+x": word-initial "~+" then continuation "~+" then continuation "x"
+    TestSupport.Encoded e = TestSupport.segmentOne(s, "~+~+x", 0, 5);
+    assertArrayEquals(new int[] {1, 3, 4}, e.ids.toIntArray());
+  }
+
+  @Test
+  void invalidVocabulariesAndSettingsAreRejected() {
+    WordPieceSettings d = WordPieceSettings.defaults();
+    IllegalArgumentException dup = assertThrows(IllegalArgumentException.class, () -> seg(UNK, "a", "b", "a"));
+    assertTrue(dup.getMessage().contains("token 3"), dup.getMessage());
+    IllegalArgumentException noUnk = assertThrows(IllegalArgumentException.class, () -> seg("a", UNK));
+    assertTrue(noUnk.getMessage().contains("token 0"), noUnk.getMessage());
+    assertThrows(IllegalArgumentException.class, () -> WordPieceSegmenter.of(List.of(UNK), 1, d));
+    assertThrows(IllegalArgumentException.class, () -> WordPieceSegmenter.of(List.of(UNK), -1, d));
+    assertThrows(IllegalArgumentException.class, () -> seg(UNK, ""));
+    assertThrows(IllegalArgumentException.class, () -> d.withMarker(""));
+    assertThrows(IllegalArgumentException.class, () -> d.withMarker("a b"));
+    assertThrows(IllegalArgumentException.class, () -> d.withMarker("\t"));
+    assertThrows(IllegalArgumentException.class, () -> d.withUnknownToken(""));
+    IllegalArgumentException lim = assertThrows(IllegalArgumentException.class, () -> d.withMaxPieceLength(0));
+    assertTrue(lim.getMessage().contains("maxPieceLength=0"), lim.getMessage());
+  }
+
+  @Test
+  void tokenListRoundTripWithEscapes() {
+    WordPieceSegmenter s = WordPieceSegmenter.of(List.of("harbour-bell", UNK, "\n", " pier", M + "s", "a\\b", "\t"), 1,
+        WordPieceSettings.defaults());
+    StringBuilder sb = new StringBuilder();
+    s.writeTokenList(sb);
+    assertEquals("harbour-bell\n" + UNK + "\n\\n\n pier\n" + M + "s\na\\\\b\n\\t\n", sb.toString());
+    WordPieceSegmenter back = WordPieceSegmenter.readTokenList(new StringReader(sb.toString()), "test list", 1,
+        WordPieceSettings.defaults());
+    assertEquals(s.tokens(), back.tokens());
+  }
+
+  @Test
+  void tokenListErrorsNameTheLine() {
+    WordPieceSettings d = WordPieceSettings.defaults();
+    ModelFormatException dup = assertThrows(ModelFormatException.class,
+        () -> WordPieceSegmenter.readTokenList(new StringReader(UNK + "\nquay\nquay\n"), "quay.txt", 0, d));
+    assertEquals("quay.txt line 3", dup.section());
+    ModelFormatException empty = assertThrows(ModelFormatException.class,
+        () -> WordPieceSegmenter.readTokenList(new StringReader(UNK + "\n\nquay\n"), "quay.txt", 0, d));
+    assertEquals("quay.txt line 2", empty.section());
+    ModelFormatException esc = assertThrows(ModelFormatException.class,
+        () -> WordPieceSegmenter.readTokenList(new StringReader(UNK + "\nq\\x\n"), "quay.txt", 0, d));
+    assertEquals("quay.txt line 2", esc.section());
+    ModelFormatException shortU = assertThrows(ModelFormatException.class,
+        () -> WordPieceSegmenter.readTokenList(new StringReader(UNK + "\nq\\u12\n"), "quay.txt", 0, d));
+    assertEquals("quay.txt line 2", shortU.section());
+    ModelFormatException noUnk = assertThrows(ModelFormatException.class,
+        () -> WordPieceSegmenter.readTokenList(new StringReader("quay\n" + UNK + "\n"), "quay.txt", 0, d));
+    assertEquals("quay.txt line 1", noUnk.section());
+    WordPieceSegmenter ok = WordPieceSegmenter.readTokenList(new StringReader(UNK + "\r\nq\\u0041\r\n"), "quay.txt", 0, d);
+    assertEquals(List.of(UNK, "qA"), ok.tokens());
+  }
+}

@@ -1,0 +1,266 @@
+package dev.morsel.tokenize.wordpiece;
+
+import static org.junit.jupiter.api.Assertions.assertArrayEquals;
+import static org.junit.jupiter.api.Assertions.assertEquals;
+import static org.junit.jupiter.api.Assertions.assertFalse;
+import static org.junit.jupiter.api.Assertions.assertThrows;
+import static org.junit.jupiter.api.Assertions.assertTrue;
+
+import dev.morsel.tokenize.train.PieceCounts;
+import java.util.ArrayList;
+import java.util.HashMap;
+import java.util.LinkedHashMap;
+import java.util.LinkedHashSet;
+import java.util.List;
+import java.util.Map;
+import java.util.SplittableRandom;
+import java.util.TreeMap;
+import java.util.stream.LongStream;
+import org.junit.jupiter.api.Test;
+import org.junit.jupiter.params.ParameterizedTest;
+import org.junit.jupiter.params.provider.MethodSource;
+
+/**
+ * Trainer checks: merges computed by hand on a tiny ferry corpus, agreement with an independent
+ * textbook trainer (full recount every merge) on seeded random corpora, and bad input.
+ */
+class WordPieceTrainerTest {
+  private static final String M = WordPieceSettings.DEFAULT_MARKER;
+  private static final String UNK = WordPieceSettings.DEFAULT_UNKNOWN;
+
+  private static PieceCounts ferryCorpus() {
+    Map<String, Long> m = new HashMap<>();
+    m.put("ferry", 5L);
+    m.put("fare", 3L);
+    m.put("pier", 2L);
+    return PieceCounts.of(m);
+  }
+
+  @Test
+  void firstMergesMatchTheScoresComputedByHand() {
+    // Score count(ab) / (count(a) * count(b)) // common practice: likelihood-based WordPiece training [1].
+    // Corpus: ferry x5, fare x3, pier x2. Unit counts: f 8, p 2, ∘e 10, ∘r 15, ∘y 5, ∘a 3, ∘i 2.
+    // Pair counts and scores:
+    //   (f,∘e) 5/(8*10)=0.0625  (∘e,∘r) 7/(10*15)=0.047  (∘r,∘r) 5/(15*15)=0.022  (∘r,∘y) 5/(15*5)=0.067
+    //   (f,∘a) 3/(8*3)=0.125    (∘a,∘r) 3/(3*15)=0.067   (∘r,∘e) 3/(15*10)=0.02  (p,∘i) 2/(2*2)=0.5
+    //   (∘i,∘e) 2/(2*10)=0.1
+    // 1st merge: (p,∘i) -> "pi" (0.5).
+    // 2nd: (pi,∘e) is now 2/(2*10)=0.1; best is (f,∘a) -> "fa" (0.125).
+    // 3rd: f now counts 5: (f,∘e)=5/(5*10)=0.1 ties (pi,∘e)=0.1; higher pair count wins -> "fe".
+    WordPieceSegmenter s = WordPieceTrainer.builder().vocabularySize(1 + 7 + 3).build().train(ferryCorpus());
+    List<String> t = s.tokens();
+    assertEquals(11, t.size());
+    assertEquals(UNK, t.get(0));
+    // alphabet by count: ∘r 15, ∘e 10, f 8, ∘y 5, ∘a 3, then i and p (2 each) by code point
+    assertEquals(List.of(M + "r", M + "e", "f", M + "y", M + "a", M + "i", "p"), t.subList(1, 8));
+    assertEquals(List.of("pi", "fa", "fe"), t.subList(8, 11));
+    // the trained vocabulary encodes its corpus
+    assertArrayEquals(new int[] {s.id("fe"), s.id(M + "r"), s.id(M + "r"), s.id(M + "y")},
+        TestSupport.segmentOne(s, "ferry", 0, 5).ids.toIntArray());
+  }
+
+  @Test
+  void controlTokensComeFirstAndListenerReportsMerges() {
+    List<String> stages = new ArrayList<>();
+    long[] last = {-1, -1};
+    WordPieceSegmenter s = WordPieceTrainer.builder().vocabularySize(2 + 1 + 7 + 2)
+        .controlTokens(List.of("start-of-voyage", "end-of-voyage"))
+        .listener((stage, done, total, detail) -> {
+          stages.add(stage);
+          last[0] = done;
+          last[1] = total;
+        }).build().train(ferryCorpus());
+    assertEquals(List.of("start-of-voyage", "end-of-voyage", UNK), s.tokens().subList(0, 3));
+    assertEquals(2, s.controlCount());
+    assertEquals(List.of("merges", "merges"), stages);
+    assertEquals(2, last[0]);
+    assertEquals(2, last[1]);
+  }
+
+  @Test
+  void maxAlphabetDropsRareCharactersAndTheirPieces() {
+    Map<String, Long> m = new HashMap<>();
+    m.put("ferry", 5L);
+    m.put("fez", 1L);
+    WordPieceSegmenter s = WordPieceTrainer.builder().vocabularySize(100).maxAlphabet(4).build().train(PieceCounts.of(m));
+    for (String tok : s.tokens()) {
+      assertFalse(tok.contains("z"), tok);
+    }
+    assertArrayEquals(new int[] {s.unknownId()}, TestSupport.segmentOne(s, "fez", 0, 3).ids.toIntArray());
+  }
+
+  @Test
+  void badInputIsRejectedClearly() {
+    IllegalArgumentException small = assertThrows(IllegalArgumentException.class,
+        () -> WordPieceTrainer.builder().vocabularySize(5).build().train(ferryCorpus()));
+    assertTrue(small.getMessage().contains("vocabularySize=5"), small.getMessage());
+    IllegalArgumentException empty = assertThrows(IllegalArgumentException.class,
+        () -> WordPieceTrainer.builder().build().train(PieceCounts.empty()));
+    assertTrue(empty.getMessage().contains("minCount"), empty.getMessage());
+    assertThrows(IllegalArgumentException.class,
+        () -> WordPieceTrainer.builder().minCount(10).build().train(ferryCorpus()));
+    assertThrows(IllegalArgumentException.class, () -> WordPieceTrainer.builder().vocabularySize(1));
+    assertThrows(IllegalArgumentException.class, () -> WordPieceTrainer.builder().minCount(0));
+    assertThrows(IllegalArgumentException.class, () -> WordPieceTrainer.builder().maxAlphabet(0));
+    assertThrows(IllegalArgumentException.class, () -> WordPieceTrainer.builder().controlTokens(List.of("a", "a")));
+    assertThrows(IllegalArgumentException.class, () -> WordPieceTrainer.builder().controlTokens(List.of(UNK)).build());
+  }
+
+  @Test
+  void mergesNeverSpellReservedOrMarkerLikeTokens() {
+    // with marker "q" a word-initial unit "qu" would read as the continuation "u": never created
+    WordPieceSettings st = WordPieceSettings.defaults().withMarker("q").withUnknownToken("dock?");
+    Map<String, Long> m = new HashMap<>();
+    m.put("quay", 9L);
+    m.put("dock", 4L);
+    m.put("dock?", 7L);
+    WordPieceSegmenter s = WordPieceTrainer.builder().settings(st).controlTokens(List.of("ock")).vocabularySize(200)
+        .build().train(PieceCounts.of(m));
+    // "qu" is the continuation form of 'u'; the word-initial merge q + u is blocked, so "quay"
+    // starts with the word-initial "q" (equal to the marker, hence word-initial)
+    assertTrue(s.isContinuation(s.id("qu")));
+    TestSupport.Encoded quay = TestSupport.segmentOne(s, "quay", 0, 4);
+    assertEquals(s.id("q"), quay.ids.getInt(0));
+    assertFalse(s.isContinuation(s.id("q")));
+    assertEquals("quay", new String(TestSupport.decode(s, quay.ids.toIntArray()), java.nio.charset.StandardCharsets.UTF_8));
+    assertEquals(1, s.tokens().lastIndexOf("dock?"));
+    assertEquals(0, s.tokens().lastIndexOf("ock"));
+    // spellings stay unique and the model is valid
+    assertEquals(s.vocabularySize(), new LinkedHashSet<>(s.tokens()).size());
+  }
+
+  // ------------------------------------------------------------------ textbook oracle
+
+  static LongStream seeds() {
+    return LongStream.range(0, 60).map(i -> 0xFE77L * 31 + i);
+  }
+
+  @ParameterizedTest
+  @MethodSource("seeds")
+  void agreesWithTextbookTrainer(long seed) {
+    SplittableRandom rnd = new SplittableRandom(seed);
+    String alphabet = "abcde".substring(0, 2 + rnd.nextInt(4));
+    Map<String, Long> corpus = new TreeMap<>();
+    int pieces = 1 + rnd.nextInt(40);
+    for (int i = 0; i < pieces; i++) {
+      StringBuilder sb = new StringBuilder();
+      int len = 1 + rnd.nextInt(8);
+      for (int k = 0; k < len; k++) {
+        sb.append(alphabet.charAt(rnd.nextInt(alphabet.length())));
+      }
+      corpus.merge(sb.toString(), 1L + rnd.nextInt(20), Long::sum);
+    }
+    List<String> controls = rnd.nextBoolean() ? List.of() : List.of("lifejacket");
+    int extra = rnd.nextInt(60);
+    List<String> expected = textbook(corpus, controls, extra);
+    WordPieceSegmenter s = WordPieceTrainer.builder().controlTokens(controls)
+        .vocabularySize(Math.max(2, alphabetEnd(corpus, controls) + extra)).build().train(PieceCounts.of(corpus));
+    assertEquals(expected, s.tokens(), "seed " + seed + " corpus " + corpus + " extra " + extra);
+  }
+
+  private static int alphabetEnd(Map<String, Long> corpus, List<String> controls) {
+    LinkedHashSet<String> forms = new LinkedHashSet<>();
+    corpus.forEach((p, c) -> {
+      for (int i = 0; i < p.length(); i++) {
+        forms.add(i == 0 ? p.substring(0, 1) : M + p.charAt(i));
+      }
+    });
+    return controls.size() + 1 + forms.size();
+  }
+
+  /**
+   * Textbook likelihood-based WordPiece training [1] (// common practice: score
+   * count(ab)/(count(a)count(b))), recounting everything before every merge; tie-break as documented:
+   * higher score, then higher pair count, then smaller left spelling, then smaller right spelling.
+   */
+  private static List<String> textbook(Map<String, Long> corpus, List<String> controls, int extra) {
+    // alphabet: characters by total count desc, then code point; word-initial form first
+    Map<Character, Long> freq = new HashMap<>();
+    corpus.forEach((p, c) -> {
+      for (char ch : p.toCharArray()) {
+        freq.merge(ch, c, Long::sum);
+      }
+    });
+    List<Character> chars = new ArrayList<>(freq.keySet());
+    chars.sort((x, y) -> freq.get(x).equals(freq.get(y)) ? Character.compare(x, y) : Long.compare(freq.get(y), freq.get(x)));
+    List<String> vocab = new ArrayList<>(controls);
+    vocab.add(UNK);
+    for (char ch : chars) {
+      boolean init = false;
+      boolean cont = false;
+      for (String p : corpus.keySet()) {
+        for (int i = 0; i < p.length(); i++) {
+          if (p.charAt(i) == ch) {
+            init |= i == 0;
+            cont |= i > 0;
+          }
+        }
+      }
+      if (init) {
+        vocab.add(String.valueOf(ch));
+      }
+      if (cont) {
+        vocab.add(M + ch);
+      }
+    }
+    int target = vocab.size() + extra;
+    // segmentations as lists of spellings
+    Map<String, List<String>> seg = new LinkedHashMap<>();
+    for (String p : corpus.keySet()) {
+      List<String> units = new ArrayList<>();
+      for (int i = 0; i < p.length(); i++) {
+        units.add(i == 0 ? String.valueOf(p.charAt(i)) : M + p.charAt(i));
+      }
+      seg.put(p, units);
+    }
+    while (vocab.size() < target) {
+      Map<String, Long> unitCount = new HashMap<>();
+      Map<List<String>, Long> pairCount = new HashMap<>();
+      for (Map.Entry<String, List<String>> e : seg.entrySet()) {
+        long c = corpus.get(e.getKey());
+        List<String> u = e.getValue();
+        for (int i = 0; i < u.size(); i++) {
+          unitCount.merge(u.get(i), c, Long::sum);
+          if (i + 1 < u.size()) {
+            pairCount.merge(List.of(u.get(i), u.get(i + 1)), c, Long::sum);
+          }
+        }
+      }
+      List<String> best = null;
+      double bestScore = -1;
+      long bestCount = -1;
+      for (Map.Entry<List<String>, Long> e : pairCount.entrySet()) {
+        List<String> pr = e.getKey();
+        long cab = e.getValue();
+        double sc = (double) cab / ((double) unitCount.get(pr.get(0)) * (double) unitCount.get(pr.get(1)));
+        boolean better = best == null || sc > bestScore
+            || (sc == bestScore && (cab > bestCount
+            || (cab == bestCount && (pr.get(0).compareTo(best.get(0)) < 0
+            || (pr.get(0).equals(best.get(0)) && pr.get(1).compareTo(best.get(1)) < 0)))));
+        if (better) {
+          best = pr;
+          bestScore = sc;
+          bestCount = cab;
+        }
+      }
+      if (best == null) {
+        break;
+      }
+      String left = best.get(0);
+      String right = best.get(1);
+      String merged = left + right.substring(M.length());
+      if (!vocab.contains(merged)) {
+        vocab.add(merged);
+      }
+      for (List<String> u : seg.values()) {
+        for (int i = 0; i + 1 < u.size(); i++) {
+          if (u.get(i).equals(left) && u.get(i + 1).equals(right)) {
+            u.set(i, merged);
+            u.remove(i + 1);
+          }
+        }
+      }
+    }
+    return vocab;
+  }
+}
