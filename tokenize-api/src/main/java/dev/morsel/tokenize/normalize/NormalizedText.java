@@ -2,31 +2,173 @@ package dev.morsel.tokenize.normalize;
 
 /**
  * Normalized text with its alignment back to the original.
- * SKELETON: signatures fixed, bodies to be written.
+ *
+ * <p>Immutable and thread-safe. Every normalized char {@code i} maps to an original span
+ * {@code [originalStart(i), originalEnd(i))} in absolute UTF-16 indices of the text given to
+ * {@link Normalization#apply(CharSequence, int, int)}. The contract:
+ * <ul>
+ *   <li>{@code originalStart} and {@code originalEnd} are non-decreasing in {@code i} and lie
+ *       inside {@code [rangeStart(), rangeEnd()]};</li>
+ *   <li>no span starts or ends inside a surrogate pair of the original;</li>
+ *   <li>text is aligned chunk by chunk: in a chunk that normalization left alone (or changed char
+ *       for char, as case folding of ASCII or the U+FFFD replacement of a lone surrogate), char
+ *       {@code i} maps to its own original code point; in a chunk that changed otherwise, every
+ *       normalized char maps to the whole original chunk. So an expansion like U+FB01 to
+ *       {@code "fi"} maps both chars to the one source char: spans may coincide, never cross;</li>
+ *   <li>removed characters (dropped controls, stripped marks that form a chunk of their own,
+ *       code points that case folding removes) are covered by no normalized char. A removed
+ *       character inside a changed chunk (a mark stripped from its base letter, a control
+ *       between two chars that then combine) is folded into that chunk's span.</li>
+ * </ul>
+ * For a normalized token {@code [a, b)} with {@code a < b} the original span is
+ * {@code [spanStart(a), spanEnd(b))}.
+ *
+ * <p>The alignment is stored as chunk boundaries in parallel {@code int[]}s plus one flag per
+ * chunk; a query is a binary search over chunks. When nothing changed, {@link #isIdentity()} is
+ * true, no chunk is stored and {@link #text()} is the input's {@code toString()} of the range.
  *
  * @since 0.1.0
  */
 public final class NormalizedText {
-  private NormalizedText() {}
+  private final String text;
+  /** Null when the text is the original range unchanged. */
+  private final Chunks chunks;
+  private final int rangeStart;
+  private final int rangeEnd;
+
+  NormalizedText(String text, Chunks chunks, int rangeStart, int rangeEnd) {
+    this.text = text;
+    this.chunks = chunks;
+    this.rangeStart = rangeStart;
+    this.rangeEnd = rangeEnd;
+  }
+
+  static NormalizedText identity(CharSequence text, int start, int end) {
+    String s = (start == 0 && end == text.length()) ? text.toString() : text.subSequence(start, end).toString();
+    return new NormalizedText(s, null, start, end);
+  }
 
   /** The normalized text. */
-  public String text() { throw new UnsupportedOperationException(); }
+  public String text() {
+    return text;
+  }
 
   /** Length of the normalized text. */
-  public int length() { throw new UnsupportedOperationException(); }
+  public int length() {
+    return text.length();
+  }
 
-  /** Original start (inclusive) of normalized char {@code i}. */
-  public int originalStart(int i) { throw new UnsupportedOperationException(); }
+  /** Start (inclusive) of the normalized range in the original text (added accessor). */
+  public int rangeStart() {
+    return rangeStart;
+  }
 
-  /** Original end (exclusive) of normalized char {@code i}. */
-  public int originalEnd(int i) { throw new UnsupportedOperationException(); }
+  /** End (exclusive) of the normalized range in the original text (added accessor). */
+  public int rangeEnd() {
+    return rangeEnd;
+  }
 
-  /** Original span start for a normalized span starting at {@code start} (also valid at {@code length()}). */
-  public int spanStart(int start) { throw new UnsupportedOperationException(); }
+  /**
+   * Original start (inclusive) of normalized char {@code i}.
+   *
+   * @throws IndexOutOfBoundsException unless {@code 0 <= i < length()}
+   */
+  public int originalStart(int i) {
+    checkIndex(i);
+    final Chunks c = chunks;
+    int o;
+    if (c == null) {
+      o = rangeStart + i;
+    } else {
+      int k = c.find(i);
+      if (!c.pos[k]) {
+        return c.in[k];
+      }
+      o = c.in[k] + (i - c.out[k]);
+    }
+    // a low surrogate in a one-to-one chunk belongs to the pair that starts one char earlier
+    if (i > 0 && Character.isLowSurrogate(text.charAt(i)) && Character.isHighSurrogate(text.charAt(i - 1))) {
+      o--;
+    }
+    return o;
+  }
 
-  /** Original span end for a normalized span ending (exclusive) at {@code end} (also valid at 0). */
-  public int spanEnd(int end) { throw new UnsupportedOperationException(); }
+  /**
+   * Original end (exclusive) of normalized char {@code i}.
+   *
+   * @throws IndexOutOfBoundsException unless {@code 0 <= i < length()}
+   */
+  public int originalEnd(int i) {
+    checkIndex(i);
+    final Chunks c = chunks;
+    int o;
+    if (c == null) {
+      o = rangeStart + i + 1;
+    } else {
+      int k = c.find(i);
+      if (!c.pos[k]) {
+        return c.in[k + 1];
+      }
+      o = c.in[k] + (i - c.out[k]) + 1;
+    }
+    if (i + 1 < text.length() && Character.isHighSurrogate(text.charAt(i))
+        && Character.isLowSurrogate(text.charAt(i + 1))) {
+      o++;
+    }
+    return o;
+  }
+
+  /**
+   * Original span start for a normalized span starting at {@code start}; at {@code length()} it is
+   * {@link #rangeEnd()}.
+   *
+   * @throws IndexOutOfBoundsException unless {@code 0 <= start <= length()}
+   */
+  public int spanStart(int start) {
+    if (start == text.length() && start >= 0) {
+      return rangeEnd;
+    }
+    return originalStart(start);
+  }
+
+  /**
+   * Original span end for a normalized span ending (exclusive) at {@code end}; at 0 it is
+   * {@link #rangeStart()}.
+   *
+   * @throws IndexOutOfBoundsException unless {@code 0 <= end <= length()}
+   */
+  public int spanEnd(int end) {
+    if (end == 0) {
+      return rangeStart;
+    }
+    if (end < 0 || end > text.length()) {
+      throwBadIndex(end, text.length() + 1);
+    }
+    return originalEnd(end - 1);
+  }
 
   /** Whether the normalized text equals the original range (no copy was made). */
-  public boolean isIdentity() { throw new UnsupportedOperationException(); }
+  public boolean isIdentity() {
+    return chunks == null;
+  }
+
+  /** Number of alignment chunks; 1 for an identity (added, for diagnostics and tests). */
+  public int chunkCount() {
+    return chunks == null ? 1 : chunks.size;
+  }
+
+  @Override
+  public String toString() {
+    return text;
+  }
+
+  private void checkIndex(int i) {
+    if (i < 0 || i >= text.length()) {
+      throwBadIndex(i, text.length());
+    }
+  }
+
+  private static void throwBadIndex(int i, int bound) {
+    throw new IndexOutOfBoundsException("normalized index " + i + " outside [0, " + bound + ")");
+  }
 }
