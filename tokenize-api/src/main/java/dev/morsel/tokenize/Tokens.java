@@ -186,8 +186,8 @@ public final class Tokens {
 
   /**
    * Converts the spans to UTF-8 byte offsets of {@code original} (the text that was encoded; for a
-   * pair, the text of the token's segment). Returns {@code {starts, ends}}. Lone surrogates count as
-   * the three bytes of U+FFFD, as {@link String#getBytes} would encode them.
+   * pair, the text of the token's segment). Returns {@code {starts, ends}}. A lone surrogate counts as
+   * the three bytes of U+FFFD, the character normalization puts in its place.
    */
   public int[][] utf8Spans(CharSequence original) {
     return convert(original, true);

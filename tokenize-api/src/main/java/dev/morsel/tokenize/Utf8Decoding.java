@@ -1,17 +1,11 @@
 package dev.morsel.tokenize;
 
-import java.nio.ByteBuffer;
-import java.nio.CharBuffer;
-import java.nio.charset.CharsetDecoder;
-import java.nio.charset.CoderResult;
-import java.nio.charset.CodingErrorAction;
-import java.nio.charset.StandardCharsets;
 import java.util.Arrays;
 
 /**
- * UTF-8 decoding for {@link Tokenizer#decode} and {@link StreamDecoder}. Replacement follows the
- * JDK's decoder (one U+FFFD per maximal ill-formed subpart, Unicode Standard chapter 3, "U+FFFD
- * Substitution of Maximal Subparts"); strict mode reports the token where the bad sequence starts.
+ * UTF-8 decoding for {@link Tokenizer#decode} and {@link StreamDecoder}: one U+FFFD per maximal
+ * ill-formed subpart (Unicode Standard, section 3.9), or, in strict mode, an exception naming the
+ * token where the bad sequence starts.
  */
 final class Utf8Decoding {
   private Utf8Decoding() {}
@@ -32,29 +26,78 @@ final class Utf8Decoding {
   }
 
   /**
-   * Decodes {@code bytes[0, size)}. In strict mode an ill-formed sequence throws, naming the token
-   * whose bytes hold its first byte ({@code tokenStarts[i]} = first byte of token {@code i}).
+   * Decodes {@code bytes[0, size)}. Replacement substitutes one U+FFFD for each maximal subpart of an
+   * ill-formed sequence (Unicode Standard, section 3.9, "U+FFFD Substitution of Maximal Subparts",
+   * Table 3-7 for the well-formed byte ranges), a rule that depends only on the bytes up to the
+   * subpart's end, so streaming and batch decoding agree for every cut. In strict mode an ill-formed
+   * sequence throws, naming the token whose bytes hold its first byte ({@code tokenStarts[i]} = first
+   * byte of token {@code i}).
    */
   static String decode(byte[] bytes, int size, Decoding decoding, int[] tokenStarts, int tokenCount, int tokenBase) {
-    if (decoding == Decoding.REPLACE) {
-      return new String(bytes, 0, size, StandardCharsets.UTF_8);
+    char[] out = new char[size]; // every code point takes at least as many bytes as UTF-16 units
+    int o = 0;
+    int i = 0;
+    while (i < size) {
+      int b0 = bytes[i] & 0xFF;
+      if (b0 < 0x80) {
+        out[o++] = (char) b0;
+        i++;
+        continue;
+      }
+      int need;
+      int lo = 0x80;
+      int hi = 0xBF;
+      int cp;
+      if (b0 >= 0xC2 && b0 <= 0xDF) {
+        need = 1;
+        cp = b0 & 0x1F;
+      } else if (b0 >= 0xE0 && b0 <= 0xEF) {
+        need = 2;
+        cp = b0 & 0x0F;
+        lo = b0 == 0xE0 ? 0xA0 : 0x80;
+        hi = b0 == 0xED ? 0x9F : 0xBF;
+      } else if (b0 >= 0xF0 && b0 <= 0xF4) {
+        need = 3;
+        cp = b0 & 0x07;
+        lo = b0 == 0xF0 ? 0x90 : 0x80;
+        hi = b0 == 0xF4 ? 0x8F : 0xBF;
+      } else {
+        need = 0;
+        cp = -1;
+      }
+      int j = 1;
+      if (need > 0) {
+        for (; j <= need && i + j < size; j++) {
+          int c = bytes[i + j] & 0xFF;
+          if (c < (j == 1 ? lo : 0x80) || c > (j == 1 ? hi : 0xBF)) {
+            break;
+          }
+          cp = (cp << 6) | (c & 0x3F);
+        }
+      }
+      if (need == 0 || j <= need) {
+        if (decoding == Decoding.STRICT) {
+          throwIllFormed(i, tokenStarts, tokenCount, tokenBase);
+        }
+        out[o++] = '\ufffd';
+        i += j; // the maximal subpart: the lead byte and the continuation bytes that were still valid
+        continue;
+      }
+      if (cp >= 0x10000) {
+        out[o++] = Character.highSurrogate(cp);
+        out[o++] = Character.lowSurrogate(cp);
+      } else {
+        out[o++] = (char) cp;
+      }
+      i += need + 1;
     }
-    CharsetDecoder dec = StandardCharsets.UTF_8.newDecoder().onMalformedInput(CodingErrorAction.REPORT)
-        .onUnmappableCharacter(CodingErrorAction.REPORT);
-    ByteBuffer in = ByteBuffer.wrap(bytes, 0, size);
-    CharBuffer out = CharBuffer.allocate(size + 1);
-    CoderResult r = dec.decode(in, out, true);
-    if (r.isUnderflow()) {
-      r = dec.flush(out);
-    }
-    if (r.isError()) {
-      int at = in.position();
-      int token = tokenAt(tokenStarts, tokenCount, at);
-      throw new IllegalArgumentException("ill-formed UTF-8 at byte " + at + " of the decoded text, in the token at position "
-          + (token + tokenBase) + " (strict decoding; use Decoding.REPLACE to substitute U+FFFD)");
-    }
-    out.flip();
-    return out.toString();
+    return new String(out, 0, o);
+  }
+
+  private static void throwIllFormed(int at, int[] tokenStarts, int tokenCount, int tokenBase) {
+    int token = tokenAt(tokenStarts, tokenCount, at);
+    throw new IllegalArgumentException("ill-formed UTF-8 at byte " + at + " of the decoded text, in the token at position "
+        + (token + tokenBase) + " (strict decoding; use Decoding.REPLACE to substitute U+FFFD)");
   }
 
   private static int tokenAt(int[] starts, int count, int byteOffset) {
