@@ -274,6 +274,15 @@ public final class WordPieceSegmenter implements Segmenter {
     return controlCount;
   }
 
+  /** The control tokens: ids {@code 0..controlCount-1} bound to their spellings, for assembling a tokenizer. */
+  public dev.morsel.tokenize.ControlTokens controlTokens() {
+    dev.morsel.tokenize.ControlTokens.Builder b = dev.morsel.tokenize.ControlTokens.builder();
+    for (int i = 0; i < controlCount; i++) {
+      b.add(spellings[i], i);
+    }
+    return b.build();
+  }
+
   /**
    * Whether {@code id} is a continuation token.
    *

@@ -8,13 +8,15 @@ import dev.morsel.tokenize.Tokenizers;
 import dev.morsel.tokenize.bpe.BpeSegmenter;
 import dev.morsel.tokenize.bpe.BpeTrainer;
 import dev.morsel.tokenize.train.PieceCounts;
+import dev.morsel.tokenize.wordpiece.WordPieceSegmenter;
+import dev.morsel.tokenize.wordpiece.WordPieceTrainer;
 import dev.morsel.tokenize.train.TrainingListener;
 import java.util.List;
 
 /** Trains a tokenizer of a named scheme from piece counts: the one place that knows every trainer. */
 final class Schemes {
   /** The scheme names, in the order reports list them. */
-  static final List<String> NAMES = List.of("bpe");
+  static final List<String> NAMES = List.of("bpe", "wordpiece");
 
   private Schemes() {}
 
@@ -31,6 +33,11 @@ final class Schemes {
     switch (scheme) {
       case "bpe": {
         BpeSegmenter s = BpeTrainer.builder().vocabularySize(vocabularySize).controlTokens(controls).threads(threads)
+            .listener(listener).build().train(counts);
+        return Tokenizers.of(pipeline, s, s.controlTokens(), Template.none());
+      }
+      case "wordpiece": {
+        WordPieceSegmenter s = WordPieceTrainer.builder().vocabularySize(vocabularySize).controlTokens(controls)
             .listener(listener).build().train(counts);
         return Tokenizers.of(pipeline, s, s.controlTokens(), Template.none());
       }
