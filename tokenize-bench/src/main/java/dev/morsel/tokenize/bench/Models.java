@@ -1,0 +1,124 @@
+package dev.morsel.tokenize.bench;
+
+import dev.morsel.tokenize.ControlTokens;
+import dev.morsel.tokenize.Pipeline;
+import dev.morsel.tokenize.Template;
+import dev.morsel.tokenize.Tokenizer;
+import dev.morsel.tokenize.Tokenizers;
+import dev.morsel.tokenize.bpe.BpeSegmenter;
+import dev.morsel.tokenize.bpe.BpeTrainer;
+import dev.morsel.tokenize.format.ModelFile;
+import dev.morsel.tokenize.normalize.Normalization;
+import dev.morsel.tokenize.split.Splitting;
+import dev.morsel.tokenize.train.PieceCounter;
+import dev.morsel.tokenize.train.PieceCounts;
+import dev.morsel.tokenize.wordpiece.WordPieceSegmenter;
+import dev.morsel.tokenize.wordpiece.WordPieceTrainer;
+import java.io.IOException;
+import java.io.UncheckedIOException;
+import java.nio.file.Files;
+import java.nio.file.Path;
+import java.nio.file.Paths;
+import java.util.function.Supplier;
+
+/**
+ * The benchmark models, trained once on the whole Europarl body corpus and kept as model files in
+ * {@code tokenize-bench/target/bench-models} (system property {@code morsel.bench.models}), so that
+ * every JMH fork loads instead of retraining. All use {@link #pipeline()}: normalization off and the
+ * rule-based splitter, the same steps as the {@code split} floor, so that a segmenter's ratio to
+ * {@code split} measures segmentation alone.
+ */
+public final class Models {
+  /** BPE vocabulary size. */
+  public static final int BPE_SIZE = 32_000;
+  /** WordPiece vocabulary size. */
+  public static final int WORDPIECE_SIZE = 30_000;
+
+  private static volatile PieceCounts counts;
+
+  private Models() {}
+
+  /** Normalization off, rule-based splitting. */
+  public static Pipeline pipeline() {
+    return Pipeline.of(Normalization.none(), Splitting.rules());
+  }
+
+  /** The same pipeline with splitting off: the adversarial inputs stay one piece. */
+  public static Pipeline unsplit() {
+    return Pipeline.of(Normalization.none(), Splitting.none());
+  }
+
+  /** Piece counts of the whole corpus with {@link #pipeline()}. */
+  public static PieceCounts counts() {
+    PieceCounts c = counts;
+    if (c == null) {
+      synchronized (Models.class) {
+        c = counts;
+        if (c == null) {
+          c = PieceCounter.builder().pipeline(pipeline()).build().count(Corpus.bodies());
+          counts = c;
+        }
+      }
+    }
+    return c;
+  }
+
+  /** The 32k BPE model file, trained on first use. */
+  public static Path bpeFile() {
+    return cached("bpe-32k.morsel", () -> {
+      BpeSegmenter s = BpeTrainer.builder().vocabularySize(BPE_SIZE).build().train(counts());
+      return Tokenizers.of(pipeline(), s, s.controlTokens(), Template.none());
+    });
+  }
+
+  /** The 32k BPE tokenizer. */
+  public static Tokenizer bpe() {
+    return Tokenizers.load(bpeFile());
+  }
+
+  /** The 32k BPE segmenter itself (for cache and textbook variants). */
+  public static BpeSegmenter bpeSegmenter() {
+    return BpeSegmenter.read(ModelFile.read(bpeFile()));
+  }
+
+  /** The 30k WordPiece model file, trained on first use. */
+  public static Path wordpieceFile() {
+    return cached("wordpiece-30k.morsel", () -> {
+      WordPieceSegmenter s = WordPieceTrainer.builder().vocabularySize(WORDPIECE_SIZE).build().train(counts());
+      return Tokenizers.of(pipeline(), s, s.controlTokens(), Template.none());
+    });
+  }
+
+  /** The 30k WordPiece tokenizer. */
+  public static Tokenizer wordpiece() {
+    return Tokenizers.load(wordpieceFile());
+  }
+
+  /** The 30k WordPiece segmenter itself. */
+  public static WordPieceSegmenter wordpieceSegmenter() {
+    return WordPieceSegmenter.read(ModelFile.read(wordpieceFile()));
+  }
+
+  /** A tokenizer with the given pipeline and segmenter and no control tokens or framing. */
+  public static Tokenizer with(Pipeline p, dev.morsel.tokenize.spi.Segmenter s) {
+    return Tokenizers.of(p, s, ControlTokens.none(), Template.none());
+  }
+
+  private static synchronized Path cached(String name, Supplier<Tokenizer> train) {
+    Path dir = Paths.get(System.getProperty("morsel.bench.models", "tokenize-bench/target/bench-models"));
+    Path file = dir.resolve(name);
+    if (Files.isRegularFile(file)) {
+      return file;
+    }
+    Tokenizer t = train.get();
+    try {
+      Files.createDirectories(dir);
+      Path tmp = Files.createTempFile(dir, name, ".tmp");
+      t.save(tmp);
+      Files.move(tmp, file, java.nio.file.StandardCopyOption.REPLACE_EXISTING, java.nio.file.StandardCopyOption.ATOMIC_MOVE);
+    } catch (IOException e) {
+      throw new UncheckedIOException("cannot write benchmark model " + file, e);
+    }
+    return file;
+  }
+}
