@@ -23,8 +23,8 @@ import dev.morsel.tokenize.unigram.UnigramModel;
 public final class UnigramProvider implements SegmenterProvider {
   /** Largest control-token count accepted (reason: a forged count must not drive allocation). */
   private static final int MAX_CONTROLS = 1 << 16;
-  /** Smallest encoded piece entry: a u32 length, at least one byte, an f64 (bytes). */
-  private static final int MIN_PIECE_BYTES = 4 + 1 + 8;
+  /** Smallest encoded piece entry: a u32 length and an f64 (bytes); content is checked per entry. */
+  private static final int MIN_PIECE_BYTES = 4 + 8;
 
   /** For {@link java.util.ServiceLoader}. */
   public UnigramProvider() {}
