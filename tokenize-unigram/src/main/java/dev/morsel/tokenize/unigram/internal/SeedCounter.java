@@ -82,10 +82,13 @@ final class SeedCounter {
       }
     }
     final String[] ks = keys;
-    final long[] fs = freq;
+    final double[] rank = new double[m];
+    for (int q = 0; q < nm; q++) {
+      int i = multi[q];
+      rank[i] = (double) freq[i] * keys[i].codePointCount(0, keys[i].length());
+    }
     IntArrays.quickSort(multi, 0, nm, (a, b) -> {
-      int c = Double.compare((double) fs[b] * ks[b].codePointCount(0, ks[b].length()),
-          (double) fs[a] * ks[a].codePointCount(0, ks[a].length()));
+      int c = Double.compare(rank[b], rank[a]);
       return c != 0 ? c : ks[a].compareTo(ks[b]);
     });
     IntArrays.quickSort(singles, 0, ns, (a, b) -> ks[a].compareTo(ks[b]));

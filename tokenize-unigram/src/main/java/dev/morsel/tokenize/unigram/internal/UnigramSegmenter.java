@@ -266,6 +266,28 @@ public final class UnigramSegmenter implements UnigramModel {
       return;
     }
     Scratch s = scratchFor(n);
+    if (n > PieceCache.MAX_CHARS) {
+      viterbi(text, start, end, s, sink);
+      return;
+    }
+    PieceCache cache = s.cache;
+    int slot = cache.slot(text, start, end);
+    if (cache.matches(slot, text, start, end)) {
+      cache.replay(slot, start, sink);
+      return;
+    }
+    Recorder rec = s.recorder;
+    rec.size = 0;
+    viterbi(text, start, end, s, rec);
+    cache.store(slot, text, start, end, rec.ids, rec.starts, rec.ends, rec.size);
+    for (int i = 0; i < rec.size; i++) {
+      sink.token(rec.ids[i], rec.starts[i], rec.ends[i]);
+    }
+  }
+
+  /** Viterbi over {@code text[start, end)} (n >= 1), reporting the best path to {@code sink}. */
+  private void viterbi(CharSequence text, int start, int end, Scratch s, TokenSink sink) {
+    int n = end - start;
     double[] best = s.best;
     int[] backPos = s.backPos;
     int[] backId = s.backId;
@@ -572,6 +594,8 @@ public final class UnigramSegmenter implements UnigramModel {
     int[] pathId = new int[0];
     int[] edgeEnd = new int[0];
     int[] edgeId = new int[0];
+    final PieceCache cache = new PieceCache();
+    final Recorder recorder = new Recorder();
 
     void ensure(int n, int depth) {
       if (best.length < n + 1) {
@@ -586,6 +610,22 @@ public final class UnigramSegmenter implements UnigramModel {
         edgeEnd = new int[depth + 2];
         edgeId = new int[depth + 2];
       }
+    }
+  }
+
+  /** Collects the tokens of one short piece before they go to the cache and the caller. */
+  private static final class Recorder implements TokenSink {
+    final int[] ids = new int[PieceCache.MAX_TOKENS];
+    final int[] starts = new int[PieceCache.MAX_TOKENS];
+    final int[] ends = new int[PieceCache.MAX_TOKENS];
+    int size;
+
+    @Override
+    public void token(int id, int start, int end) {
+      ids[size] = id;
+      starts[size] = start;
+      ends[size] = end;
+      size++;
     }
   }
 
