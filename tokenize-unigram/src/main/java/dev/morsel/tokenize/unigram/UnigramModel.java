@@ -37,7 +37,7 @@ public interface UnigramModel extends Segmenter {
 
   /**
    * A model from its parts. Piece {@code i} gets id {@code firstPieceId() + i}. The unknown token
-   * scores {@code min(scores) - 10} (a penalty below every piece).
+   * scores {@code min(0, lowest piece score) - 10} (a penalty below every piece).
    *
    * @param controlTokens reserved control tokens (ids 0..k-1), distinct and non-empty
    * @param byteFallback whether uncovered characters become byte tokens instead of the unknown token

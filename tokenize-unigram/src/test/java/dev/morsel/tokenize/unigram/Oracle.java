@@ -7,7 +7,7 @@ import java.util.Map;
 /**
  * Brute-force enumeration of every segmentation of a short string, written for the tests and sharing
  * no code with the segmenter: recursion over the prefixes that are in the vocabulary, plus the
- * documented unknown edge (one code point, scored {@code min(scores) - 10}) wherever that code point
+ * documented unknown edge (one code point, scored {@code min(0, lowest score) - 10}) wherever that code point
  * is not itself a piece.
  */
 final class Oracle {

@@ -23,7 +23,8 @@ import java.util.random.RandomGenerator;
  * the piece trie lists the tokens that start there, O(n · L) for a piece of n chars and longest
  * token L. Where the character at a position is not itself a token an extra edge of one code point
  * carries the unknown token (byte tokens on output with byte fallback), so every piece has a path.
- * Ties keep the first relaxation (the path whose last token starts earliest). The n-best list is
+ * Ties keep the first relaxation (the path whose last token starts earliest). Pieces of up to
+ * {@value PieceCache#MAX_CHARS} chars go through a per-thread {@link PieceCache} first. The n-best list is
  * A* search from the start with the exact best-suffix score as heuristic. Sampling filters backward
  * (log-sum-exp of {@code alpha * score} over all suffixes) and then samples forward token by token
  * [1, section 2.2 and 3.1]; this is the mirror image of forward filtering with backward sampling and
