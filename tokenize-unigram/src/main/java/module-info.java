@@ -4,7 +4,7 @@
  * a package that is not exported.
  */
 module dev.morsel.tokenize.unigram {
-  requires dev.morsel.tokenize;
+  requires transitive dev.morsel.tokenize; // our public types expose Segmenter, PieceCounts, TokenSink
   requires it.unimi.dsi.fastutil.core;
 
   exports dev.morsel.tokenize.unigram;
