@@ -1,0 +1,183 @@
+package dev.morsel.tokenize.unigram;
+
+import dev.morsel.tokenize.train.PieceCounts;
+import dev.morsel.tokenize.train.TrainingListener;
+import dev.morsel.tokenize.unigram.internal.Training;
+import java.util.List;
+import java.util.Objects;
+
+/**
+ * Trains a {@link UnigramModel} from piece counts [1, section 3.2]: a seed vocabulary of frequent
+ * substrings, then rounds of EM [2] and likelihood-based pruning until the vocabulary size is
+ * reached. Immutable and thread-safe; {@link #train} may run concurrently.
+ *
+ * <p>Deterministic: there are no random choices; rankings break ties by score, then by token
+ * string; EM adds partial sums in a fixed order, so the result does not depend on the thread count.
+ * Pieces holding an unpaired surrogate are not learned from. Progress is reported to the listener
+ * under the stages {@code "seed"}, {@code "em"} and {@code "prune"}.
+ *
+ * <pre>{@code
+ * UnigramModel model = UnigramTrainer.builder().vocabularySize(4000).byteFallback(true).build().train(counts);
+ * }</pre>
+ *
+ * <p>References: [1] Kudo (2018), "Subword Regularization", ACL 2018. [2] Dempster, Laird, Rubin
+ * (1977), "Maximum Likelihood from Incomplete Data via the EM Algorithm".
+ *
+ * @since 0.1.0
+ */
+public final class UnigramTrainer {
+  private final Builder b;
+
+  private UnigramTrainer(Builder b) {
+    this.b = b.copy();
+  }
+
+  /** A builder with the documented defaults. */
+  public static Builder builder() {
+    return new Builder();
+  }
+
+  /**
+   * Trains on {@code counts}, weighted by count.
+   *
+   * @throws IllegalArgumentException if {@code counts} is empty, or {@code vocabularySize} is smaller
+   *     than the reserved ids plus the alphabet (every distinct character of the pieces)
+   */
+  public UnigramModel train(PieceCounts counts) {
+    Objects.requireNonNull(counts, "counts");
+    return new Training(b.vocabularySize, b.seedFactor, b.maxTokenLength, b.shrinkFactor, b.emIterations,
+        b.byteFallback, b.controlTokens, b.unknownToken, b.threads, b.seedTableLimit, b.listener).train(counts);
+  }
+
+  /** Settings for a {@link UnigramTrainer}. Not thread-safe. */
+  public static final class Builder {
+    private int vocabularySize = 8000;
+    private int seedFactor = 8;
+    private int maxTokenLength = 16;
+    private double shrinkFactor = 0.75;
+    private int emIterations = 2;
+    private boolean byteFallback;
+    private List<String> controlTokens = List.of();
+    private String unknownToken = UnigramModel.DEFAULT_UNKNOWN;
+    private int threads = Math.max(1, Runtime.getRuntime().availableProcessors());
+    private int seedTableLimit = 1_000_000;
+    private TrainingListener listener = TrainingListener.NONE;
+
+    private Builder() {}
+
+    private Builder copy() {
+      Builder c = new Builder();
+      c.vocabularySize = vocabularySize;
+      c.seedFactor = seedFactor;
+      c.maxTokenLength = maxTokenLength;
+      c.shrinkFactor = shrinkFactor;
+      c.emIterations = emIterations;
+      c.byteFallback = byteFallback;
+      c.controlTokens = controlTokens;
+      c.unknownToken = unknownToken;
+      c.threads = threads;
+      c.seedTableLimit = seedTableLimit;
+      c.listener = listener;
+      return c;
+    }
+
+    /** Total ids of the trained model (control, byte, unknown tokens and pieces). Default 8000. */
+    public Builder vocabularySize(int size) {
+      this.vocabularySize = check("vocabularySize", size, 1, Integer.MAX_VALUE - 8);
+      return this;
+    }
+
+    /**
+     * Seed size as a multiple of the number of pieces wanted: the seed keeps this many times as many
+     * multi-character substrings, so pruning has room to choose. Default 8, range 1..1000.
+     */
+    public Builder seedFactor(int factor) {
+      this.seedFactor = check("seedFactor", factor, 1, 1000);
+      return this;
+    }
+
+    /** Longest token learned, in code points. Default 16, range 1..64. */
+    public Builder maxTokenLength(int length) {
+      this.maxTokenLength = check("maxTokenLength", length, 1, 64);
+      return this;
+    }
+
+    /** Fraction of the vocabulary kept by each pruning round [1]. Default 0.75, range (0, 1). */
+    public Builder shrinkFactor(double factor) {
+      if (!(factor > 0 && factor < 1)) {
+        throw new IllegalArgumentException("shrinkFactor=" + factor + " is outside (0, 1)");
+      }
+      this.shrinkFactor = factor;
+      return this;
+    }
+
+    /** EM iterations before each pruning round and at the end. Default 2, range 1..100. */
+    public Builder emIterations(int iterations) {
+      this.emIterations = check("emIterations", iterations, 1, 100);
+      return this;
+    }
+
+    /**
+     * Whether the model gets 256 byte tokens so a character outside the vocabulary encodes as its
+     * UTF-8 bytes instead of the unknown token. Default off.
+     */
+    public Builder byteFallback(boolean on) {
+      this.byteFallback = on;
+      return this;
+    }
+
+    /** Control tokens reserved at ids {@code 0..k-1}, distinct and non-empty. Default none. */
+    public Builder controlTokens(List<String> tokens) {
+      List<String> copy = List.copyOf(tokens);
+      for (int i = 0; i < copy.size(); i++) {
+        if (copy.get(i).isEmpty() || copy.indexOf(copy.get(i)) != i) {
+          throw new IllegalArgumentException("control token " + i + " '" + copy.get(i) + "' is empty or repeated");
+        }
+      }
+      this.controlTokens = copy;
+      return this;
+    }
+
+    /** Spelling of the unknown token. Default {@link UnigramModel#DEFAULT_UNKNOWN}. */
+    public Builder unknownToken(String spelling) {
+      if (spelling == null || spelling.isEmpty()) {
+        throw new IllegalArgumentException("unknownToken must be a non-empty string");
+      }
+      this.unknownToken = spelling;
+      return this;
+    }
+
+    /** Threads for the E-step. Default: available processors; range 1..256. */
+    public Builder threads(int threads) {
+      this.threads = check("threads", threads, 1, 256);
+      return this;
+    }
+
+    /**
+     * Entries of the seed substring table before rare ones are dropped (memory about 100 bytes an
+     * entry). Default 1,000,000, range 1,000..100,000,000.
+     */
+    public Builder seedTableLimit(int entries) {
+      this.seedTableLimit = check("seedTableLimit", entries, 1000, 100_000_000);
+      return this;
+    }
+
+    /** Progress listener. Default {@link TrainingListener#NONE}. */
+    public Builder listener(TrainingListener listener) {
+      this.listener = Objects.requireNonNull(listener, "listener");
+      return this;
+    }
+
+    /** The trainer. */
+    public UnigramTrainer build() {
+      return new UnigramTrainer(this);
+    }
+
+    private static int check(String name, int v, int min, int max) {
+      if (v < min || v > max) {
+        throw new IllegalArgumentException(name + "=" + v + " is outside [" + min + ", " + max + "]");
+      }
+      return v;
+    }
+  }
+}

@@ -1,0 +1,242 @@
+package dev.morsel.tokenize.unigram.internal;
+
+import dev.morsel.tokenize.train.PieceCounts;
+import dev.morsel.tokenize.train.TrainingListener;
+import dev.morsel.tokenize.unigram.UnigramModel;
+import it.unimi.dsi.fastutil.ints.IntArrays;
+import it.unimi.dsi.fastutil.ints.IntOpenHashSet;
+import java.util.ArrayList;
+import java.util.Arrays;
+import java.util.HashSet;
+import java.util.List;
+import java.util.Set;
+import java.util.concurrent.ExecutorService;
+import java.util.concurrent.Executors;
+
+/**
+ * One training run of the unigram model [1, section 3.2]: seed, then rounds of EM and pruning until
+ * the vocabulary size is reached, then EM once more. Deterministic: no random choices; every
+ * ranking breaks ties by token string; EM sums in a fixed order whatever the thread count.
+ *
+ * <p>Pruning: for each multi-character token t the loss is {@code c(t) · (log p(t) − log p(alt(t)))},
+ * the drop in corpus log-likelihood if every expected occurrence of t were replaced by the best
+ * (Viterbi) segmentation alt(t) of t's string without t itself [1, section 3.2]. The tokens with the
+ * highest loss are kept, {@code shrinkFactor} of the vocabulary per round; single characters always
+ * stay so every piece stays covered.
+ *
+ * <p>References: [1] Kudo (2018), "Subword Regularization", ACL 2018.
+ */
+public final class Training {
+  private final int vocabularySize;
+  private final int seedFactor;
+  private final int maxTokenLength;
+  private final double shrinkFactor;
+  private final int emIterations;
+  private final boolean byteFallback;
+  private final List<String> controls;
+  private final String unknown;
+  private final int threads;
+  private final int seedTableLimit;
+  private final TrainingListener listener;
+
+  /** All settings already validated by the public builder. */
+  public Training(int vocabularySize, int seedFactor, int maxTokenLength, double shrinkFactor, int emIterations,
+      boolean byteFallback, List<String> controls, String unknown, int threads, int seedTableLimit,
+      TrainingListener listener) {
+    this.vocabularySize = vocabularySize;
+    this.seedFactor = seedFactor;
+    this.maxTokenLength = maxTokenLength;
+    this.shrinkFactor = shrinkFactor;
+    this.emIterations = emIterations;
+    this.byteFallback = byteFallback;
+    this.controls = List.copyOf(controls);
+    this.unknown = unknown;
+    this.threads = threads;
+    this.seedTableLimit = seedTableLimit;
+    this.listener = listener;
+  }
+
+  /** Trains on {@code counts}. */
+  public UnigramModel train(PieceCounts counts) {
+    if (counts.isEmpty()) {
+      throw new IllegalArgumentException("piece counts are empty; training needs at least one piece");
+    }
+    int n = counts.size();
+    List<String> corpusList = new ArrayList<>(n);
+    long[] weights = new long[n];
+    IntOpenHashSet alphabet = new IntOpenHashSet();
+    for (int i = 0; i < n; i++) {
+      String p = counts.piece(i);
+      if (UnigramSegmenter.unpairedSurrogate(p) >= 0) {
+        continue; // an unpaired surrogate cannot be a token; such pieces are not learned from
+      }
+      weights[corpusList.size()] = counts.count(i);
+      corpusList.add(p);
+      p.codePoints().forEach(alphabet::add);
+    }
+    if (corpusList.isEmpty()) {
+      throw new IllegalArgumentException("every piece holds an unpaired surrogate; nothing to train on");
+    }
+    String[] corpus = corpusList.toArray(new String[0]);
+    weights = Arrays.copyOf(weights, corpus.length);
+    int reservedIds = controls.size() + (byteFallback ? 256 : 0) + 1;
+    long required = (long) reservedIds + alphabet.size();
+    if (vocabularySize < required) {
+      throw new IllegalArgumentException("vocabularySize=" + vocabularySize + " is smaller than the " + required
+          + " ids required: " + controls.size() + " control tokens" + (byteFallback ? ", 256 byte tokens" : "")
+          + ", 1 unknown token and an alphabet of " + alphabet.size() + " characters");
+    }
+    int target = vocabularySize - reservedIds;
+    Set<String> reserved = new HashSet<>(controls);
+    reserved.add(unknown);
+    if (byteFallback) {
+      for (int b = 0; b < 256; b++) {
+        reserved.add(UnigramSegmenter.byteSpelling(b));
+      }
+    }
+    int maxMulti = (int) Math.min(Integer.MAX_VALUE - 8, (long) seedFactor * target);
+    SeedCounter.Seeds seeds = SeedCounter.seed(corpus, weights, maxTokenLength, maxMulti, seedTableLimit, reserved,
+        listener);
+    String[] vocab = seeds.tokens();
+    double[] logp = seeds.logp();
+    Em em = new Em(corpus, weights);
+    ExecutorService pool = threads > 1 ? Executors.newFixedThreadPool(threads, r -> {
+      Thread t = new Thread(r, "morsel-unigram-em");
+      t.setDaemon(true);
+      return t;
+    }) : null;
+    try {
+      int round = 0;
+      long step = 0;
+      while (true) {
+        double[] expected = new double[vocab.length];
+        for (int it = 0; it < emIterations; it++) {
+          double ll = em.iterate(vocab, logp, expected, pool);
+          listener.progress("em", ++step, -1, "round " + round + ", iteration " + (it + 1) + ", " + vocab.length
+              + " tokens, log-likelihood " + ll);
+        }
+        if (vocab.length <= target) {
+          break;
+        }
+        int newSize = Math.max(target, (int) (vocab.length * shrinkFactor));
+        int[] keep = prune(vocab, logp, expected, newSize);
+        String[] v = new String[keep.length];
+        double[] lp = new double[keep.length];
+        for (int i = 0; i < keep.length; i++) {
+          v[i] = vocab[keep[i]];
+          lp[i] = logp[keep[i]];
+        }
+        renormalize(lp);
+        listener.progress("prune", ++round, -1, vocab.length + " -> " + v.length + " tokens (target " + target + ")");
+        vocab = v;
+        logp = lp;
+      }
+    } finally {
+      if (pool != null) {
+        pool.shutdownNow();
+      }
+    }
+    // id order: by score, then by token string
+    Integer[] order = new Integer[vocab.length];
+    for (int i = 0; i < order.length; i++) {
+      order[i] = i;
+    }
+    final String[] fv = vocab;
+    final double[] fl = logp;
+    Arrays.sort(order, (a, b) -> {
+      int c = Double.compare(fl[b], fl[a]);
+      return c != 0 ? c : fv[a].compareTo(fv[b]);
+    });
+    List<String> pieces = new ArrayList<>(order.length);
+    double[] scores = new double[order.length];
+    for (int i = 0; i < order.length; i++) {
+      pieces.add(fv[order[i]]);
+      scores[i] = fl[order[i]];
+    }
+    return UnigramSegmenter.create(controls, byteFallback, unknown, pieces, scores);
+  }
+
+  /** Indices of the tokens kept (in their current order): all single characters, then the highest losses. */
+  static int[] prune(String[] vocab, double[] logp, double[] expected, int newSize) {
+    int[] values = new int[vocab.length];
+    for (int i = 0; i < values.length; i++) {
+      values[i] = i;
+    }
+    PieceTrie trie = new PieceTrie(vocab, values);
+    double[] loss = new double[vocab.length];
+    int[] multi = new int[vocab.length];
+    boolean[] kept = new boolean[vocab.length];
+    int nm = 0;
+    int singles = 0;
+    double[] best = new double[64];
+    for (int t = 0; t < vocab.length; t++) {
+      String s = vocab[t];
+      if (SeedCounter.single(s)) {
+        kept[t] = true;
+        singles++;
+        continue;
+      }
+      multi[nm++] = t;
+      double alt = bestWithout(s, t, trie, logp, best);
+      loss[t] = expected[t] * (logp[t] - alt);
+    }
+    IntArrays.quickSort(multi, 0, nm, (a, b) -> {
+      int c = Double.compare(loss[b], loss[a]);
+      return c != 0 ? c : vocab[a].compareTo(vocab[b]);
+    });
+    int keepMulti = Math.max(0, Math.min(nm, newSize - singles));
+    for (int i = 0; i < keepMulti; i++) {
+      kept[multi[i]] = true;
+    }
+    int[] out = new int[singles + keepMulti];
+    int m = 0;
+    for (int t = 0; t < vocab.length; t++) {
+      if (kept[t]) {
+        out[m++] = t;
+      }
+    }
+    return out;
+  }
+
+  /** Viterbi score of {@code s} over the vocabulary without token {@code self}. */
+  private static double bestWithout(String s, int self, PieceTrie trie, double[] logp, double[] best) {
+    int n = s.length();
+    if (best.length < n + 1) {
+      best = new double[n + 1];
+    }
+    Arrays.fill(best, 0, n + 1, Double.NEGATIVE_INFINITY);
+    best[0] = 0;
+    for (int i = 0; i < n; i++) {
+      if (best[i] == Double.NEGATIVE_INFINITY) {
+        continue;
+      }
+      int node = 0;
+      for (int j = i; j < n; j++) {
+        node = trie.child(node, s.charAt(j));
+        if (node < 0) {
+          break;
+        }
+        int id = trie.value(node);
+        if (id >= 0 && id != self) {
+          best[j + 1] = Math.max(best[j + 1], best[i] + logp[id]);
+        }
+      }
+    }
+    return best[n];
+  }
+
+  private static void renormalize(double[] logp) {
+    double m = Double.NEGATIVE_INFINITY;
+    for (double v : logp) {
+      m = Math.max(m, v);
+    }
+    double sum = 0;
+    for (double v : logp) {
+      sum += Math.exp(v - m);
+    }
+    double z = m + Math.log(sum);
+    for (int i = 0; i < logp.length; i++) {
+      logp[i] -= z;
+    }
+  }
+}

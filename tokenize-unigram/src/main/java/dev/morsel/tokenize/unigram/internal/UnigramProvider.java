@@ -1,0 +1,70 @@
+package dev.morsel.tokenize.unigram.internal;
+
+import dev.morsel.tokenize.format.ModelFormatException;
+import dev.morsel.tokenize.format.ModelSections;
+import dev.morsel.tokenize.format.SectionReader;
+import dev.morsel.tokenize.spi.Segmenter;
+import dev.morsel.tokenize.spi.SegmenterProvider;
+import dev.morsel.tokenize.unigram.UnigramModel;
+
+/**
+ * Reads a unigram model from its two sections, validating every entry before anything is built.
+ *
+ * <pre>
+ * UNST  u32 format version (1)
+ *       u8  byte fallback (0 or 1)
+ *       str unknown-token spelling          (str = u32 byte length + UTF-8)
+ *       u32 control-token count k, then k × str
+ * UNVO  u32 piece count m, then m × (str piece, f64 log-probability)
+ * </pre>
+ *
+ * Errors are {@link ModelFormatException}s naming the section and the entry index.
+ */
+public final class UnigramProvider implements SegmenterProvider {
+  /** Largest control-token count accepted (reason: a forged count must not drive allocation). */
+  private static final int MAX_CONTROLS = 1 << 16;
+  /** Smallest encoded piece entry: a u32 length and an f64 (bytes); content is checked per entry. */
+  private static final int MIN_PIECE_BYTES = 4 + 8;
+
+  /** For {@link java.util.ServiceLoader}. */
+  public UnigramProvider() {}
+
+  @Override
+  public String kind() {
+    return UnigramModel.KIND;
+  }
+
+  @Override
+  public Segmenter read(ModelSections sections) {
+    SectionReader st = sections.reader(UnigramSegmenter.SETTINGS);
+    int version = st.getInt("format version");
+    if (version != UnigramSegmenter.FORMAT_VERSION) {
+      throw st.fail("format version " + version + " is not " + UnigramSegmenter.FORMAT_VERSION);
+    }
+    int flag = st.getByte("byte fallback flag");
+    if (flag > 1) {
+      throw st.fail("byte fallback flag " + flag + " is not 0 or 1");
+    }
+    String unknown = st.getString("unknown token");
+    int k = st.getCount("control tokens", MAX_CONTROLS, 4);
+    String[] controls = new String[k];
+    for (int i = 0; i < k; i++) {
+      controls[i] = st.getString("control token " + i);
+    }
+    st.expectEnd();
+
+    SectionReader vo = sections.reader(UnigramSegmenter.PIECES);
+    int m = vo.getCount("pieces", Integer.MAX_VALUE / MIN_PIECE_BYTES, MIN_PIECE_BYTES);
+    String[] pieces = new String[m];
+    double[] scores = new double[m];
+    for (int i = 0; i < m; i++) {
+      pieces[i] = vo.getString("piece " + i);
+      scores[i] = vo.getDouble("score of piece " + i);
+    }
+    vo.expectEnd();
+    return new UnigramSegmenter(controls, flag == 1, unknown, pieces, scores, (what, index, message) -> {
+      String tag = what.equals("piece") ? UnigramSegmenter.PIECES : UnigramSegmenter.SETTINGS;
+      return new ModelFormatException(tag, what + " " + index + ": " + message);
+    });
+  }
+}

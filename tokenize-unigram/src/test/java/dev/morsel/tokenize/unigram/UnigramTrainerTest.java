@@ -1,0 +1,122 @@
+package dev.morsel.tokenize.unigram;
+
+import static org.junit.jupiter.api.Assertions.assertArrayEquals;
+import static org.junit.jupiter.api.Assertions.assertEquals;
+import static org.junit.jupiter.api.Assertions.assertThrows;
+import static org.junit.jupiter.api.Assertions.assertTrue;
+
+import dev.morsel.tokenize.train.PieceCounts;
+import java.util.ArrayList;
+import java.util.List;
+import java.util.SplittableRandom;
+import org.junit.jupiter.api.Test;
+
+/** Trainer settings, determinism and bad input, on invented passenger messages to a ferry operator. */
+class UnigramTrainerTest {
+  private static final String[] PHRASES = {
+      "the morning ferry to Skerryholm is delayed by forty minutes",
+      "can I bring my bicycle on the evening sailing",
+      "our cabin on deck four has no hot water",
+      "the quay at Brannick was closed because of the storm",
+      "please refund my tickets for the cancelled sailing",
+      "is there a vehicle deck on the small ferry",
+      "the harbour master says the crossing will resume at noon",
+      "we missed the last ferry and need a cabin for tonight",
+      "d\u00e9j\u00e0 vu: the sailing was cancelled again \u26f4",
+  };
+
+  /** A seeded corpus of messages assembled from the phrases. */
+  private static PieceCounts corpus(long seed, int messages) {
+    SplittableRandom r = new SplittableRandom(seed);
+    List<String> texts = new ArrayList<>();
+    for (int i = 0; i < messages; i++) {
+      texts.add(PHRASES[r.nextInt(PHRASES.length)] + " " + PHRASES[r.nextInt(PHRASES.length)]);
+    }
+    return LocalSplit.count(texts);
+  }
+
+  private static UnigramTrainer.Builder small() {
+    return UnigramTrainer.builder().vocabularySize(120).seedFactor(4).maxTokenLength(10);
+  }
+
+  @Test
+  void resultDoesNotDependOnTheThreadCount() {
+    PieceCounts c = corpus(11, 400);
+    UnigramModel one = small().threads(1).build().train(c);
+    UnigramModel two = small().threads(3).build().train(c);
+    assertEquals(one.vocabularySize(), two.vocabularySize());
+    for (int id = 0; id < one.vocabularySize(); id++) {
+      assertEquals(one.token(id), two.token(id), "id " + id);
+      assertEquals(Double.doubleToLongBits(one.score(id)), Double.doubleToLongBits(two.score(id)), "id " + id);
+    }
+  }
+
+  @Test
+  void reachesTheVocabularySizeAndLearnsFrequentWords() {
+    UnigramModel m = small().controlTokens(List.of("\u00a7aboard")).build().train(corpus(3, 500));
+    assertEquals(120, m.vocabularySize());
+    assertEquals(0, m.id("\u00a7aboard"));
+    assertEquals(1, m.unknownId());
+    assertEquals(-1, m.firstByteId());
+    // " ferry" and " sailing" occur in most messages; a 120-token model keeps them whole
+    assertTrue(m.id(" ferry") >= m.firstPieceId(), "' ferry' missing");
+    assertTrue(m.id(" sailing") >= m.firstPieceId(), "' sailing' missing");
+    // every character of the corpus stays a piece
+    for (String p : PHRASES) {
+      p.codePoints().forEach(cp -> assertTrue(m.id(Character.toString(cp)) >= m.firstPieceId(),
+          "character U+" + Integer.toHexString(cp) + " missing"));
+    }
+    double sum = 0;
+    for (int id = m.firstPieceId(); id < m.vocabularySize(); id++) {
+      sum += Math.exp(m.score(id));
+    }
+    assertEquals(1.0, sum, 1e-6, "piece probabilities sum to one");
+  }
+
+  @Test
+  void segmentsTrainingTextIntoFewTokens() {
+    UnigramModel m = small().vocabularySize(300).build().train(corpus(5, 600));
+    String text = " ferry";
+    List<Integer> ids = new ArrayList<>();
+    m.segment(text, 0, text.length(), (id, s, e) -> ids.add(id));
+    assertEquals(List.of(m.id(" ferry")), ids);
+  }
+
+  @Test
+  void badInputIsRejected() {
+    assertThrows(IllegalArgumentException.class, () -> small().build().train(PieceCounts.empty()));
+    IllegalArgumentException e = assertThrows(IllegalArgumentException.class,
+        () -> UnigramTrainer.builder().vocabularySize(10).build().train(corpus(1, 50)));
+    assertTrue(e.getMessage().contains("vocabularySize=10") && e.getMessage().contains("alphabet"), e.getMessage());
+    e = assertThrows(IllegalArgumentException.class,
+        () -> UnigramTrainer.builder().vocabularySize(200).byteFallback(true).build().train(corpus(1, 50)));
+    assertTrue(e.getMessage().contains("256 byte tokens"), e.getMessage());
+    assertThrows(IllegalArgumentException.class, () -> UnigramTrainer.builder().shrinkFactor(1.0));
+    assertThrows(IllegalArgumentException.class, () -> UnigramTrainer.builder().shrinkFactor(0));
+    assertThrows(IllegalArgumentException.class, () -> UnigramTrainer.builder().vocabularySize(0));
+    assertThrows(IllegalArgumentException.class, () -> UnigramTrainer.builder().maxTokenLength(0));
+    assertThrows(IllegalArgumentException.class, () -> UnigramTrainer.builder().emIterations(0));
+    assertThrows(IllegalArgumentException.class, () -> UnigramTrainer.builder().threads(0));
+    assertThrows(IllegalArgumentException.class, () -> UnigramTrainer.builder().controlTokens(List.of("a", "a")));
+    assertThrows(IllegalArgumentException.class, () -> UnigramTrainer.builder().unknownToken(""));
+  }
+
+  @Test
+  void byteFallbackModelHasByteTokensAfterControls() {
+    UnigramModel m = small().vocabularySize(400).byteFallback(true).controlTokens(List.of("\u00a7a", "\u00a7b"))
+        .build().train(corpus(8, 200));
+    assertEquals(400, m.vocabularySize());
+    assertEquals(2, m.firstByteId());
+    assertEquals(2 + 256, m.unknownId());
+    String text = " ferry \u00f8";
+    java.io.ByteArrayOutputStream out = new java.io.ByteArrayOutputStream();
+    m.segment(text, 0, text.length(), (id, s, e) -> m.decodeToken(id, out::write));
+    assertArrayEquals(text.getBytes(java.nio.charset.StandardCharsets.UTF_8), out.toByteArray());
+  }
+
+  @Test
+  void seedTableLimitBoundsMemoryAndStillTrains() {
+    UnigramModel m = small().seedTableLimit(1000).build().train(corpus(4, 300));
+    assertEquals(120, m.vocabularySize());
+  }
+}
