@@ -36,9 +36,14 @@ public final class Tokenizers {
     return new PipelineTokenizer(pipeline, segmenter, controlTokens, template, Limits.defaults(), null);
   }
 
-  /** A tokenizer with the default pipeline, no control tokens and no framing. */
+  /** A tokenizer with the default pipeline, the segmenter's own control tokens and no framing. */
   public static Tokenizer of(Segmenter segmenter) {
-    return of(Pipeline.defaults(), segmenter, ControlTokens.none(), Template.none());
+    return of(Pipeline.defaults(), segmenter);
+  }
+
+  /** A tokenizer with the given pipeline, the segmenter's own control tokens and no framing. */
+  public static Tokenizer of(Pipeline pipeline, Segmenter segmenter) {
+    return of(pipeline, segmenter, segmenter.controlTokens(), Template.none());
   }
 
   /** Loads a model file, validating it fully before building anything. */

@@ -17,6 +17,15 @@ public interface Segmenter {
   /** The kind name that finds this segmenter's {@link SegmenterProvider}, for example {@code "bpe"}. */
   String kind();
 
+  /**
+   * The control tokens this segmenter's vocabulary reserves (spelling to id), as a trainer reserved
+   * them; none by default. {@link dev.morsel.tokenize.Tokenizers#of(dev.morsel.tokenize.Pipeline,
+   * Segmenter)} registers them.
+   */
+  default dev.morsel.tokenize.ControlTokens controlTokens() {
+    return dev.morsel.tokenize.ControlTokens.none();
+  }
+
   /** Number of ids in the vocabulary. */
   int vocabularySize();
 

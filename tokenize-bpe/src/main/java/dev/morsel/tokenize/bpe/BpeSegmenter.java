@@ -277,6 +277,7 @@ public final class BpeSegmenter implements Segmenter {
   }
 
   /** The control tokens reserved by the trainer, ids {@code 0..k-1}, for assembling a tokenizer. */
+  @Override
   public ControlTokens controlTokens() {
     return controlTokens;
   }

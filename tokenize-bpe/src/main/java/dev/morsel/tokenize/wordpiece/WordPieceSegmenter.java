@@ -275,6 +275,7 @@ public final class WordPieceSegmenter implements Segmenter {
   }
 
   /** The control tokens: ids {@code 0..controlCount-1} bound to their spellings, for assembling a tokenizer. */
+  @Override
   public dev.morsel.tokenize.ControlTokens controlTokens() {
     dev.morsel.tokenize.ControlTokens.Builder b = dev.morsel.tokenize.ControlTokens.builder();
     for (int i = 0; i < controlCount; i++) {

@@ -49,7 +49,7 @@ final class DemoCommand implements Callable<Integer> {
   @Option(names = "--vocab-size", defaultValue = "2000", description = "Vocabulary size of the demo models (default: ${DEFAULT-VALUE}).")
   int vocabularySize;
 
-  @Option(names = "--sizes", split = ",", defaultValue = "300,500,1000,2000", description = "Sweep sizes (default: ${DEFAULT-VALUE}).")
+  @Option(names = "--sizes", split = ",", defaultValue = "400,700,1000,2000", description = "Sweep sizes (default: ${DEFAULT-VALUE}).")
   List<Integer> sizes;
 
   @Override

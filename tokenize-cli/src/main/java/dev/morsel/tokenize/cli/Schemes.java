@@ -8,6 +8,8 @@ import dev.morsel.tokenize.Tokenizers;
 import dev.morsel.tokenize.bpe.BpeSegmenter;
 import dev.morsel.tokenize.bpe.BpeTrainer;
 import dev.morsel.tokenize.train.PieceCounts;
+import dev.morsel.tokenize.unigram.UnigramModel;
+import dev.morsel.tokenize.unigram.UnigramTrainer;
 import dev.morsel.tokenize.wordpiece.WordPieceSegmenter;
 import dev.morsel.tokenize.wordpiece.WordPieceTrainer;
 import dev.morsel.tokenize.train.TrainingListener;
@@ -16,7 +18,7 @@ import java.util.List;
 /** Trains a tokenizer of a named scheme from piece counts: the one place that knows every trainer. */
 final class Schemes {
   /** The scheme names, in the order reports list them. */
-  static final List<String> NAMES = List.of("bpe", "wordpiece");
+  static final List<String> NAMES = List.of("bpe", "wordpiece", "unigram");
 
   private Schemes() {}
 
@@ -39,6 +41,11 @@ final class Schemes {
       case "wordpiece": {
         WordPieceSegmenter s = WordPieceTrainer.builder().vocabularySize(vocabularySize).controlTokens(controls)
             .listener(listener).build().train(counts);
+        return Tokenizers.of(pipeline, s, s.controlTokens(), Template.none());
+      }
+      case "unigram": {
+        UnigramModel s = UnigramTrainer.builder().vocabularySize(vocabularySize).controlTokens(controls).byteFallback(true)
+            .threads(threads).listener(listener).build().train(counts);
         return Tokenizers.of(pipeline, s, s.controlTokens(), Template.none());
       }
       default:

@@ -34,10 +34,10 @@ class CliTest {
   record Run(int code, String out, String err) {}
 
   static Run run(String... args) {
-    return run(null, args);
+    return feed(null, args);
   }
 
-  static synchronized Run run(String stdin, String... args) {
+  static synchronized Run feed(String stdin, String... args) {
     StringWriter out = new StringWriter();
     StringWriter err = new StringWriter();
     InputStream saved = System.in;
@@ -83,9 +83,9 @@ class CliTest {
 
     List<String> lines = Files.readAllLines(corpus.resolve("messages-de.txt")).subList(0, 40);
     String input = String.join("\n", lines) + "\n";
-    Run enc = run(input, "encode", "--model", model.toString());
+    Run enc = feed(input, "encode", "--model", model.toString());
     assertEquals(0, enc.code(), enc.err());
-    Run dec = run(enc.out(), "decode", "--model", model.toString());
+    Run dec = feed(enc.out(), "decode", "--model", model.toString());
     assertEquals(0, dec.code(), dec.err());
     List<String> decoded = dec.out().lines().toList();
     assertEquals(lines.size(), decoded.size());
@@ -96,14 +96,14 @@ class CliTest {
       }
     }
 
-    Run json = run(input, "encode", "--model", model.toString(), "--format", "json");
+    Run json = feed(input, "encode", "--model", model.toString(), "--format", "json");
     assertEquals(0, json.code(), json.err());
     List<String> jsonLines = json.out().lines().toList();
     assertEquals(lines.size(), jsonLines.size());
     for (int i = 0; i < lines.size(); i++) {
       checkOffsets(jsonLines.get(i), lines.get(i));
     }
-    Run viaJson = run(json.out(), "decode", "--model", model.toString());
+    Run viaJson = feed(json.out(), "decode", "--model", model.toString());
     assertEquals(dec.out(), viaJson.out());
   }
 
@@ -146,8 +146,8 @@ class CliTest {
     Path model = dir.resolve("ctl.morsel");
     assertEquals(0, run("train", "--vocab-size", "400", "--control", "\u27e8hold\u27e9", "--out", model.toString(),
         corpus.toString()).code());
-    Run plain = run("Please \u27e8hold\u27e9 my cabin\n", "encode", "--model", model.toString());
-    Run trusted = run("Please \u27e8hold\u27e9 my cabin\n", "encode", "--model", model.toString(), "--trusted");
+    Run plain = feed("Please \u27e8hold\u27e9 my cabin\n", "encode", "--model", model.toString());
+    Run trusted = feed("Please \u27e8hold\u27e9 my cabin\n", "encode", "--model", model.toString(), "--trusted");
     assertFalse((" " + plain.out().strip() + " ").contains(" 0 "), "untrusted input never yields control id 0: " + plain.out());
     assertTrue((" " + trusted.out().strip() + " ").contains(" 0 "), "trusted input yields control id 0: " + trusted.out());
   }
@@ -170,8 +170,8 @@ class CliTest {
     Run scheme = run("train", "--scheme", "sparkle", "--out", dir.resolve("x.morsel").toString(), corpus.toString());
     assertEquals(Morsel.USAGE, scheme.code());
     Path model = dir.resolve("ok.morsel");
-    assertEquals(0, run("train", "--vocab-size", "300", "--out", model.toString(), corpus.toString()).code());
-    Run malformed = run("12 x7 4\n", "decode", "--model", model.toString());
+    assertEquals(0, run("train", "--vocab-size", "400", "--out", model.toString(), corpus.toString()).code());
+    Run malformed = feed("12 x7 4\n", "decode", "--model", model.toString());
     assertEquals(Morsel.FAILED, malformed.code());
     assertTrue(malformed.err().contains("line 1") && malformed.err().contains("x7"), malformed.err());
     Run outside = run("decode", "--model", model.toString(), "999999");
@@ -188,7 +188,7 @@ class CliTest {
   @Test
   void sweepWritesACsvRowPerSchemeAndSizeAndOneChartPerFigure() throws Exception {
     Path out = dir.resolve("sweep");
-    Run sweep = run("sweep", "--sizes", "300,600,1200", "--out", out.toString(), corpus.toString());
+    Run sweep = run("sweep", "--sizes", "400,800,1600", "--out", out.toString(), corpus.toString());
     assertEquals(0, sweep.code(), sweep.err());
     List<String> csv = Files.readAllLines(out.resolve("sweep.csv"));
     assertEquals(Report.CSV_HEADER, csv.get(0));

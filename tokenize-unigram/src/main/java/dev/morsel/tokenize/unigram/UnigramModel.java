@@ -54,6 +54,16 @@ public interface UnigramModel extends Segmenter {
   /** Number of control tokens (ids {@code 0..controlCount()-1}). */
   int controlCount();
 
+  /** The control tokens: ids {@code 0..controlCount()-1} bound to their spellings. */
+  @Override
+  default dev.morsel.tokenize.ControlTokens controlTokens() {
+    dev.morsel.tokenize.ControlTokens.Builder b = dev.morsel.tokenize.ControlTokens.builder();
+    for (int i = 0; i < controlCount(); i++) {
+      b.add(token(i), i);
+    }
+    return b.build();
+  }
+
   /** Whether uncovered characters become byte tokens. */
   boolean byteFallback();
 
