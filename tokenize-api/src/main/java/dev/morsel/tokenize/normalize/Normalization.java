@@ -71,6 +71,21 @@ public final class Normalization {
 
   private static final Normalization NONE = new Normalization(Form.NONE, false, false, false, false);
 
+  /**
+   * Most non-starters (canonical combining class != 0) in a row inside one chunk: UAX #15 section 13,
+   * Stream-Safe Text Format. Longer runs are cut there and U+034F COMBINING GRAPHEME JOINER starts
+   * the continuation, so no chunk is long and canonical reordering stays linear in total (measured:
+   * without the cut, 100,000 alternating marks took 6.7 s under NFC, quadratic).
+   */
+  private static final int MAX_NON_STARTERS = 30;
+  /** UAX #15 section 13: the starter inserted at a cut. */
+  private static final String CGJ = "\u034F";
+  /**
+   * Chars of non-ASCII text checked at once before falling back to chunk by chunk; unit: UTF-16
+   * chars. Bounds the work redone when a group turns out to have changed.
+   */
+  private static final int GROUP_CHARS = 256;
+
   // ---- state ----------------------------------------------------------------------------------
 
   private final Form form;
@@ -376,77 +391,96 @@ public final class Normalization {
     final Normalizer2 n = quick;
     final boolean fold = caseFold;
     Window w = null;
+    boolean cut = false; // the previous chunk was cut inside a run of non-starters
     int i = from;
     while (i < to) {
-      int j = asciiEnd(s, i, to);
-      if (j > i) {
-        if (j < to && !n.hasBoundaryBefore(cpAt(s, j, to))) {
-          j--; // the last ASCII char combines with what follows (e.g. '<' + U+0338)
-        }
+      if (!cut) {
+        int j = asciiEnd(s, i, to);
         if (j > i) {
-          ascii(em, s, i, j, fold);
-          i = j;
-          if (i >= to) {
-            break;
+          if (j < to && !n.hasBoundaryBefore(cpAt(s, j, to))) {
+            j--; // the last ASCII char combines with what follows (e.g. '<' + U+0338)
+          }
+          if (j > i) {
+            ascii(em, s, i, j, fold);
+            i = j;
+            if (i >= to) {
+              break;
+            }
           }
         }
-      }
-      if (w == null) {
-        w = new Window();
-      }
-      int q = i + n.spanQuickCheckYes(w.set(s, i, to));
-      if (q > i) {
-        em.same(i, q);
-        i = q;
-        continue;
+        if (w == null) {
+          w = new Window();
+        }
+        int q = i + n.spanQuickCheckYes(w.set(s, i, to));
+        if (q > i) {
+          em.same(i, q);
+          i = q;
+          continue;
+        }
       }
       int e = chunkEnd(n, s, i, to);
       String chunk = s.subSequence(i, e).toString();
       String o = n.normalize(chunk);
-      if (o.equals(chunk)) {
+      if (cut) {
+        em.changed(o.isEmpty() ? o : CGJ + o, i, e);
+      } else if (o.equals(chunk)) {
         em.same(i, e);
       } else {
         em.changed(o, i, e);
       }
+      cut = isCut(n, s, e, to);
       i = e;
     }
     return em.finish(to);
   }
 
-  /** Step 3 with fold (other than NFKC) or strip-accents: transform runs, then chunks. */
+  /** Step 3 with fold (other than NFKC) or strip-accents: transform groups of chunks, then chunks. */
   private boolean slowStep(Emitter em, CharSequence s, int from, int to) {
     final Normalizer2 n = bound;
     final boolean fold = caseFold;
+    int[] ends = new int[16];
+    boolean cut = false;
     int i = from;
     while (i < to) {
-      int j = asciiEnd(s, i, to);
-      if (j > i) {
-        if (j < to && n != null && !n.hasBoundaryBefore(cpAt(s, j, to))) {
-          j--;
-        }
+      if (!cut) {
+        int j = asciiEnd(s, i, to);
         if (j > i) {
-          ascii(em, s, i, j, fold);
-          i = j;
-          if (i >= to) {
-            break;
+          if (j < to && n != null && !n.hasBoundaryBefore(cpAt(s, j, to))) {
+            j--;
+          }
+          if (j > i) {
+            ascii(em, s, i, j, fold);
+            i = j;
+            if (i >= to) {
+              break;
+            }
           }
         }
       }
-      // a run up to the next ASCII char, which is always a boundary
-      int r = i + 1;
-      while (r < to && s.charAt(r) >= 0x80) {
-        r++;
-      }
-      String run = s.subSequence(i, r).toString();
-      if (transform(run).equals(run)) {
-        em.same(i, r);
+      // a group of whole chunks: up to the next ASCII char (always a boundary), a cut, or GROUP_CHARS
+      int count = 0;
+      int g = i;
+      boolean cutAfter = false;
+      do {
+        g = n == null ? g + Character.charCount(cpAt(s, g, to)) : chunkEnd(n, s, g, to);
+        if (count == ends.length) {
+          ends = java.util.Arrays.copyOf(ends, count * 2);
+        }
+        ends[count++] = g;
+        cutAfter = n != null && isCut(n, s, g, to);
+      } while (!cutAfter && !cut && g < to && s.charAt(g) >= 0x80 && g - i < GROUP_CHARS);
+      String group = s.subSequence(i, g).toString();
+      if (!cut && transform(group).equals(group)) {
+        em.same(i, g);
       } else {
         int a = i;
-        while (a < r) {
-          int b = n == null ? a + Character.charCount(cpAt(s, a, r)) : chunkEnd(n, s, a, r);
-          String chunk = run.substring(a - i, b - i);
+        for (int k = 0; k < count; k++) {
+          int b = ends[k];
+          String chunk = group.substring(a - i, b - i);
           String o = transform(chunk);
-          if (o.equals(chunk)) {
+          if (cut && k == 0) {
+            em.changed(o.isEmpty() ? o : CGJ + o, a, b);
+          } else if (o.equals(chunk)) {
             em.same(a, b);
           } else {
             em.changed(o, a, b);
@@ -454,7 +488,8 @@ public final class Normalization {
           a = b;
         }
       }
-      i = r;
+      cut = cutAfter;
+      i = g;
     }
     return em.finish(to);
   }
@@ -574,17 +609,35 @@ public final class Normalization {
     return i;
   }
 
-  /** End of the chunk starting at {@code i}: the next boundary after at least one code point. */
+  /**
+   * End of the chunk starting at {@code i}: the next boundary after at least one code point, or the
+   * point after {@link #MAX_NON_STARTERS} non-starters in a row (a cut, see {@link #isCut}).
+   */
   private static int chunkEnd(Normalizer2 n, CharSequence s, int i, int to) {
-    int e = i + Character.charCount(cpAt(s, i, to));
+    int c = cpAt(s, i, to);
+    int e = i + Character.charCount(c);
+    int run = n.getCombiningClass(c) != 0 ? 1 : 0;
     while (e < to) {
-      int c = cpAt(s, e, to);
+      c = cpAt(s, e, to);
       if (n.hasBoundaryBefore(c)) {
         break;
+      }
+      if (n.getCombiningClass(c) != 0) {
+        if (run == MAX_NON_STARTERS) {
+          break;
+        }
+        run++;
+      } else {
+        run = 0;
       }
       e += Character.charCount(c);
     }
     return e;
+  }
+
+  /** Whether a chunk ending at {@code e} was cut, i.e. ends where there is no boundary. */
+  private static boolean isCut(Normalizer2 n, CharSequence s, int e, int to) {
+    return e < to && !n.hasBoundaryBefore(cpAt(s, e, to));
   }
 
   /** Code point at {@code i}, never reading at or past {@code to}. */

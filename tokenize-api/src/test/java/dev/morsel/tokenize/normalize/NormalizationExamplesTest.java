@@ -206,4 +206,49 @@ class NormalizationExamplesTest {
     assertNull(AlignmentChecks.violation(nt, msg, 0, msg.length(), AlignmentPropertyTest.removable(all)));
     assertEquals(1, nt.originalStart(0)); // the leading control is covered by nothing
   }
+
+  /**
+   * UAX #15 section 13 (Stream-Safe Text Format): after 30 non-starters in a row a U+034F COMBINING
+   * GRAPHEME JOINER is inserted. The expected text is built independently: insert CGJ into the
+   * input by that rule, then normalize the whole string with ICU.
+   */
+  @Test
+  void longRunsOfMarksAreCutTheStreamSafeWay() {
+    StringBuilder sb = new StringBuilder("Ro");
+    for (int i = 0; i < 100; i++) {
+      sb.append(i % 2 == 0 ? '\u0301' : '\u0316'); // ccc 230 and 220 (UnicodeData.txt), so every pair reorders
+    }
+    sb.append("ute 9");
+    String msg = sb.toString();
+    StringBuilder safe = new StringBuilder();
+    int run = 0;
+    for (int i = 0; i < msg.length(); i++) {
+      char c = msg.charAt(i);
+      if (com.ibm.icu.lang.UCharacter.getCombiningClass(c) != 0) {
+        if (run == 30) {
+          safe.append('\u034F');
+          run = 0;
+        }
+        run++;
+      } else {
+        run = 0;
+      }
+      safe.append(c);
+    }
+    String expectedSafe = safe.toString();
+    for (Form f : new Form[] {Form.NFC, Form.NFD, Form.NFKC, Form.NFKD}) {
+      NormalizedText nt = Normalization.of(f).apply(msg);
+      com.ibm.icu.text.Normalizer2 icu = f == Form.NFC ? com.ibm.icu.text.Normalizer2.getNFCInstance()
+          : f == Form.NFD ? com.ibm.icu.text.Normalizer2.getNFDInstance()
+          : f == Form.NFKC ? com.ibm.icu.text.Normalizer2.getNFKCInstance()
+          : com.ibm.icu.text.Normalizer2.getNFKDInstance();
+      assertEquals(icu.normalize(expectedSafe), nt.text(), f.toString());
+      assertTrue(icu.isNormalized(nt.text()), f + " output is normalized");
+      assertNull(AlignmentChecks.violation(nt, msg, 0, msg.length(), cp -> false), f.toString());
+    }
+    Normalization strip = Normalization.builder().form(Form.NFC).stripAccents(true).build();
+    NormalizedText stripped = strip.apply(msg);
+    assertEquals("Route 9", stripped.text()); // every mark is Mn, so no joiner is left either
+    assertNull(AlignmentChecks.violation(stripped, msg, 0, msg.length(), AlignmentPropertyTest.removable(strip)));
+  }
 }
