@@ -35,6 +35,9 @@ import java.util.Objects;
  *       breaks becomes one U+0020. Line breaks (LF, VT, FF, CR, U+0085, U+2028, U+2029) are kept.
  *       This is lossy on purpose: the original spacing survives only in the offsets.</li>
  * </ol>
+ * A run of more than 30 non-starters is cut after each 30 and continued after an inserted U+034F
+ * COMBINING GRAPHEME JOINER (UAX #15 section 13, Stream-Safe Text Format), which keeps the time
+ * linear on any input; real text never has such runs.
  *
  * <h2>Spec strings</h2>
  * {@link #spec()} is {@code "none"} or the form name in lowercase followed by the options joined

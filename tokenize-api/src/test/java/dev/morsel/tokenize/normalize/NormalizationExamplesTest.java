@@ -57,6 +57,11 @@ class NormalizationExamplesTest {
     assertEquals(10, nt.originalStart(12)); // é maps to "e\u0301"
     assertEquals(12, nt.originalEnd(12));
     assertEquals(msg.length(), nt.spanStart(nt.length()));
+    // the tokens of docs/normalization.md: "(1)" = [5, 8) -> [5, 6); "café" = [9, 13) -> [7, 12)
+    assertEquals(5, nt.spanStart(5));
+    assertEquals(6, nt.spanEnd(8));
+    assertEquals(7, nt.spanStart(9));
+    assertEquals(12, nt.spanEnd(13));
   }
 
   @Test
