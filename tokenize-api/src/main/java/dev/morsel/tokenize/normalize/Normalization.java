@@ -61,7 +61,18 @@ import java.util.Objects;
  */
 public final class Normalization {
   /** The Unicode normalization form applied first. */
-  public enum Form { NONE, NFC, NFD, NFKC, NFKD }
+  public enum Form {
+    /** No normalization form; options still apply. */
+    NONE,
+    /** Canonical decomposition followed by canonical composition (UAX #15). */
+    NFC,
+    /** Canonical decomposition (UAX #15). */
+    NFD,
+    /** Compatibility decomposition followed by canonical composition (UAX #15). */
+    NFKC,
+    /** Compatibility decomposition (UAX #15). */
+    NFKD
+  }
 
   // ---- configuration ------------------------------------------------------------------------
 
@@ -83,11 +94,8 @@ public final class Normalization {
   private static final int MAX_NON_STARTERS = 30;
   /** UAX #15 section 13: the starter inserted at a cut. */
   private static final String CGJ = "\u034F";
-  /**
-   * Chars of non-ASCII text checked at once before falling back to chunk by chunk; unit: UTF-16
-   * chars. Bounds the work redone when a group turns out to have changed.
-   */
-  private static final int GROUP_CHARS = 256;
+  /** Marks an unchanged entry in the one-char cache of the slow path (compared by identity). */
+  private static final String SAME = new String("");
 
   // ---- state ----------------------------------------------------------------------------------
 
@@ -112,6 +120,8 @@ public final class Normalization {
   private final Normalizer2 decomposer;
   /** Recomposer after stripping marks; null when the form is decomposed. */
   private final Normalizer2 composer;
+  /** One-char results of the slow path, by page (high byte); null when the quick path is used. */
+  private final String[][] singlePages;
 
   // ---- life-cycle -----------------------------------------------------------------------------
 
@@ -159,6 +169,7 @@ public final class Normalization {
     }
     boolean plain = fn != null && !stripAccents && (!caseFold || form == Form.NFKC);
     this.quick = plain ? fn : null;
+    this.singlePages = formStep && !plain ? new String[256][] : null;
     if (fn != null) {
       this.bound = fn;
     } else {
@@ -437,11 +448,13 @@ public final class Normalization {
     return em.finish(to);
   }
 
-  /** Step 3 with fold (other than NFKC) or strip-accents: transform groups of chunks, then chunks. */
+  /**
+   * Step 3 with fold (other than NFKC) or strip-accents: chunk by chunk; a chunk of one BMP char
+   * (most chunks in practice) is looked up in {@link #single}.
+   */
   private boolean slowStep(Emitter em, CharSequence s, int from, int to) {
     final Normalizer2 n = bound;
     final boolean fold = caseFold;
-    int[] ends = new int[16];
     boolean cut = false;
     int i = from;
     while (i < to) {
@@ -460,41 +473,52 @@ public final class Normalization {
           }
         }
       }
-      // a group of whole chunks: up to the next ASCII char (always a boundary), a cut, or GROUP_CHARS
-      int count = 0;
-      int g = i;
-      boolean cutAfter = false;
-      do {
-        g = n == null ? g + Character.charCount(cpAt(s, g, to)) : chunkEnd(n, s, g, to);
-        if (count == ends.length) {
-          ends = java.util.Arrays.copyOf(ends, count * 2);
+      int e = n == null ? i + Character.charCount(cpAt(s, i, to)) : chunkEnd(n, s, i, to);
+      if (e == i + 1 && !cut && !Character.isSurrogate(s.charAt(i))) {
+        String o = single(s.charAt(i));
+        if (o == SAME) {
+          em.same(i, e);
+        } else {
+          em.changed(o, i, e);
         }
-        ends[count++] = g;
-        cutAfter = n != null && isCut(n, s, g, to);
-      } while (!cutAfter && !cut && g < to && s.charAt(g) >= 0x80 && g - i < GROUP_CHARS);
-      String group = s.subSequence(i, g).toString();
-      if (!cut && transform(group).equals(group)) {
-        em.same(i, g);
       } else {
-        int a = i;
-        for (int k = 0; k < count; k++) {
-          int b = ends[k];
-          String chunk = group.substring(a - i, b - i);
-          String o = transform(chunk);
-          if (cut && k == 0) {
-            em.changed(o.isEmpty() ? o : CGJ + o, a, b);
-          } else if (o.equals(chunk)) {
-            em.same(a, b);
-          } else {
-            em.changed(o, a, b);
-          }
-          a = b;
+        String chunk = s.subSequence(i, e).toString();
+        String o = transform(chunk);
+        if (cut) {
+          em.changed(o.isEmpty() ? o : CGJ + o, i, e);
+        } else if (o.equals(chunk)) {
+          em.same(i, e);
+        } else {
+          em.changed(o, i, e);
         }
       }
-      cut = cutAfter;
-      i = g;
+      cut = n != null && isCut(n, s, e, to);
+      i = e;
     }
     return em.finish(to);
+  }
+
+  /**
+   * Step 3 of a one-char chunk, cached per instance in pages of 256 chars allocated on first use
+   * (at most 65,536 references per instance). The cache is racy on purpose, like
+   * {@code String.hashCode}: entries are immutable Strings (or {@link #SAME}), so a thread either
+   * sees a complete entry or null and recomputes it.
+   */
+  private String single(char c) {
+    String[][] pages = singlePages;
+    String[] page = pages[c >>> 8];
+    if (page == null) {
+      page = new String[256]; // unit: chars per page; one page covers a typical script block
+      pages[c >>> 8] = page;
+    }
+    String r = page[c & 0xFF];
+    if (r == null) {
+      String x = String.valueOf(c);
+      String o = transform(x);
+      r = o.equals(x) ? SAME : o;
+      page[c & 0xFF] = r;
+    }
+    return r;
   }
 
   /** Step 3 on one chunk (or a run of whole chunks) for the slow path. */

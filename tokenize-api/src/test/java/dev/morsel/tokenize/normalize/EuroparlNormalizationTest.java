@@ -61,4 +61,33 @@ class EuroparlNormalizationTest {
     }
     System.out.printf("Europarl %s: %d of %d bodies changed%n", spec, changed, bodies.size());
   }
+
+  /** One fresh instance (empty one-char cache) shared by two threads gives the oracle's text in both. */
+  @org.junit.jupiter.api.Test
+  void sharedInstanceIsThreadSafe() throws Exception {
+    Normalization n = Normalization.parse("nfd+casefold+strip-accents+collapse-spaces");
+    List<String> bodies = bodies();
+    java.util.concurrent.ExecutorService pool = java.util.concurrent.Executors.newFixedThreadPool(2);
+    try {
+      List<java.util.concurrent.Future<Integer>> results = new ArrayList<>();
+      for (int t = 0; t < 2; t++) {
+        final int offset = t * (LINES / 2); // the two threads start in different places
+        results.add(pool.submit(() -> {
+          int mismatches = 0;
+          for (int k = 0; k < bodies.size(); k++) {
+            String s = bodies.get((k + offset) % bodies.size());
+            if (!n.apply(s).text().equals(AlignmentPropertyTest.oracle(n, s))) {
+              mismatches++;
+            }
+          }
+          return mismatches;
+        }));
+      }
+      for (java.util.concurrent.Future<Integer> f : results) {
+        assertEquals(0, f.get().intValue(), "bodies that differ from the oracle");
+      }
+    } finally {
+      pool.shutdownNow();
+    }
+  }
 }
