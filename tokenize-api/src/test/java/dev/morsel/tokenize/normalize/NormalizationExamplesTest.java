@@ -154,6 +154,17 @@ class NormalizationExamplesTest {
   }
 
   @Test
+  void controlBetweenLetterAndMarkFoldsIntoTheComposedChunk() {
+    // dropping runs before the form (documented order), so e + U+0301 compose to U+00E9 across it
+    Normalization n = Normalization.builder().form(Form.NFC).dropControls(true).build();
+    NormalizedText nt = n.apply("Cafe\u0007\u0301 Nord");
+    assertEquals("Caf\u00E9 Nord", nt.text());
+    assertEquals(3, nt.originalStart(3));
+    assertEquals(6, nt.originalEnd(3));
+    assertEquals(6, nt.originalStart(4));
+  }
+
+  @Test
   void collapsedSpacesMapToTheWholeRun() {
     // PropList.txt: 00A0 and 3000 are White_Space; 2028 is a line separator and is kept
     Normalization n = Normalization.builder().collapseSpaces(true).build();
