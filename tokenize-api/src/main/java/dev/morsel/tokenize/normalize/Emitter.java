@@ -55,7 +55,8 @@ final class Emitter {
   /** {@code src[a, b)} becomes {@code repl} (possibly empty); every output char maps to [a, b). */
   void changed(CharSequence repl, int a, int b) {
     open(a, b);
-    chunks.add(sb.length(), a, false);
+    // one char for one char maps the same either way; flagged one-to-one it merges with neighbours
+    chunks.add(sb.length(), a, repl.length() == 1 && b - a == 1);
     sb.append(repl);
   }
 

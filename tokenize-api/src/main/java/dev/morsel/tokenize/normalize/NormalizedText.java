@@ -10,8 +10,9 @@ package dev.morsel.tokenize.normalize;
  *   <li>{@code originalStart} and {@code originalEnd} are non-decreasing in {@code i} and lie
  *       inside {@code [rangeStart(), rangeEnd()]};</li>
  *   <li>no span starts or ends inside a surrogate pair of the original;</li>
- *   <li>text is aligned chunk by chunk: in a chunk that normalization left alone (or changed char
- *       for char, as case folding of ASCII or the U+FFFD replacement of a lone surrogate), char
+ *   <li>text is aligned chunk by chunk: in a chunk that normalization left alone (or changed one char
+ *       for one char, as case folding of {@code Å} to {@code å} or the U+FFFD replacement of a lone
+ *       surrogate), char
  *       {@code i} maps to its own original code point; in a chunk that changed otherwise, every
  *       normalized char maps to the whole original chunk. So an expansion like U+FB01 to
  *       {@code "fi"} maps both chars to the one source char: spans may coincide, never cross;</li>

@@ -57,6 +57,11 @@ class NormalizationExamplesTest {
     assertEquals(10, nt.originalStart(12)); // é maps to "e\u0301"
     assertEquals(12, nt.originalEnd(12));
     assertEquals(msg.length(), nt.spanStart(nt.length()));
+    // the tokens of docs/normalization.md: "(1)" = [5, 8) -> [5, 6); "café" = [9, 13) -> [7, 12)
+    assertEquals(5, nt.spanStart(5));
+    assertEquals(6, nt.spanEnd(8));
+    assertEquals(7, nt.spanStart(9));
+    assertEquals(12, nt.spanEnd(13));
   }
 
   @Test
@@ -149,6 +154,17 @@ class NormalizationExamplesTest {
   }
 
   @Test
+  void controlBetweenLetterAndMarkFoldsIntoTheComposedChunk() {
+    // dropping runs before the form (documented order), so e + U+0301 compose to U+00E9 across it
+    Normalization n = Normalization.builder().form(Form.NFC).dropControls(true).build();
+    NormalizedText nt = n.apply("Cafe\u0007\u0301 Nord");
+    assertEquals("Caf\u00E9 Nord", nt.text());
+    assertEquals(3, nt.originalStart(3));
+    assertEquals(6, nt.originalEnd(3));
+    assertEquals(6, nt.originalStart(4));
+  }
+
+  @Test
   void collapsedSpacesMapToTheWholeRun() {
     // PropList.txt: 00A0 and 3000 are White_Space; 2028 is a line separator and is kept
     Normalization n = Normalization.builder().collapseSpaces(true).build();
@@ -205,5 +221,50 @@ class NormalizationExamplesTest {
     assertEquals("ferry alesund 1fix", nt.text());
     assertNull(AlignmentChecks.violation(nt, msg, 0, msg.length(), AlignmentPropertyTest.removable(all)));
     assertEquals(1, nt.originalStart(0)); // the leading control is covered by nothing
+  }
+
+  /**
+   * UAX #15 section 13 (Stream-Safe Text Format): after 30 non-starters in a row a U+034F COMBINING
+   * GRAPHEME JOINER is inserted. The expected text is built independently: insert CGJ into the
+   * input by that rule, then normalize the whole string with ICU.
+   */
+  @Test
+  void longRunsOfMarksAreCutTheStreamSafeWay() {
+    StringBuilder sb = new StringBuilder("Ro");
+    for (int i = 0; i < 100; i++) {
+      sb.append(i % 2 == 0 ? '\u0301' : '\u0316'); // ccc 230 and 220 (UnicodeData.txt), so every pair reorders
+    }
+    sb.append("ute 9");
+    String msg = sb.toString();
+    StringBuilder safe = new StringBuilder();
+    int run = 0;
+    for (int i = 0; i < msg.length(); i++) {
+      char c = msg.charAt(i);
+      if (com.ibm.icu.lang.UCharacter.getCombiningClass(c) != 0) {
+        if (run == 30) {
+          safe.append('\u034F');
+          run = 0;
+        }
+        run++;
+      } else {
+        run = 0;
+      }
+      safe.append(c);
+    }
+    String expectedSafe = safe.toString();
+    for (Form f : new Form[] {Form.NFC, Form.NFD, Form.NFKC, Form.NFKD}) {
+      NormalizedText nt = Normalization.of(f).apply(msg);
+      com.ibm.icu.text.Normalizer2 icu = f == Form.NFC ? com.ibm.icu.text.Normalizer2.getNFCInstance()
+          : f == Form.NFD ? com.ibm.icu.text.Normalizer2.getNFDInstance()
+          : f == Form.NFKC ? com.ibm.icu.text.Normalizer2.getNFKCInstance()
+          : com.ibm.icu.text.Normalizer2.getNFKDInstance();
+      assertEquals(icu.normalize(expectedSafe), nt.text(), f.toString());
+      assertTrue(icu.isNormalized(nt.text()), f + " output is normalized");
+      assertNull(AlignmentChecks.violation(nt, msg, 0, msg.length(), cp -> false), f.toString());
+    }
+    Normalization strip = Normalization.builder().form(Form.NFC).stripAccents(true).build();
+    NormalizedText stripped = strip.apply(msg);
+    assertEquals("Route 9", stripped.text()); // every mark is Mn, so no joiner is left either
+    assertNull(AlignmentChecks.violation(stripped, msg, 0, msg.length(), AlignmentPropertyTest.removable(strip)));
   }
 }
