@@ -37,8 +37,40 @@ class WordPieceTrainerTest {
   }
 
   @Test
-  void firstMergesMatchTheScoresComputedByHand() {
-    // Score count(ab) / (count(a) * count(b)) // common practice: likelihood-based WordPiece training [1].
+  void firstMergesMatchTheGainsComputedByHand() {
+    // Gain count(ab) * ln(count(ab) * N / (count(a) * count(b))), N the total unit count: the change
+    // of the unigram log-likelihood of the merged positions, probabilities held at their current
+    // estimates (derivation in the WordPieceTrainer class notes; Schuster & Nakajima 2012 [1]).
+    // Worked by hand (natural logs to 3 places).
+    // Corpus: ferry x5, fare x3, pier x2. Unit counts: f 8, p 2, ∘e 10, ∘r 15, ∘y 5, ∘a 3, ∘i 2;
+    // N = 5*5 + 3*4 + 2*4 = 45.
+    //   (f,∘e)  5 ln(5*45/(8*10)) = 5 ln 2.8125 = 5.170    (∘e,∘r) 7 ln(7*45/(10*15)) = 7 ln 2.1 = 5.194
+    //   (∘r,∘r) 5 ln(5*45/(15*15)) = 5 ln 1   = 0          (∘r,∘y) 5 ln(5*45/(15*5)) = 5 ln 3   = 5.493
+    //   (f,∘a)  3 ln(3*45/(8*3))  = 3 ln 5.625 = 5.182     (∘a,∘r) 3 ln(3*45/(3*15)) = 3 ln 3   = 3.296
+    //   (∘r,∘e) 3 ln(3*45/(15*10)) = 3 ln 0.9 = -0.316     (p,∘i)  2 ln(2*45/(2*2))  = 2 ln 22.5 = 6.227
+    //   (∘i,∘e) 2 ln(2*45/(2*10)) = 2 ln 4.5 = 3.008
+    // 1st merge: (p,∘i) -> "pi" (6.227). Now p 0, ∘i 0, pi 2, N = 43 (every gain is re-evaluated):
+    //   (∘r,∘y) 5 ln(5*43/75) = 5.266   (f,∘a) 3 ln(3*43/24) = 5.045   (f,∘e) 5 ln(5*43/80) = 4.943
+    //   (∘e,∘r) 7 ln(7*43/150) = 4.875  (pi,∘e) 2 ln(2*43/20) = 2.917  (the rest lower)
+    // 2nd: (∘r,∘y) -> "∘ry" (5.266). Now ∘r 10, ∘y 0, ∘ry 5, N = 38; ferry = f ∘e ∘r ∘ry:
+    //   (∘e,∘r) 7 ln(7*38/(10*10)) = 7 ln 2.66 = 6.848   (∘r,∘ry) 5 ln(5*38/(10*5)) = 5 ln 3.8 = 6.675
+    //   (f,∘a) 3 ln(3*38/24) = 4.674   (f,∘e) 5 ln(5*38/80) = 4.325   (∘a,∘r) 3 ln(3*38/30) = 4.005
+    // 3rd: (∘e,∘r) -> "∘er" (6.848).
+    WordPieceSegmenter s = WordPieceTrainer.builder().vocabularySize(1 + 7 + 3).build().train(ferryCorpus());
+    List<String> t = s.tokens();
+    assertEquals(11, t.size());
+    assertEquals(UNK, t.get(0));
+    // alphabet by count: ∘r 15, ∘e 10, f 8, ∘y 5, ∘a 3, then i and p (2 each) by code point
+    assertEquals(List.of(M + "r", M + "e", "f", M + "y", M + "a", M + "i", "p"), t.subList(1, 8));
+    assertEquals(List.of("pi", M + "ry", M + "er"), t.subList(8, 11));
+    // the trained vocabulary encodes its corpus: greedy longest match f | ∘er | ∘ry
+    assertArrayEquals(new int[] {s.id("f"), s.id(M + "er"), s.id(M + "ry")},
+        TestSupport.segmentOne(s, "ferry", 0, 5).ids.toIntArray());
+  }
+
+  @Test
+  void pairRatioScoreKeepsItsHandWorkedMerges() {
+    // Score count(ab) / (count(a) * count(b)), the optional PAIR_RATIO ranking.
     // Corpus: ferry x5, fare x3, pier x2. Unit counts: f 8, p 2, ∘e 10, ∘r 15, ∘y 5, ∘a 3, ∘i 2.
     // Pair counts and scores:
     //   (f,∘e) 5/(8*10)=0.0625  (∘e,∘r) 7/(10*15)=0.047  (∘r,∘r) 5/(15*15)=0.022  (∘r,∘y) 5/(15*5)=0.067
@@ -47,16 +79,26 @@ class WordPieceTrainerTest {
     // 1st merge: (p,∘i) -> "pi" (0.5).
     // 2nd: (pi,∘e) is now 2/(2*10)=0.1; best is (f,∘a) -> "fa" (0.125).
     // 3rd: f now counts 5: (f,∘e)=5/(5*10)=0.1 ties (pi,∘e)=0.1; higher pair count wins -> "fe".
-    WordPieceSegmenter s = WordPieceTrainer.builder().vocabularySize(1 + 7 + 3).build().train(ferryCorpus());
-    List<String> t = s.tokens();
-    assertEquals(11, t.size());
-    assertEquals(UNK, t.get(0));
-    // alphabet by count: ∘r 15, ∘e 10, f 8, ∘y 5, ∘a 3, then i and p (2 each) by code point
-    assertEquals(List.of(M + "r", M + "e", "f", M + "y", M + "a", M + "i", "p"), t.subList(1, 8));
-    assertEquals(List.of("pi", "fa", "fe"), t.subList(8, 11));
-    // the trained vocabulary encodes its corpus
+    WordPieceSegmenter s = WordPieceTrainer.builder().score(WordPieceTrainer.Score.PAIR_RATIO)
+        .vocabularySize(1 + 7 + 3).build().train(ferryCorpus());
+    assertEquals(List.of("pi", "fa", "fe"), s.tokens().subList(8, 11));
     assertArrayEquals(new int[] {s.id("fe"), s.id(M + "r"), s.id(M + "r"), s.id(M + "y")},
         TestSupport.segmentOne(s, "ferry", 0, 5).ids.toIntArray());
+  }
+
+  @Test
+  void minPairCountFloorsMergesAndStopsEarly() {
+    // With a floor of 3 the (p,∘i) pair (count 2) is never merged, although it has the best gain
+    // (6.227, see the hand-worked example); merging stops when no pair of count >= 3 is left,
+    // well before the asked 100 tokens.
+    WordPieceSegmenter s = WordPieceTrainer.builder().minPairCount(3).vocabularySize(100).build().train(ferryCorpus());
+    assertEquals(-1, s.tokens().indexOf("pi"));
+    assertTrue(s.vocabularySize() < 100, "size " + s.vocabularySize());
+    // by hand: counts >= 3 only ever occur inside ferry (x5) and fare (x3), so both become single tokens
+    assertEquals(1, TestSupport.segmentOne(s, "ferry", 0, 5).ids.size(), s.tokens().toString());
+    assertEquals(1, TestSupport.segmentOne(s, "fare", 0, 4).ids.size(), s.tokens().toString());
+    assertEquals(2, WordPieceTrainer.builder().minPairCount(2).build().minPairCount());
+    assertEquals(WordPieceTrainer.Score.LIKELIHOOD_GAIN, WordPieceTrainer.builder().build().score());
   }
 
   @Test
@@ -102,6 +144,10 @@ class WordPieceTrainerTest {
     assertThrows(IllegalArgumentException.class, () -> WordPieceTrainer.builder().vocabularySize(1));
     assertThrows(IllegalArgumentException.class, () -> WordPieceTrainer.builder().minCount(0));
     assertThrows(IllegalArgumentException.class, () -> WordPieceTrainer.builder().maxAlphabet(0));
+    IllegalArgumentException floor = assertThrows(IllegalArgumentException.class,
+        () -> WordPieceTrainer.builder().minPairCount(0));
+    assertTrue(floor.getMessage().contains("minPairCount=0"), floor.getMessage());
+    assertThrows(NullPointerException.class, () -> WordPieceTrainer.builder().score(null));
     assertThrows(IllegalArgumentException.class, () -> WordPieceTrainer.builder().controlTokens(List.of("a", "a")));
     assertThrows(IllegalArgumentException.class, () -> WordPieceTrainer.builder().controlTokens(List.of(UNK)).build());
   }
@@ -132,7 +178,7 @@ class WordPieceTrainerTest {
   // ------------------------------------------------------------------ textbook oracle
 
   static LongStream seeds() {
-    return LongStream.range(0, 60).map(i -> 0xFE77L * 31 + i);
+    return LongStream.range(0, 120).map(i -> 0xFE77L * 31 + i);
   }
 
   @ParameterizedTest
@@ -152,10 +198,14 @@ class WordPieceTrainerTest {
     }
     List<String> controls = rnd.nextBoolean() ? List.of() : List.of("lifejacket");
     int extra = rnd.nextInt(60);
-    List<String> expected = textbook(corpus, controls, extra);
-    WordPieceSegmenter s = WordPieceTrainer.builder().controlTokens(controls)
+    boolean gain = rnd.nextInt(4) != 0;
+    long floor = rnd.nextInt(3) == 0 ? 1 + rnd.nextInt(6) : 1;
+    List<String> expected = textbook(corpus, controls, extra, gain, floor);
+    WordPieceSegmenter s = WordPieceTrainer.builder().controlTokens(controls).minPairCount(floor)
+        .score(gain ? WordPieceTrainer.Score.LIKELIHOOD_GAIN : WordPieceTrainer.Score.PAIR_RATIO)
         .vocabularySize(Math.max(2, alphabetEnd(corpus, controls) + extra)).build().train(PieceCounts.of(corpus));
-    assertEquals(expected, s.tokens(), "seed " + seed + " corpus " + corpus + " extra " + extra);
+    assertEquals(expected, s.tokens(), "seed " + seed + " corpus " + corpus + " extra " + extra + " gain " + gain
+        + " floor " + floor);
   }
 
   private static int alphabetEnd(Map<String, Long> corpus, List<String> controls) {
@@ -169,11 +219,15 @@ class WordPieceTrainerTest {
   }
 
   /**
-   * Textbook likelihood-based WordPiece training [1] (// common practice: score
-   * count(ab)/(count(a)count(b))), recounting everything before every merge; tie-break as documented:
-   * higher score, then higher pair count, then smaller left spelling, then smaller right spelling.
+   * Textbook likelihood-based WordPiece training [1], recounting everything before every merge.
+   * Gain rule, written from its definition: the unigram log-likelihood of the merged positions
+   * before minus after, k ln(k/N) - k ln(ca/N) - k ln(cb/N), summed as four separate logs (not the
+   * implementation's single ratio), scores within 1e-9 relative counting as equal. Ratio rule:
+   * count(ab)/(count(a)count(b)). Pairs counted below {@code floor} are skipped. Tie-break as
+   * documented: higher score, then higher pair count, then smaller left spelling, then smaller right.
    */
-  private static List<String> textbook(Map<String, Long> corpus, List<String> controls, int extra) {
+  private static List<String> textbook(Map<String, Long> corpus, List<String> controls, int extra, boolean gain,
+      long floor) {
     // alphabet: characters by total count desc, then code point; word-initial form first
     Map<Character, Long> freq = new HashMap<>();
     corpus.forEach((p, c) -> {
@@ -226,15 +280,29 @@ class WordPieceTrainerTest {
           }
         }
       }
+      long total = 0;
+      for (long c : unitCount.values()) {
+        total += c;
+      }
       List<String> best = null;
       double bestScore = -1;
       long bestCount = -1;
       for (Map.Entry<List<String>, Long> e : pairCount.entrySet()) {
         List<String> pr = e.getKey();
         long cab = e.getValue();
-        double sc = (double) cab / ((double) unitCount.get(pr.get(0)) * (double) unitCount.get(pr.get(1)));
-        boolean better = best == null || sc > bestScore
-            || (sc == bestScore && (cab > bestCount
+        if (cab < floor) {
+          continue;
+        }
+        double ca = unitCount.get(pr.get(0));
+        double cb = unitCount.get(pr.get(1));
+        double n = total;
+        double sc = gain
+            ? cab * Math.log(cab / n) - cab * Math.log(ca / n) - cab * Math.log(cb / n)
+            : cab / (ca * cb);
+        boolean tie = best != null && (gain ? Math.abs(sc - bestScore) <= 1e-9 * Math.max(1, Math.abs(sc))
+            : sc == bestScore);
+        boolean better = best == null || (!tie && sc > bestScore)
+            || (tie && (cab > bestCount
             || (cab == bestCount && (pr.get(0).compareTo(best.get(0)) < 0
             || (pr.get(0).equals(best.get(0)) && pr.get(1).compareTo(best.get(1)) < 0)))));
         if (better) {
