@@ -92,7 +92,17 @@ public final class Tokenizers {
     return p;
   }
 
-  private static Tokenizer build(ModelSections sections) {
+  /**
+   * Reads only the segmenter of a validated model file (for example to change its own settings, such
+   * as a cache size, before assembling a tokenizer with {@link #of(Pipeline, Segmenter)}).
+   *
+   * @throws ModelFormatException if the kind is unknown or the segmenter's sections are malformed
+   */
+  public static Segmenter segmenterOf(ModelSections sections) {
+    return provider(sections).read(sections);
+  }
+
+  private static SegmenterProvider provider(ModelSections sections) {
     SectionReader k = sections.reader(PipelineTokenizer.KIND);
     String kind = k.getString("segmenter kind");
     k.expectEnd();
@@ -101,6 +111,11 @@ public final class Tokenizers {
       throw new ModelFormatException(PipelineTokenizer.KIND, "no segmenter of kind '" + kind
           + "' is on the class path (found: " + providers().keySet() + "); add the module that provides it");
     }
+    return provider;
+  }
+
+  private static Tokenizer build(ModelSections sections) {
+    SegmenterProvider provider = provider(sections);
     SectionReader p = sections.reader(PipelineTokenizer.PIPE);
     Pipeline pipeline;
     String normSpec = p.getString("normalization");

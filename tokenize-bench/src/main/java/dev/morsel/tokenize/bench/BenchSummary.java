@@ -67,6 +67,11 @@ public final class BenchSummary {
     f.add(new Figure("wordpiece_naive", wp + ".naive1m", 1 << 20));
     f.add(new Figure("wordpiece_naive_1m_s", wp + ".naive1m", 0));
     f.add(new Figure("wordpiece_naive_100k_s", wp + ".naive100k", 0));
+    String uni = UnigramBenchmarks.class.getName();
+    f.add(new Figure("unigram_encode", uni + ".encode", corpus));
+    f.add(new Figure("unigram_prose_1m_s", uni + ".prose1m", 0));
+    f.add(new Figure("unigram_adversarial_1m_s", uni + ".adversarial1m", 0));
+    f.add(new Figure("unigram_adversarial_100k_s", uni + ".adversarial100k", 0));
     String train = TrainingBenchmarks.class.getName();
     f.add(new Figure("count_pieces_s", train + ".countPieces", 0));
     f.add(new Figure("bpe_train_32k_s", train + ".trainBpe32k", 0));
@@ -89,6 +94,9 @@ public final class BenchSummary {
     r.put("wordpiece_adversarial_vs_prose", new String[] {"wordpiece_adversarial_1m_s", "wordpiece_prose_1m_s"});
     r.put("wordpiece_naive_adversarial_scale", new String[] {"wordpiece_naive_1m_s", "wordpiece_naive_100k_s"});
     r.put("wordpiece_nearmiss_naive_vs_linmaxmatch", new String[] {"wordpiece_naive_1m_s", "wordpiece_nearmiss_1m_s"});
+    r.put("unigram_vs_split", new String[] {"unigram_encode", "split"});
+    r.put("unigram_adversarial_scale", new String[] {"unigram_adversarial_1m_s", "unigram_adversarial_100k_s"});
+    r.put("unigram_adversarial_vs_prose", new String[] {"unigram_adversarial_1m_s", "unigram_prose_1m_s"});
     r.put("bpe_train_vs_count", new String[] {"bpe_train_32k_s", "count_pieces_s"});
     return r;
   }
@@ -123,6 +131,7 @@ public final class BenchSummary {
     Map<String, Double> secondsByBenchmark = new LinkedHashMap<>();
     Models.bpeFile(); // train the benchmark models once, before any fork needs them
     Models.wordpieceFile();
+    Models.unigramFile();
     for (Figure f : figures()) {
       if (!f.name().matches(only)) {
         continue;

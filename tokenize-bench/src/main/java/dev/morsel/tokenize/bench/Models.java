@@ -12,6 +12,8 @@ import dev.morsel.tokenize.normalize.Normalization;
 import dev.morsel.tokenize.split.Splitting;
 import dev.morsel.tokenize.train.PieceCounter;
 import dev.morsel.tokenize.train.PieceCounts;
+import dev.morsel.tokenize.unigram.UnigramModel;
+import dev.morsel.tokenize.unigram.UnigramTrainer;
 import dev.morsel.tokenize.wordpiece.WordPieceSegmenter;
 import dev.morsel.tokenize.wordpiece.WordPieceTrainer;
 import java.io.IOException;
@@ -33,6 +35,8 @@ public final class Models {
   public static final int BPE_SIZE = 32_000;
   /** WordPiece vocabulary size. */
   public static final int WORDPIECE_SIZE = 30_000;
+  /** Unigram vocabulary size. */
+  public static final int UNIGRAM_SIZE = 32_000;
 
   private static volatile PieceCounts counts;
 
@@ -97,6 +101,33 @@ public final class Models {
   /** The 30k WordPiece segmenter itself. */
   public static WordPieceSegmenter wordpieceSegmenter() {
     return WordPieceSegmenter.read(ModelFile.read(wordpieceFile()));
+  }
+
+  /** The 32k unigram model file (byte fallback on), trained on first use. */
+  public static Path unigramFile() {
+    return cached("unigram-32k.morsel", () -> {
+      long t0 = System.nanoTime();
+      UnigramModel s = UnigramTrainer.builder().vocabularySize(UNIGRAM_SIZE).byteFallback(true).build().train(counts());
+      System.err.printf(java.util.Locale.ROOT, "trained unigram %d in %.1f s, peak heap %d MB%n", UNIGRAM_SIZE,
+          (System.nanoTime() - t0) / 1e9, peakHeapBytes() >> 20);
+      return Tokenizers.of(pipeline(), s);
+    });
+  }
+
+  /** The 32k unigram segmenter itself. */
+  public static UnigramModel unigramSegmenter() {
+    return (UnigramModel) Tokenizers.segmenterOf(ModelFile.read(unigramFile()));
+  }
+
+  /** The sum of the heap memory pools' peak usage since the JVM started, in bytes. */
+  static long peakHeapBytes() {
+    long sum = 0;
+    for (java.lang.management.MemoryPoolMXBean p : java.lang.management.ManagementFactory.getMemoryPoolMXBeans()) {
+      if (p.getType() == java.lang.management.MemoryType.HEAP && p.getPeakUsage() != null) {
+        sum += p.getPeakUsage().getUsed();
+      }
+    }
+    return sum;
   }
 
   /** A tokenizer with the given pipeline and segmenter and no control tokens or framing. */

@@ -97,6 +97,11 @@ final class Report {
     plot.setBackgroundPaint(Color.WHITE);
     plot.setRangeGridlinePaint(Color.LIGHT_GRAY);
     plot.setDomainGridlinePaint(Color.LIGHT_GRAY);
+    org.jfree.chart.axis.NumberAxis range = (org.jfree.chart.axis.NumberAxis) plot.getRangeAxis();
+    range.setAutoRangeIncludesZero(true);
+    if (data.getRangeUpperBound(false) <= 0) {
+      range.setRange(0, 0.01); // all zero (no unknown tokens): show a flat line at 0, not an axis around it
+    }
     return svg(chart);
   }
 
