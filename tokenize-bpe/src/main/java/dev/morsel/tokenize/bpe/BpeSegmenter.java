@@ -316,6 +316,52 @@ public final class BpeSegmenter implements Segmenter {
   }
 
   /**
+   * The merges applied to the piece, in the order the encoder applies them (lowest rank first,
+   * leftmost first among equal ranks), each with its rank, then the resulting tokens. Quadratic in
+   * the piece length: for people, not for the hot path.
+   */
+  @Override
+  public List<String> explain(CharSequence text, int start, int end) {
+    Objects.checkFromToIndex(start, end, text.length());
+    Map<Long, Integer> ranks = new HashMap<>();
+    for (int r = 0; r < vocab.mergeCount(); r++) {
+      ranks.put(((long) vocab.left(r) << 32) | vocab.right(r), r);
+    }
+    int first = vocab.controlCount() + 256;
+    String piece = text.subSequence(start, end).toString().replaceAll("[\\ud800-\\udbff](?![\\udc00-\\udfff])|(?<![\\ud800-\\udbff])[\\udc00-\\udfff]", "\ufffd");
+    java.util.ArrayList<Integer> ids = new java.util.ArrayList<>();
+    for (byte b : piece.getBytes(StandardCharsets.UTF_8)) {
+      ids.add(vocab.controlCount() + (b & 0xFF));
+    }
+    java.util.ArrayList<String> out = new java.util.ArrayList<>();
+    out.add(ids.size() + " byte tokens; merges in order:");
+    while (true) {
+      int best = -1;
+      int bestRank = Integer.MAX_VALUE;
+      for (int i = 0; i + 1 < ids.size(); i++) {
+        Integer r = ranks.get(((long) ids.get(i) << 32) | ids.get(i + 1));
+        if (r != null && r < bestRank) {
+          bestRank = r;
+          best = i;
+        }
+      }
+      if (best < 0) {
+        break;
+      }
+      out.add("rank " + bestRank + ": '" + token(ids.get(best)) + "' + '" + token(ids.get(best + 1)) + "' -> '"
+          + token(first + bestRank) + "'");
+      ids.set(best, first + bestRank);
+      ids.remove(best + 1);
+    }
+    StringBuilder sb = new StringBuilder("no merge applies any more; tokens:");
+    for (int id : ids) {
+      sb.append(" '").append(token(id)).append("'(").append(id).append(')');
+    }
+    out.add(sb.toString());
+    return out;
+  }
+
+  /**
    * As {@link #segment(CharSequence, int, int, TokenSink)} with this segmenter's dropout probability
    * but drawing from {@code random} (plain segmentation if dropout is off).
    */

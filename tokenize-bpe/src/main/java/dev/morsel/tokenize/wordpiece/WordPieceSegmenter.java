@@ -316,6 +316,48 @@ public final class WordPieceSegmenter implements Segmenter {
   }
 
   /**
+   * Greedy longest-match-first, step by step: at each position the longest vocabulary token that
+   * matches (word-initial at the start, continuation after), and how many longer candidates were tried
+   * and backed off from; or why the piece became the unknown token. For people, not for the hot path
+   * (quadratic in the piece length); the result equals {@link #segment}.
+   */
+  @Override
+  public List<String> explain(CharSequence text, int start, int end) {
+    Objects.checkFromToIndex(start, end, text.length());
+    String piece = text.subSequence(start, end).toString();
+    java.util.ArrayList<String> out = new java.util.ArrayList<>();
+    if (piece.length() > settings.maxPieceLength()) {
+      out.add("the piece has " + piece.length() + " chars, over maxPieceLength=" + settings.maxPieceLength()
+          + ": unknown token '" + settings.unknownToken() + "'");
+      return out;
+    }
+    int i = 0;
+    while (i < piece.length()) {
+      int found = -1;
+      int backedOff = 0;
+      for (int len = piece.length() - i; len > 0; len--) {
+        String sub = piece.substring(i, i + len);
+        String spelling = i == 0 ? sub : settings.marker() + sub;
+        int id = id(spelling);
+        if (id >= controlCount && id != unknownId()) {
+          found = len;
+          out.add("at " + i + ": '" + spelling + "' (" + id + ")" + (backedOff > 0 ? ", after backing off from "
+              + backedOff + " longer candidate(s) that are not tokens" : ""));
+          break;
+        }
+        backedOff++;
+      }
+      if (found < 0) {
+        out.add("at " + i + ": no token matches '" + (i == 0 ? "" : settings.marker()) + piece.charAt(i)
+            + "…': the whole piece becomes the unknown token '" + settings.unknownToken() + "'");
+        return out;
+      }
+      i += found;
+    }
+    return out;
+  }
+
+  /**
    * {@inheritDoc}
    *
    * <p>The piece is segmented greedily, longest match first; if it cannot be covered or is longer

@@ -54,6 +54,33 @@ public interface UnigramModel extends Segmenter {
   /** Number of control tokens (ids {@code 0..controlCount()-1}). */
   int controlCount();
 
+  /**
+   * The best segmentation (Viterbi) with each token's log-probability and the total, and the
+   * runner-up segmentation with its total, so a person can see by how much the best one wins.
+   */
+  @Override
+  default List<String> explain(CharSequence text, int start, int end) {
+    List<Segmentation> two = nBest(text, start, end, 2);
+    List<String> out = new java.util.ArrayList<>();
+    String[] names = {"best", "runner-up"};
+    for (int k = 0; k < two.size(); k++) {
+      Segmentation s = two.get(k);
+      StringBuilder sb = new StringBuilder(names[k]).append(String.format(java.util.Locale.ROOT, " (log-probability %.3f):", s.score()));
+      for (int i = 0; i < s.size(); i++) {
+        double sc = score(s.id(i));
+        sb.append(" '").append(token(s.id(i))).append('\'');
+        if (!Double.isNaN(sc)) {
+          sb.append(String.format(java.util.Locale.ROOT, "(%.3f)", sc));
+        }
+      }
+      out.add(sb.toString());
+    }
+    if (two.size() < 2) {
+      out.add("no other segmentation exists");
+    }
+    return out;
+  }
+
   /** The control tokens: ids {@code 0..controlCount()-1} bound to their spellings. */
   @Override
   default dev.morsel.tokenize.ControlTokens controlTokens() {
