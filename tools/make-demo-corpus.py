@@ -22,7 +22,7 @@ ITEMS = {
     "de": ["einen blauen Regenschirm", "meine Lesebrille", "einen Teddybären", "einen schwarzen Rucksack",
            "ein Ladekabel", "einen grünen Schal", "meine Geldbörse", "ein Paar Wanderschuhe", "eine Kameratasche",
            "eine Thermoskanne"],
-    "fr": ["un parapluie bleu", "mes lunettes de lecture", "un ours en peluche", "un sac à dos noir",
+    "fr": ["un parapluie bleu", "mes lunettes de vue", "un ours en peluche", "un sac à dos noir",
            "un chargeur de téléphone", "une écharpe verte", "mon portefeuille", "une paire de chaussures de randonnée",
            "un sac photo", "une bouteille isotherme"],
     "no": ["en blå paraply", "lesebrillene mine", "en kosebamse", "en svart ryggsekk", "en mobillader",

@@ -1,7 +1,7 @@
 /**
  * Segmenters whose vocabularies are learned by merging pairs: byte-level BPE
- * ({@link dev.morsel.tokenize.bpe.BpeTrainer}, {@link dev.morsel.tokenize.bpe.BpeSegmenter}, kind
- * {@code "bpe"}) and WordPiece ({@link dev.morsel.tokenize.wordpiece.WordPieceTrainer},
+ * ({@link dev.morsel.tokenize.bpe.BpeLearner}, {@link dev.morsel.tokenize.bpe.BpeSegmenter}, kind
+ * {@code "bpe"}) and WordPiece ({@link dev.morsel.tokenize.wordpiece.WordPieceLearner},
  * {@link dev.morsel.tokenize.wordpiece.WordPieceSegmenter}, kind {@code "wordpiece"}). Found by the
  * api's loader under their kind names.
  */

@@ -152,7 +152,7 @@ public final class Tokens {
   }
 
   /** 1 for every token that is not padding, 0 for padding: the usual attention mask. */
-  public int[] attentionMask() {
+  public int[] nonPaddingMask() {
     int[] out = new int[flags.length];
     for (int i = 0; i < out.length; i++) {
       out[i] = (flags[i] & PADDING) != 0 ? 0 : 1;
@@ -327,7 +327,7 @@ public final class Tokens {
 
   /**
    * Pads to exactly {@code length} tokens with {@code padId} on the given side; padding has an empty
-   * span at the text's edge and is masked out of {@link #attentionMask()}. Returns {@code this} if
+   * span at the text's edge and is masked out of {@link #nonPaddingMask()}. Returns {@code this} if
    * already long enough (padding never truncates).
    */
   public Tokens pad(int length, int padId, Side side) {

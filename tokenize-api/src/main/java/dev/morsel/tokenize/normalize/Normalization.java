@@ -26,7 +26,7 @@ import java.util.Objects;
  *           it is ICU's NFKC_Casefold mapping, which also removes default-ignorable code points;
  *           with another form it is {@code form(fold(decompose(x)))}; with {@link Form#NONE} it
  *           folds each code point and does nothing else.</li>
- *       <li>{@code strip-accents}: decomposes (NFKD for NFKC/NFKD, NFD otherwise), removes
+ *       <li>{@code remove-marks}: decomposes (NFKD for NFKC/NFKD, NFD otherwise), removes
  *           nonspacing marks (general category Mn), then recomposes if the form is NFC or NFKC.
  *           With {@link Form#NONE} only the chunks that lost a mark are recomposed (NFC); the rest
  *           stays as written.</li>
@@ -41,9 +41,9 @@ import java.util.Objects;
  *
  * <h2>Spec strings</h2>
  * {@link #spec()} is {@code "none"} or the form name in lowercase followed by the options joined
- * with {@code '+'} in the fixed order {@code casefold}, {@code strip-accents},
+ * with {@code '+'} in the fixed order {@code casefold}, {@code remove-marks},
  * {@code drop-controls}, {@code collapse-spaces}; for example
- * {@code "nfkc+casefold+strip-accents+drop-controls+collapse-spaces"} or {@code "none+casefold"}.
+ * {@code "nfkc+casefold+remove-marks+drop-controls+collapse-spaces"} or {@code "none+casefold"}.
  * Two instances are equal when their specs are equal.
  *
  * <h2>Implementation note</h2>
@@ -77,11 +77,11 @@ public final class Normalization {
   // ---- configuration ------------------------------------------------------------------------
 
   private static final String OPT_CASEFOLD = "casefold";
-  private static final String OPT_STRIP = "strip-accents";
+  private static final String OPT_STRIP = "remove-marks";
   private static final String OPT_CONTROLS = "drop-controls";
   private static final String OPT_SPACES = "collapse-spaces";
   private static final String VALID_NAMES =
-      "none, nfc, nfd, nfkc, nfkd, casefold, strip-accents, drop-controls, collapse-spaces";
+      "none, nfc, nfd, nfkc, nfkd, casefold, remove-marks, drop-controls, collapse-spaces";
 
   private static final Normalization NONE = new Normalization(Form.NONE, false, false, false, false);
 
@@ -102,7 +102,7 @@ public final class Normalization {
 
   private final Form form;
   private final boolean caseFold;
-  private final boolean stripAccents;
+  private final boolean removeMarks;
   private final boolean dropControls;
   private final boolean collapseSpaces;
   private final String spec;
@@ -126,18 +126,18 @@ public final class Normalization {
 
   // ---- life-cycle -----------------------------------------------------------------------------
 
-  private Normalization(Form form, boolean caseFold, boolean stripAccents, boolean dropControls,
+  private Normalization(Form form, boolean caseFold, boolean removeMarks, boolean dropControls,
       boolean collapseSpaces) {
     this.form = form;
     this.caseFold = caseFold;
-    this.stripAccents = stripAccents;
+    this.removeMarks = removeMarks;
     this.dropControls = dropControls;
     this.collapseSpaces = collapseSpaces;
     StringBuilder sb = new StringBuilder(form.name().toLowerCase(Locale.ROOT));
     if (caseFold) {
       sb.append('+').append(OPT_CASEFOLD);
     }
-    if (stripAccents) {
+    if (removeMarks) {
       sb.append('+').append(OPT_STRIP);
     }
     if (dropControls) {
@@ -147,7 +147,7 @@ public final class Normalization {
       sb.append('+').append(OPT_SPACES);
     }
     this.spec = sb.toString();
-    this.formStep = form != Form.NONE || caseFold || stripAccents;
+    this.formStep = form != Form.NONE || caseFold || removeMarks;
     this.passThrough = !formStep && !dropControls && !collapseSpaces;
 
     Normalizer2 fn;
@@ -168,14 +168,14 @@ public final class Normalization {
     } else {
       this.composer = null;
     }
-    boolean plain = fn != null && !stripAccents && (!caseFold || form == Form.NFKC);
+    boolean plain = fn != null && !removeMarks && (!caseFold || form == Form.NFKC);
     this.quick = plain ? fn : null;
     this.singlePages = formStep && !plain ? new String[256][] : null;
     if (fn != null) {
       this.bound = fn;
     } else {
-      // NONE: strip-accents recomposes with NFC, so chunk at NFC boundaries; fold alone is per code point
-      this.bound = stripAccents ? Normalizer2.getNFCInstance() : null;
+      // NONE: remove-marks recomposes with NFC, so chunk at NFC boundaries; fold alone is per code point
+      this.bound = removeMarks ? Normalizer2.getNFCInstance() : null;
     }
   }
 
@@ -237,7 +237,7 @@ public final class Normalization {
         seen[opt] = true;
       }
     }
-    return b.caseFold(seen[0]).stripAccents(seen[1]).dropControls(seen[2]).collapseSpaces(seen[3])
+    return b.caseFold(seen[0]).removeMarks(seen[1]).dropControls(seen[2]).collapseSpaces(seen[3])
         .build();
   }
 
@@ -259,8 +259,8 @@ public final class Normalization {
   }
 
   /** Whether nonspacing marks are removed (added accessor). */
-  public boolean stripAccents() {
-    return stripAccents;
+  public boolean removeMarks() {
+    return removeMarks;
   }
 
   /** Whether control characters other than TAB, LF, VT, FF, CR and NEL are removed (added accessor). */
@@ -315,7 +315,7 @@ public final class Normalization {
     if (passThrough && align == null) {
       return NormalizedText.identity(text, start, end);
     }
-    // (3) form, casefold, strip-accents
+    // (3) form, casefold, remove-marks
     if (formStep) {
       em.reset(cur, cs, ce);
       boolean changed = quick != null ? quickStep(em, cur, cs, ce) : slowStep(em, cur, cs, ce);
@@ -450,7 +450,7 @@ public final class Normalization {
   }
 
   /**
-   * Step 3 with fold (other than NFKC) or strip-accents: chunk by chunk; a chunk of one BMP char
+   * Step 3 with fold (other than NFKC) or remove-marks: chunk by chunk; a chunk of one BMP char
    * (most chunks in practice) is looked up in {@link #single}.
    */
   private boolean slowStep(Emitter em, CharSequence s, int from, int to) {
@@ -462,7 +462,7 @@ public final class Normalization {
       if (!cut) {
         int j = asciiEnd(s, i, to);
         if (j > i) {
-          if (j < to && n != null && !n.hasBoundaryBefore(cpAt(s, j, to))) {
+          if (j < to && n != null && !boundaryBefore(cpAt(s, j, to))) {
             j--;
           }
           if (j > i) {
@@ -474,7 +474,7 @@ public final class Normalization {
           }
         }
       }
-      int e = n == null ? i + Character.charCount(cpAt(s, i, to)) : chunkEnd(n, s, i, to);
+      int e = n == null ? i + Character.charCount(cpAt(s, i, to)) : chunkEnd(n, this::boundaryBefore, s, i, to);
       if (e == i + 1 && !cut && !Character.isSurrogate(s.charAt(i))) {
         String o = single(s.charAt(i));
         if (o == SAME) {
@@ -493,7 +493,7 @@ public final class Normalization {
           em.changed(o, i, e);
         }
       }
-      cut = n != null && isCut(n, s, e, to);
+      cut = n != null && e < to && !boundaryBefore(cpAt(s, e, to));
       i = e;
     }
     return em.finish(to);
@@ -536,7 +536,7 @@ public final class Normalization {
     } else if (formNorm != null) {
       t = formNorm.normalize(t);
     }
-    if (stripAccents) {
+    if (removeMarks) {
       String d = decomposer.normalize(t);
       String stripped = removeNonspacingMarks(d);
       if (stripped == null) {
@@ -642,12 +642,16 @@ public final class Normalization {
    * point after {@link #MAX_NON_STARTERS} non-starters in a row (a cut, see {@link #isCut}).
    */
   private static int chunkEnd(Normalizer2 n, CharSequence s, int i, int to) {
+    return chunkEnd(n, n::hasBoundaryBefore, s, i, to);
+  }
+
+  private static int chunkEnd(Normalizer2 n, java.util.function.IntPredicate boundary, CharSequence s, int i, int to) {
     int c = cpAt(s, i, to);
     int e = i + Character.charCount(c);
     int run = n.getCombiningClass(c) != 0 ? 1 : 0;
     while (e < to) {
       c = cpAt(s, e, to);
-      if (n.hasBoundaryBefore(c)) {
+      if (boundary.test(c)) {
         break;
       }
       if (n.getCombiningClass(c) != 0) {
@@ -666,6 +670,40 @@ public final class Normalization {
   /** Whether a chunk ending at {@code e} was cut, i.e. ends where there is no boundary. */
   private static boolean isCut(Normalizer2 n, CharSequence s, int e, int to) {
     return e < to && !n.hasBoundaryBefore(cpAt(s, e, to));
+  }
+
+  /**
+   * Whether a chunk may end before {@code c} in the slow step. With remove-marks, removing marks can
+   * bring starters together that then compose (a Hangul L jamo, a character whose decomposition is
+   * only marks, then a V jamo: the whole-text result composes L and V), so {@code c} starts a new
+   * chunk only if what remains of it after decomposition and mark removal is non-empty and starts
+   * with a character that has a composition boundary before it.
+   */
+  private boolean boundaryBefore(int c) {
+    if (!bound.hasBoundaryBefore(c)) {
+      return false;
+    }
+    if (!removeMarks || c < 0x80) {
+      return true;
+    }
+    String d = decomposer.getDecomposition(c);
+    int first = -1;
+    if (d == null) {
+      first = UCharacter.getType(c) == UCharacterCategory.NON_SPACING_MARK ? -1 : c;
+    } else {
+      for (int k = 0; k < d.length(); ) {
+        int x = d.codePointAt(k);
+        if (UCharacter.getType(x) != UCharacterCategory.NON_SPACING_MARK) {
+          first = x;
+          break;
+        }
+        k += Character.charCount(x);
+      }
+    }
+    if (first < 0) {
+      return false; // nothing remains of c: keep it with the chunk before
+    }
+    return composer == null || composer.hasBoundaryBefore(first);
   }
 
   /** Code point at {@code i}, never reading at or past {@code to}. */
@@ -699,7 +737,7 @@ public final class Normalization {
   public static final class Builder {
     private Form form = Form.NONE;
     private boolean caseFold;
-    private boolean stripAccents;
+    private boolean removeMarks;
     private boolean dropControls;
     private boolean collapseSpaces;
 
@@ -718,8 +756,8 @@ public final class Normalization {
     }
 
     /** Removes nonspacing marks after decomposition (default off). */
-    public Builder stripAccents(boolean on) {
-      this.stripAccents = on;
+    public Builder removeMarks(boolean on) {
+      this.removeMarks = on;
       return this;
     }
 
@@ -737,10 +775,10 @@ public final class Normalization {
 
     /** The immutable settings. */
     public Normalization build() {
-      if (form == Form.NONE && !caseFold && !stripAccents && !dropControls && !collapseSpaces) {
+      if (form == Form.NONE && !caseFold && !removeMarks && !dropControls && !collapseSpaces) {
         return NONE;
       }
-      return new Normalization(form, caseFold, stripAccents, dropControls, collapseSpaces);
+      return new Normalization(form, caseFold, removeMarks, dropControls, collapseSpaces);
     }
   }
 }

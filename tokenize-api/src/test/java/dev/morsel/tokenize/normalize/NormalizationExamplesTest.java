@@ -29,6 +29,26 @@ class NormalizationExamplesTest {
     return r;
   }
 
+  /**
+   * Regression: U+0F76 decomposes (UAX #15, canonical decomposition) into marks only, so removing
+   * marks brought the Hangul L jamo U+1103 and the V jamo U+1169 together, which NFC composes into
+   * U+B3C4; chunking had cut before U+0F76 and left the jamo apart.
+   */
+  @Test
+  void removingMarksThatVanishACharacterStillComposesAcrossIt() {
+    String input = "\u1103\u1ab7\u0f76\u0f71\u1169\u3000";
+    // independent reference: whole-text NFD, drop Mn, NFC with java.text.Normalizer
+    String d = java.text.Normalizer.normalize(input, java.text.Normalizer.Form.NFD).replaceAll("\\p{Mn}", "");
+    String expected = java.text.Normalizer.normalize(d, java.text.Normalizer.Form.NFC);
+    assertEquals("\ub3c4\u3000", expected);
+    for (String spec : new String[] {"nfc+remove-marks", "nfc+casefold+remove-marks+drop-controls", "none+remove-marks"}) {
+      NormalizedText t = Normalization.parse(spec).apply(input);
+      assertEquals(expected, t.text(), spec);
+      assertEquals(0, t.originalStart(0), spec);
+      assertEquals(5, t.originalEnd(0), spec);
+    }
+  }
+
   @Test
   void ligatureExpandsAndBothCharsMapToIt() {
     // UnicodeData.txt: FB01;LATIN SMALL LIGATURE FI;...;<compat> 0066 0069
@@ -180,7 +200,7 @@ class NormalizationExamplesTest {
   @Test
   void strippedAccentsFoldIntoTheirBaseOrVanish() {
     // UnicodeData.txt: 00C5 = 0041 030A; 030A COMBINING RING ABOVE is Mn
-    Normalization n = Normalization.builder().form(Form.NFC).stripAccents(true).build();
+    Normalization n = Normalization.builder().form(Form.NFC).removeMarks(true).build();
     NormalizedText pre = n.apply("\u00C5lesund");
     assertEquals("Alesund", pre.text());
     assertEquals(1, pre.originalEnd(0));
@@ -215,7 +235,7 @@ class NormalizationExamplesTest {
 
   @Test
   void everyStepTogetherKeepsTheContract() {
-    Normalization all = Normalization.parse("nfkc+casefold+strip-accents+drop-controls+collapse-spaces");
+    Normalization all = Normalization.parse("nfkc+casefold+remove-marks+drop-controls+collapse-spaces");
     String msg = "\u0001\uFF26\uFF25\uFF32\uFF32\uFF39\u3000 \u00C5LESUND\u0007\u00A0\u2460\uFB01\u0301x";
     NormalizedText nt = all.apply(msg);
     assertEquals("ferry alesund 1fix", nt.text());
@@ -262,7 +282,7 @@ class NormalizationExamplesTest {
       assertTrue(icu.isNormalized(nt.text()), f + " output is normalized");
       assertNull(AlignmentChecks.violation(nt, msg, 0, msg.length(), cp -> false), f.toString());
     }
-    Normalization strip = Normalization.builder().form(Form.NFC).stripAccents(true).build();
+    Normalization strip = Normalization.builder().form(Form.NFC).removeMarks(true).build();
     NormalizedText stripped = strip.apply(msg);
     assertEquals("Route 9", stripped.text()); // every mark is Mn, so no joiner is left either
     assertNull(AlignmentChecks.violation(stripped, msg, 0, msg.length(), AlignmentPropertyTest.removable(strip)));

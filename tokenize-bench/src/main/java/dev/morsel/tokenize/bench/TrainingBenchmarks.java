@@ -1,6 +1,6 @@
 package dev.morsel.tokenize.bench;
 
-import dev.morsel.tokenize.bpe.BpeTrainer;
+import dev.morsel.tokenize.bpe.BpeLearner;
 import dev.morsel.tokenize.train.PieceCounter;
 import dev.morsel.tokenize.train.PieceCounts;
 import java.util.List;
@@ -49,6 +49,6 @@ public class TrainingBenchmarks {
   /** {@code bpe_train_32k_s}: learn a 32k BPE vocabulary from the counts. */
   @Benchmark
   public Object trainBpe32k() {
-    return BpeTrainer.builder().vocabularySize(Models.BPE_SIZE).build().train(counts);
+    return BpeLearner.builder().vocabularySize(Models.BPE_SIZE).build().train(counts);
   }
 }

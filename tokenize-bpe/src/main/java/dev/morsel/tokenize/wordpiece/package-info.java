@@ -4,7 +4,7 @@
  * likelihood-based trainer that learns the vocabulary by merging pairs.
  *
  * <p>Entry points: {@link dev.morsel.tokenize.wordpiece.WordPieceSegmenter} (load or build a
- * vocabulary), {@link dev.morsel.tokenize.wordpiece.WordPieceTrainer} (learn one) and
+ * vocabulary), {@link dev.morsel.tokenize.wordpiece.WordPieceLearner} (learn one) and
  * {@link dev.morsel.tokenize.wordpiece.WordPieceSettings} (marker, unknown token, piece limit).
  */
 package dev.morsel.tokenize.wordpiece;

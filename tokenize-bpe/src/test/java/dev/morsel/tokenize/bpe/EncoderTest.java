@@ -38,7 +38,7 @@ class EncoderTest {
       corpus.add(randomText(rnd, 30));
     }
     corpus.add("ferry");
-    return BpeTrainer.builder().vocabularySize(256 + 20 + rnd.nextInt(200)).minPairCount(1).threads(1).build()
+    return BpeLearner.builder().vocabularySize(256 + 20 + rnd.nextInt(200)).minPairCount(1).threads(1).build()
         .train(Fixtures.countPieces(corpus));
   }
 

@@ -61,7 +61,7 @@ final class Fixtures {
   /** A 2,000-id vocabulary trained on the pieces of the first 2,000 Europarl bodies (cached per JVM). */
   static synchronized BpeSegmenter europarlModel() {
     if (europarlModel == null) {
-      europarlModel = BpeTrainer.builder().vocabularySize(2000).minPairCount(2).threads(2).build()
+      europarlModel = BpeLearner.builder().vocabularySize(2000).minPairCount(2).threads(2).build()
           .train(countPieces(europarlBodies().subList(0, 2000)));
     }
     return europarlModel;

@@ -24,7 +24,7 @@ class ModelFormatTest {
   private static final List<String> CONTROLS = List.of("«dock»", "«sail»");
 
   private static BpeSegmenter withControls() {
-    return BpeTrainer.builder().vocabularySize(2 + 256 + 300).controlTokens(CONTROLS).threads(1).build()
+    return BpeLearner.builder().vocabularySize(2 + 256 + 300).controlTokens(CONTROLS).threads(1).build()
         .train(Fixtures.countPieces(Fixtures.europarlBodies().subList(0, 300)));
   }
 

@@ -27,7 +27,7 @@ class EuroparlTest {
     // documented size of the sample: 17,597 lines
     assertEquals(17_597, bodies.size());
     PieceCounts counts = PieceCounts.of(TestSupport.countPieces(bodies.subList(0, 2000)));
-    model = WordPieceTrainer.builder().vocabularySize(3000).maxAlphabet(300).build().train(counts);
+    model = WordPieceLearner.builder().vocabularySize(3000).maxAlphabet(300).build().train(counts);
   }
 
   @Test

@@ -6,12 +6,12 @@ import dev.morsel.tokenize.Template;
 import dev.morsel.tokenize.Tokenizer;
 import dev.morsel.tokenize.Tokenizers;
 import dev.morsel.tokenize.bpe.BpeSegmenter;
-import dev.morsel.tokenize.bpe.BpeTrainer;
+import dev.morsel.tokenize.bpe.BpeLearner;
 import dev.morsel.tokenize.train.PieceCounts;
 import dev.morsel.tokenize.unigram.UnigramModel;
-import dev.morsel.tokenize.unigram.UnigramTrainer;
+import dev.morsel.tokenize.unigram.UnigramLearner;
 import dev.morsel.tokenize.wordpiece.WordPieceSegmenter;
-import dev.morsel.tokenize.wordpiece.WordPieceTrainer;
+import dev.morsel.tokenize.wordpiece.WordPieceLearner;
 import dev.morsel.tokenize.train.TrainingListener;
 import java.util.List;
 
@@ -34,17 +34,17 @@ final class Schemes {
     check(scheme);
     switch (scheme) {
       case "bpe": {
-        BpeSegmenter s = BpeTrainer.builder().vocabularySize(vocabularySize).controlTokens(controls).threads(threads)
+        BpeSegmenter s = BpeLearner.builder().vocabularySize(vocabularySize).controlTokens(controls).threads(threads)
             .listener(listener).build().train(counts);
         return Tokenizers.of(pipeline, s, s.controlTokens(), Template.none());
       }
       case "wordpiece": {
-        WordPieceSegmenter s = WordPieceTrainer.builder().vocabularySize(vocabularySize).controlTokens(controls)
+        WordPieceSegmenter s = WordPieceLearner.builder().vocabularySize(vocabularySize).controlTokens(controls)
             .listener(listener).build().train(counts);
         return Tokenizers.of(pipeline, s, s.controlTokens(), Template.none());
       }
       case "unigram": {
-        UnigramModel s = UnigramTrainer.builder().vocabularySize(vocabularySize).controlTokens(controls).byteFallback(true)
+        UnigramModel s = UnigramLearner.builder().vocabularySize(vocabularySize).controlTokens(controls).rawBytes(true)
             .threads(threads).listener(listener).build().train(counts);
         return Tokenizers.of(pipeline, s, s.controlTokens(), Template.none());
       }

@@ -10,7 +10,7 @@ import dev.morsel.tokenize.Tokenizers;
 import dev.morsel.tokenize.Tokens;
 import dev.morsel.tokenize.Trust;
 import dev.morsel.tokenize.bpe.BpeSegmenter;
-import dev.morsel.tokenize.bpe.BpeTrainer;
+import dev.morsel.tokenize.bpe.BpeLearner;
 import dev.morsel.tokenize.train.PieceCounter;
 import dev.morsel.tokenize.train.PieceCounts;
 import java.io.InputStream;
@@ -43,7 +43,7 @@ class ReadmeExampleTest {
     PieceCounts counts = PieceCounter.builder().pipeline(pipeline).build().countFiles(List.of(corpus));
 
     // Train byte-level BPE with one control token of your own spelling, and save the model.
-    BpeSegmenter bpe = BpeTrainer.builder().vocabularySize(2000).controlTokens(List.of("⟨agent⟩"))
+    BpeSegmenter bpe = BpeLearner.builder().vocabularySize(2000).controlTokens(List.of("⟨agent⟩"))
         .build().train(counts);
     Tokenizer tokenizer = Tokenizers.of(pipeline, bpe);
     tokenizer.save(modelFile);

@@ -40,15 +40,15 @@ public interface UnigramModel extends Segmenter {
    * scores {@code min(0, lowest piece score) - 10} (a penalty below every piece).
    *
    * @param controlTokens reserved control tokens (ids 0..k-1), distinct and non-empty
-   * @param byteFallback whether uncovered characters become byte tokens instead of the unknown token
+   * @param rawBytes whether uncovered characters become byte tokens instead of the unknown token
    * @param unknownToken spelling of the unknown token
    * @param pieces the pieces: non-empty, distinct, well-formed UTF-16, at most {@link #MAX_PIECE_LENGTH} units
    * @param scores their log-probabilities, finite
    * @throws IllegalArgumentException naming the entry that is wrong
    */
-  static UnigramModel of(List<String> controlTokens, boolean byteFallback, String unknownToken, List<String> pieces,
+  static UnigramModel of(List<String> controlTokens, boolean rawBytes, String unknownToken, List<String> pieces,
       double[] scores) {
-    return UnigramSegmenter.create(controlTokens, byteFallback, unknownToken, pieces, scores);
+    return UnigramSegmenter.create(controlTokens, rawBytes, unknownToken, pieces, scores);
   }
 
   /** Number of control tokens (ids {@code 0..controlCount()-1}). */
@@ -92,7 +92,7 @@ public interface UnigramModel extends Segmenter {
   }
 
   /** Whether uncovered characters become byte tokens. */
-  boolean byteFallback();
+  boolean rawBytes();
 
   /** The id of the first byte token (byte {@code b} is {@code firstByteId() + b}), or -1 without byte fallback. */
   int firstByteId();

@@ -66,13 +66,13 @@ class AdversarialTest {
   }
 
   @Test
-  void oneMebibytePieceEncodesLosslesslyWithByteFallback() {
+  void oneMebibytePieceEncodesLosslesslyWithRawBytes() {
     String text = adversarial(1);
     checkLossless(ferryModel(true), text, false);
   }
 
   @Test
-  void oneMebibytePieceSamplesLosslesslyWithByteFallback() {
+  void oneMebibytePieceSamplesLosslesslyWithRawBytes() {
     checkLossless(ferryModel(true), adversarial(2), true);
   }
 
@@ -82,7 +82,7 @@ class AdversarialTest {
   }
 
   @Test
-  void uncoveredCharactersBecomeOneUnknownTokenEachWithoutByteFallback() {
+  void uncoveredCharactersBecomeOneUnknownTokenEachWithoutRawBytes() {
     UnigramModel m = ferryModel(false);
     String text = "boat\uD83D\uDEA2x\u26f4";
     IntArrayList ids = new IntArrayList();

@@ -118,7 +118,7 @@ class SamplingTest {
   }
 
   @Test
-  void byteFallbackSamplesCoverTheText() {
+  void rawBytesSamplesCoverTheText() {
     Map<String, Double> vocab = new LinkedHashMap<>();
     vocab.put("d", -1.0);
     vocab.put("o", -1.0);

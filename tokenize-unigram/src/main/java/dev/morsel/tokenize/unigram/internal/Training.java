@@ -32,7 +32,7 @@ public final class Training {
   private final int maxTokenLength;
   private final double shrinkFactor;
   private final int emIterations;
-  private final boolean byteFallback;
+  private final boolean rawBytes;
   private final List<String> controls;
   private final String unknown;
   private final int threads;
@@ -41,14 +41,14 @@ public final class Training {
 
   /** All settings already validated by the public builder. */
   public Training(int vocabularySize, int seedFactor, int maxTokenLength, double shrinkFactor, int emIterations,
-      boolean byteFallback, List<String> controls, String unknown, int threads, int seedTableLimit,
+      boolean rawBytes, List<String> controls, String unknown, int threads, int seedTableLimit,
       TrainingListener listener) {
     this.vocabularySize = vocabularySize;
     this.seedFactor = seedFactor;
     this.maxTokenLength = maxTokenLength;
     this.shrinkFactor = shrinkFactor;
     this.emIterations = emIterations;
-    this.byteFallback = byteFallback;
+    this.rawBytes = rawBytes;
     this.controls = List.copyOf(controls);
     this.unknown = unknown;
     this.threads = threads;
@@ -79,17 +79,17 @@ public final class Training {
     }
     String[] corpus = corpusList.toArray(new String[0]);
     weights = Arrays.copyOf(weights, corpus.length);
-    int reservedIds = controls.size() + (byteFallback ? 256 : 0) + 1;
+    int reservedIds = controls.size() + (rawBytes ? 256 : 0) + 1;
     long required = (long) reservedIds + alphabet.size();
     if (vocabularySize < required) {
       throw new IllegalArgumentException("vocabularySize=" + vocabularySize + " is smaller than the " + required
-          + " ids required: " + controls.size() + " control tokens" + (byteFallback ? ", 256 byte tokens" : "")
+          + " ids required: " + controls.size() + " control tokens" + (rawBytes ? ", 256 byte tokens" : "")
           + ", 1 unknown token and an alphabet of " + alphabet.size() + " characters");
     }
     int target = vocabularySize - reservedIds;
     Set<String> reserved = new HashSet<>(controls);
     reserved.add(unknown);
-    if (byteFallback) {
+    if (rawBytes) {
       for (int b = 0; b < 256; b++) {
         reserved.add(UnigramSegmenter.byteSpelling(b));
       }
@@ -153,7 +153,7 @@ public final class Training {
       pieces.add(fv[order[i]]);
       scores[i] = fl[order[i]];
     }
-    return UnigramSegmenter.create(controls, byteFallback, unknown, pieces, scores);
+    return UnigramSegmenter.create(controls, rawBytes, unknown, pieces, scores);
   }
 
   /** Indices of the tokens kept (in their current order): all single characters, then the highest losses. */

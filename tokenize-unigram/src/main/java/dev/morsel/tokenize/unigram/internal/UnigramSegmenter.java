@@ -57,7 +57,7 @@ public final class UnigramSegmenter implements UnigramModel {
   private final Object2IntOpenHashMap<String> ids;
   private final PieceTrie trie;
   private final int controlCount;
-  private final boolean byteFallback;
+  private final boolean rawBytes;
   private final int byteBase;
   private final int unknownId;
   private final int firstPiece;
@@ -78,7 +78,7 @@ public final class UnigramSegmenter implements UnigramModel {
       new IllegalArgumentException(what + " " + index + ": " + message);
 
   /** See {@link UnigramModel#of}. */
-  public static UnigramSegmenter create(List<String> controlTokens, boolean byteFallback, String unknownToken,
+  public static UnigramSegmenter create(List<String> controlTokens, boolean rawBytes, String unknownToken,
       List<String> pieces, double[] scores) {
     Objects.requireNonNull(controlTokens, "controlTokens");
     Objects.requireNonNull(unknownToken, "unknownToken");
@@ -87,21 +87,21 @@ public final class UnigramSegmenter implements UnigramModel {
     if (pieces.size() != scores.length) {
       throw new IllegalArgumentException(pieces.size() + " pieces but " + scores.length + " scores");
     }
-    return new UnigramSegmenter(controlTokens.toArray(new String[0]), byteFallback, unknownToken,
+    return new UnigramSegmenter(controlTokens.toArray(new String[0]), rawBytes, unknownToken,
         pieces.toArray(new String[0]), scores.clone(), ARGUMENT);
   }
 
-  UnigramSegmenter(String[] controls, boolean byteFallback, String unknown, String[] pieces, double[] scores,
+  UnigramSegmenter(String[] controls, boolean rawBytes, String unknown, String[] pieces, double[] scores,
       Failure fail) {
     int k = controls.length;
-    int total = k + (byteFallback ? 256 : 0) + 1 + pieces.length;
+    int total = k + (rawBytes ? 256 : 0) + 1 + pieces.length;
     this.controls = controls;
     this.pieces = pieces;
     this.pieceScores = scores;
     this.controlCount = k;
-    this.byteFallback = byteFallback;
-    this.byteBase = byteFallback ? k : -1;
-    this.unknownId = k + (byteFallback ? 256 : 0);
+    this.rawBytes = rawBytes;
+    this.byteBase = rawBytes ? k : -1;
+    this.unknownId = k + (rawBytes ? 256 : 0);
     this.firstPiece = unknownId + 1;
     this.spelling = new String[total];
     this.bytes = new byte[total][];
@@ -116,7 +116,7 @@ public final class UnigramSegmenter implements UnigramModel {
       }
       put(i, c, c.getBytes(StandardCharsets.UTF_8), "control token", i, fail);
     }
-    if (byteFallback) {
+    if (rawBytes) {
       for (int b = 0; b < 256; b++) {
         put(byteBase + b, byteSpelling(b), new byte[] {(byte) b}, "byte token", b, fail);
       }
@@ -220,8 +220,8 @@ public final class UnigramSegmenter implements UnigramModel {
   }
 
   @Override
-  public boolean byteFallback() {
-    return byteFallback;
+  public boolean rawBytes() {
+    return rawBytes;
   }
 
   @Override
@@ -248,7 +248,7 @@ public final class UnigramSegmenter implements UnigramModel {
   @Override
   public void write(ModelWriter out) {
     SectionWriter st = out.section(SETTINGS);
-    st.putInt(FORMAT_VERSION).putByte(byteFallback ? 1 : 0).putString(spelling[unknownId]).putInt(controlCount);
+    st.putInt(FORMAT_VERSION).putByte(rawBytes ? 1 : 0).putString(spelling[unknownId]).putInt(controlCount);
     for (String c : controls) {
       st.putString(c);
     }
@@ -513,7 +513,7 @@ public final class UnigramSegmenter implements UnigramModel {
 
   /** Reports one lattice edge: a token, or an uncovered character as unknown or byte tokens. */
   private void emit(CharSequence text, int from, int to, int id, TokenSink sink) {
-    if (id != unknownId || !byteFallback) {
+    if (id != unknownId || !rawBytes) {
       sink.token(id, from, to);
       return;
     }

@@ -17,7 +17,7 @@ import java.util.Objects;
  * under the stages {@code "seed"}, {@code "em"} and {@code "prune"}.
  *
  * <pre>{@code
- * UnigramModel model = UnigramTrainer.builder().vocabularySize(4000).byteFallback(true).build().train(counts);
+ * UnigramModel model = UnigramLearner.builder().vocabularySize(4000).rawBytes(true).build().train(counts);
  * }</pre>
  *
  * <p>References: [1] Kudo (2018), "Subword Regularization", ACL 2018. [2] Dempster, Laird, Rubin
@@ -25,10 +25,10 @@ import java.util.Objects;
  *
  * @since 0.1.0
  */
-public final class UnigramTrainer {
+public final class UnigramLearner {
   private final Builder b;
 
-  private UnigramTrainer(Builder b) {
+  private UnigramLearner(Builder b) {
     this.b = b.copy();
   }
 
@@ -46,17 +46,17 @@ public final class UnigramTrainer {
   public UnigramModel train(PieceCounts counts) {
     Objects.requireNonNull(counts, "counts");
     return new Training(b.vocabularySize, b.seedFactor, b.maxTokenLength, b.shrinkFactor, b.emIterations,
-        b.byteFallback, b.controlTokens, b.unknownToken, b.threads, b.seedTableLimit, b.listener).train(counts);
+        b.rawBytes, b.controlTokens, b.unknownToken, b.threads, b.seedTableLimit, b.listener).train(counts);
   }
 
-  /** Settings for a {@link UnigramTrainer}. Not thread-safe. */
+  /** Settings for a {@link UnigramLearner}. Not thread-safe. */
   public static final class Builder {
     private int vocabularySize = 8000;
     private int seedFactor = 8;
     private int maxTokenLength = 16;
     private double shrinkFactor = 0.75;
     private int emIterations = 2;
-    private boolean byteFallback;
+    private boolean rawBytes;
     private List<String> controlTokens = List.of();
     private String unknownToken = UnigramModel.DEFAULT_UNKNOWN;
     private int threads = Math.max(1, Runtime.getRuntime().availableProcessors());
@@ -72,7 +72,7 @@ public final class UnigramTrainer {
       c.maxTokenLength = maxTokenLength;
       c.shrinkFactor = shrinkFactor;
       c.emIterations = emIterations;
-      c.byteFallback = byteFallback;
+      c.rawBytes = rawBytes;
       c.controlTokens = controlTokens;
       c.unknownToken = unknownToken;
       c.threads = threads;
@@ -121,8 +121,8 @@ public final class UnigramTrainer {
      * Whether the model gets 256 byte tokens so a character outside the vocabulary encodes as its
      * UTF-8 bytes instead of the unknown token. Default off.
      */
-    public Builder byteFallback(boolean on) {
-      this.byteFallback = on;
+    public Builder rawBytes(boolean on) {
+      this.rawBytes = on;
       return this;
     }
 
@@ -169,8 +169,8 @@ public final class UnigramTrainer {
     }
 
     /** The trainer. */
-    public UnigramTrainer build() {
-      return new UnigramTrainer(this);
+    public UnigramLearner build() {
+      return new UnigramLearner(this);
     }
 
     private static int check(String name, int v, int min, int max) {

@@ -82,7 +82,7 @@ import java.util.Set;
  *
  * @since 0.1.0
  */
-public final class WordPieceTrainer {
+public final class WordPieceLearner {
   /** Default {@code vocabularySize}, in tokens. */
   public static final int DEFAULT_VOCABULARY_SIZE = 8000;
   /** Default {@code maxAlphabet}, in code points (covers the scripts of a typical European corpus). */
@@ -121,7 +121,7 @@ public final class WordPieceTrainer {
   private final Score rule;
   private final long minPairCount;
 
-  private WordPieceTrainer(Builder b) {
+  private WordPieceLearner(Builder b) {
     this.vocabularySize = b.vocabularySize;
     this.minCount = b.minCount;
     this.maxAlphabet = b.maxAlphabet;
@@ -137,7 +137,7 @@ public final class WordPieceTrainer {
     return new Builder();
   }
 
-  /** Builds {@link WordPieceTrainer}s. Not thread-safe. */
+  /** Builds {@link WordPieceLearner}s. Not thread-safe. */
   public static final class Builder {
     private int vocabularySize = DEFAULT_VOCABULARY_SIZE;
     private long minCount = DEFAULT_MIN_COUNT;
@@ -152,7 +152,7 @@ public final class WordPieceTrainer {
 
     /**
      * Target vocabulary size in tokens, control and unknown tokens included (default {@value
-     * WordPieceTrainer#DEFAULT_VOCABULARY_SIZE}).
+     * WordPieceLearner#DEFAULT_VOCABULARY_SIZE}).
      *
      * @throws IllegalArgumentException if not in {@code [2, MAX_VOCABULARY_SIZE]}
      */
@@ -166,7 +166,7 @@ public final class WordPieceTrainer {
     }
 
     /**
-     * Pieces seen fewer times are dropped (default {@value WordPieceTrainer#DEFAULT_MIN_COUNT}).
+     * Pieces seen fewer times are dropped (default {@value WordPieceLearner#DEFAULT_MIN_COUNT}).
      *
      * @throws IllegalArgumentException if below 1
      */
@@ -179,7 +179,7 @@ public final class WordPieceTrainer {
     }
 
     /**
-     * Most distinct code points kept in the alphabet (default {@value WordPieceTrainer#DEFAULT_MAX_ALPHABET}).
+     * Most distinct code points kept in the alphabet (default {@value WordPieceLearner#DEFAULT_MAX_ALPHABET}).
      *
      * @throws IllegalArgumentException if below 1
      */
@@ -230,7 +230,7 @@ public final class WordPieceTrainer {
     /**
      * Pairs occurring fewer times (count-weighted, in the current segmentation) are never merged;
      * merging stops early if no pair reaches the floor (default {@value
-     * WordPieceTrainer#DEFAULT_MIN_PAIR_COUNT}: no floor). Mainly useful with {@link
+     * WordPieceLearner#DEFAULT_MIN_PAIR_COUNT}: no floor). Mainly useful with {@link
      * Score#PAIR_RATIO}, whose results depend strongly on it.
      *
      * @throws IllegalArgumentException if below 1
@@ -254,12 +254,12 @@ public final class WordPieceTrainer {
      *
      * @throws IllegalArgumentException if a control token equals the unknown spelling
      */
-    public WordPieceTrainer build() {
+    public WordPieceLearner build() {
       if (controlTokens.contains(settings.unknownToken())) {
         throw new IllegalArgumentException("control token '" + settings.unknownToken()
             + "' equals the unknown token spelling (settings unknownToken)");
       }
-      return new WordPieceTrainer(this);
+      return new WordPieceLearner(this);
     }
   }
 

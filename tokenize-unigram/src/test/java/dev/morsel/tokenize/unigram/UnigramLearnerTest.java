@@ -12,7 +12,7 @@ import java.util.SplittableRandom;
 import org.junit.jupiter.api.Test;
 
 /** Trainer settings, determinism and bad input, on invented passenger messages to a ferry operator. */
-class UnigramTrainerTest {
+class UnigramLearnerTest {
   private static final String[] PHRASES = {
       "the morning ferry to Skerryholm is delayed by forty minutes",
       "can I bring my bicycle on the evening sailing",
@@ -35,8 +35,8 @@ class UnigramTrainerTest {
     return LocalSplit.count(texts);
   }
 
-  private static UnigramTrainer.Builder small() {
-    return UnigramTrainer.builder().vocabularySize(120).seedFactor(4).maxTokenLength(10);
+  private static UnigramLearner.Builder small() {
+    return UnigramLearner.builder().vocabularySize(120).seedFactor(4).maxTokenLength(10);
   }
 
   @Test
@@ -86,24 +86,24 @@ class UnigramTrainerTest {
   void badInputIsRejected() {
     assertThrows(IllegalArgumentException.class, () -> small().build().train(PieceCounts.empty()));
     IllegalArgumentException e = assertThrows(IllegalArgumentException.class,
-        () -> UnigramTrainer.builder().vocabularySize(10).build().train(corpus(1, 50)));
+        () -> UnigramLearner.builder().vocabularySize(10).build().train(corpus(1, 50)));
     assertTrue(e.getMessage().contains("vocabularySize=10") && e.getMessage().contains("alphabet"), e.getMessage());
     e = assertThrows(IllegalArgumentException.class,
-        () -> UnigramTrainer.builder().vocabularySize(200).byteFallback(true).build().train(corpus(1, 50)));
+        () -> UnigramLearner.builder().vocabularySize(200).rawBytes(true).build().train(corpus(1, 50)));
     assertTrue(e.getMessage().contains("256 byte tokens"), e.getMessage());
-    assertThrows(IllegalArgumentException.class, () -> UnigramTrainer.builder().shrinkFactor(1.0));
-    assertThrows(IllegalArgumentException.class, () -> UnigramTrainer.builder().shrinkFactor(0));
-    assertThrows(IllegalArgumentException.class, () -> UnigramTrainer.builder().vocabularySize(0));
-    assertThrows(IllegalArgumentException.class, () -> UnigramTrainer.builder().maxTokenLength(0));
-    assertThrows(IllegalArgumentException.class, () -> UnigramTrainer.builder().emIterations(0));
-    assertThrows(IllegalArgumentException.class, () -> UnigramTrainer.builder().threads(0));
-    assertThrows(IllegalArgumentException.class, () -> UnigramTrainer.builder().controlTokens(List.of("a", "a")));
-    assertThrows(IllegalArgumentException.class, () -> UnigramTrainer.builder().unknownToken(""));
+    assertThrows(IllegalArgumentException.class, () -> UnigramLearner.builder().shrinkFactor(1.0));
+    assertThrows(IllegalArgumentException.class, () -> UnigramLearner.builder().shrinkFactor(0));
+    assertThrows(IllegalArgumentException.class, () -> UnigramLearner.builder().vocabularySize(0));
+    assertThrows(IllegalArgumentException.class, () -> UnigramLearner.builder().maxTokenLength(0));
+    assertThrows(IllegalArgumentException.class, () -> UnigramLearner.builder().emIterations(0));
+    assertThrows(IllegalArgumentException.class, () -> UnigramLearner.builder().threads(0));
+    assertThrows(IllegalArgumentException.class, () -> UnigramLearner.builder().controlTokens(List.of("a", "a")));
+    assertThrows(IllegalArgumentException.class, () -> UnigramLearner.builder().unknownToken(""));
   }
 
   @Test
-  void byteFallbackModelHasByteTokensAfterControls() {
-    UnigramModel m = small().vocabularySize(400).byteFallback(true).controlTokens(List.of("\u00a7a", "\u00a7b"))
+  void rawBytesModelHasByteTokensAfterControls() {
+    UnigramModel m = small().vocabularySize(400).rawBytes(true).controlTokens(List.of("\u00a7a", "\u00a7b"))
         .build().train(corpus(8, 200));
     assertEquals(400, m.vocabularySize());
     assertEquals(2, m.firstByteId());

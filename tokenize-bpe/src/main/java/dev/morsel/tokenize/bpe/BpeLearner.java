@@ -36,7 +36,7 @@ import java.util.Objects;
  *
  * @since 0.1.0
  */
-public final class BpeTrainer {
+public final class BpeLearner {
   /** Default {@code vocabularySize}: 32,000 ids. */
   public static final int DEFAULT_VOCABULARY_SIZE = 32_000;
   /** Default {@code minPairCount}: 2 (a pair seen once compresses nothing). */
@@ -54,7 +54,7 @@ public final class BpeTrainer {
   private final int threads;
   private final TrainingListener listener;
 
-  private BpeTrainer(Builder b) {
+  private BpeLearner(Builder b) {
     this.vocabularySize = b.vocabularySize;
     this.minPairCount = b.minPairCount;
     this.maxTokenBytes = b.maxTokenBytes;
@@ -158,7 +158,7 @@ public final class BpeTrainer {
      * @throws IllegalArgumentException naming the setting that is out of range or the control token
      *     that is invalid
      */
-    public BpeTrainer build() {
+    public BpeLearner build() {
       ControlTokens.Builder cb = ControlTokens.builder();
       for (int i = 0; i < controls.size(); i++) {
         String c = controls.get(i);
@@ -200,7 +200,7 @@ public final class BpeTrainer {
       if (threads < 1) {
         throw new IllegalArgumentException("threads=" + threads + " must be at least 1");
       }
-      return new BpeTrainer(this);
+      return new BpeLearner(this);
     }
   }
 }
