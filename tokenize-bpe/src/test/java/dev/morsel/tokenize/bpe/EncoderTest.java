@@ -85,6 +85,37 @@ class EncoderTest {
     assertArrayEquals(Arrays.copyOf(a, na), Arrays.copyOf(h, nh), "seed=" + seed + " text='" + text + "'");
   }
 
+  static Stream<Long> bucketSeeds() {
+    return IntStream.range(0, 120).mapToObj(i -> 0xB0CL * 1000 + i);
+  }
+
+  /** The rank-bucket path (long pieces) equals the textbook encoder and the heap path. */
+  @ParameterizedTest
+  @MethodSource("bucketSeeds")
+  void bucketPathEqualsTextbookAndHeapPath(long seed) {
+    SplittableRandom rnd = new SplittableRandom(seed);
+    BpeSegmenter seg = seed % 4 == 0 ? Fixtures.europarlModel() : randomModel(rnd);
+    String text;
+    if (seed % 4 == 0) {
+      List<String> bodies = Fixtures.europarlBodies();
+      text = bodies.get(rnd.nextInt(bodies.size())).replace(" ", "");
+    } else if (seed % 4 == 1) {
+      text = "a".repeat(200 + rnd.nextInt(900)) + randomText(rnd, 50); // overlapping runs of one pair
+    } else {
+      text = randomText(rnd, 600 + rnd.nextInt(1500));
+    }
+    int[] expected = TextbookBpe.encode(text.getBytes(StandardCharsets.UTF_8), 0, TextbookBpe.ranks(seg));
+    int[] b = new int[3 * text.length() + 1];
+    int[] h = new int[3 * text.length() + 1];
+    int nb = seg.encoder().segmentBucketPath(text, b);
+    int nh = seg.encoder().segmentHeapPath(text, h);
+    String input = "seed=" + seed + " length=" + text.length();
+    assertArrayEquals(expected, Arrays.copyOf(b, nb), input);
+    assertArrayEquals(expected, Arrays.copyOf(h, nh), input);
+    // and through the public path, which picks the bucket path for pieces this long
+    assertArrayEquals(expected, Fixtures.segment(seg.withCacheEntries(0), text, 0, text.length()).ids(), input);
+  }
+
   @Test
   void emojiSplitIntoByteTokensReportsTheWholeCharacter() {
     // RFC 3629 section 3: U+1F6A2 is F0 9F 9A A2 (four bytes), one surrogate pair in UTF-16.

@@ -34,6 +34,11 @@ public final class Encoder {
   /** Pieces up to this many UTF-8 bytes take the array scan (k^2/2 = 128 int compares at most). */
   public static final int SHORT_PIECE_BYTES = 16;
   /**
+   * Pieces of at least this many bytes take the rank-bucket path, whose fixed cost (a scan of one bit
+   * per merge rank, about 500 words for 32k merges) pays off against the heap's log factor.
+   */
+  public static final int BUCKET_PIECE_BYTES = 512;
+  /**
    * Scratch kept per thread covers pieces up to this many UTF-16 units (about 21 bytes of arrays per
    * unit, so 4,096 units keep about 86 KiB); buffers grown for longer pieces are dropped afterwards, so
    * one huge piece does not pin hundreds of MiB per thread.
@@ -78,7 +83,8 @@ public final class Encoder {
     }
     Scratch s = scratch.get();
     int n = s.load(text, start, end);
-    int m = n <= SHORT_PIECE_BYTES ? mergeShort(s, n) : mergeHeap(s, n, 0.0, null);
+    int m = n <= SHORT_PIECE_BYTES ? mergeShort(s, n) : n < BUCKET_PIECE_BYTES ? mergeHeap(s, n, 0.0, null)
+        : mergeBuckets(s, n);
     if (cacheable) {
       cache.store(hash, text, start, end, s, m);
     }
@@ -107,6 +113,15 @@ public final class Encoder {
     Scratch s = scratch.get();
     int n = s.load(text, 0, text.length());
     int m = mergeShort(s, n);
+    System.arraycopy(s.outId, 0, out, 0, m);
+    return m;
+  }
+
+  /** Test hook: the rank-bucket path on any length; ids into {@code out}, returns the count. */
+  public int segmentBucketPath(CharSequence text, int[] out) {
+    Scratch s = scratch.get();
+    int n = s.load(text, 0, text.length());
+    int m = mergeBuckets(s, n);
     System.arraycopy(s.outId, 0, out, 0, m);
     return m;
   }
@@ -239,6 +254,113 @@ public final class Encoder {
     return m;
   }
 
+  /**
+   * Linked list + one bucket per merge rank, for long pieces: O(k + V/64) for k bytes and V merges,
+   * with no heap. It rests on one property of every valid model (the loader checks that each merge's
+   * operands are older ids): a merge of rank r creates a token that only merges of rank greater than r
+   * use, so after applying rank r every new candidate pair has a greater rank, and the lowest pending
+   * rank never decreases. Buckets are therefore visited once each, in rank order, through a bitset
+   * of non-empty ranks; within a bucket (all one pair) positions are sorted so the leftmost goes
+   * first, and no entry of rank r is added while rank r is being applied. A popped position applies
+   * only if the pair there is still the bucket's pair.
+   */
+  private int mergeBuckets(Scratch s, int n) {
+    s.ensureBuckets(n, vocab.mergeCount());
+    final int[] sym = s.sym;
+    final int[] next = s.next;
+    final int[] prev = s.prev;
+    final int[] head = s.head;
+    final int[] entPos = s.entPos;
+    final int[] entNext = s.entNext;
+    final long[] nonEmpty = s.nonEmpty;
+    final int[] tmp = s.tmp;
+    final int[] left = vocab.left;
+    final int[] right = vocab.right;
+    final byte[] buf = s.buf;
+    final int b0 = base;
+    for (int i = 0; i < n; i++) {
+      sym[i] = b0 + (buf[i] & 0xFF);
+      next[i] = i + 1;
+      prev[i] = i - 1;
+    }
+    int entries = 0;
+    int word = nonEmpty.length;
+    for (int i = 0; i + 1 < n; i++) {
+      int r = vocab.ranks.get(Vocab.pair(sym[i], sym[i + 1]));
+      if (r >= 0) {
+        entPos[entries] = i;
+        entNext[entries] = head[r];
+        head[r] = entries++;
+        nonEmpty[r >>> 6] |= 1L << r;
+        word = Math.min(word, r >>> 6);
+      }
+    }
+    while (true) {
+      while (word < nonEmpty.length && nonEmpty[word] == 0) {
+        word++;
+      }
+      if (word == nonEmpty.length) {
+        break;
+      }
+      int r = (word << 6) + Long.numberOfTrailingZeros(nonEmpty[word]);
+      nonEmpty[word] &= ~(1L << r);
+      int cnt = 0;
+      for (int e = head[r]; e >= 0; e = entNext[e]) {
+        tmp[cnt++] = entPos[e];
+      }
+      head[r] = -1;
+      if (cnt > 1) {
+        java.util.Arrays.sort(tmp, 0, cnt);
+      }
+      final int a = left[r];
+      final int b = right[r];
+      final int merged = mergeBase + r;
+      for (int k = 0; k < cnt; k++) {
+        int pos = tmp[k];
+        if (sym[pos] != a) {
+          continue;
+        }
+        int q = next[pos];
+        if (q >= n || sym[q] != b) {
+          continue;
+        }
+        sym[pos] = merged;
+        sym[q] = -1;
+        int nq = next[q];
+        next[pos] = nq;
+        if (nq < n) {
+          prev[nq] = pos;
+          int r2 = vocab.ranks.get(Vocab.pair(merged, sym[nq]));
+          if (r2 >= 0) {
+            entPos[entries] = pos;
+            entNext[entries] = head[r2];
+            head[r2] = entries++;
+            nonEmpty[r2 >>> 6] |= 1L << r2;
+            word = Math.min(word, r2 >>> 6);
+          }
+        }
+        int pp = prev[pos];
+        if (pp >= 0) {
+          int r1 = vocab.ranks.get(Vocab.pair(sym[pp], merged));
+          if (r1 >= 0) {
+            entPos[entries] = pp;
+            entNext[entries] = head[r1];
+            head[r1] = entries++;
+            nonEmpty[r1 >>> 6] |= 1L << r1;
+            word = Math.min(word, r1 >>> 6);
+          }
+        }
+      }
+    }
+    int m = 0;
+    for (int i = 0; i < n; i = next[i]) {
+      s.outId[m] = sym[i];
+      s.outAt[m] = i;
+      m++;
+    }
+    return m;
+  }
+
   /** Per-thread buffers. Grow on demand and are kept. */
   static final class Scratch {
     byte[] buf = new byte[0];
@@ -255,6 +377,32 @@ public final class Encoder {
     long[] heap = new long[0];
     long[] dropped = new long[0];
     int heapSize;
+    // bucket path
+    int[] head = new int[0];
+    long[] nonEmpty = new long[0];
+    int[] entPos = new int[0];
+    int[] entNext = new int[0];
+    int[] tmp = new int[0];
+
+    /** Bucket bounds: n-1 initial entries plus at most two per merge (at most n-1 merges): 3n. */
+    void ensureBuckets(int n, int ranks) {
+      if (sym.length < n) {
+        sym = new int[n];
+        next = new int[n];
+        prev = new int[n];
+        heap = new long[0];
+      }
+      if (entPos.length < 3 * n) {
+        entPos = new int[3 * n];
+        entNext = new int[3 * n];
+        tmp = new int[3 * n];
+      }
+      if (head.length != ranks) {
+        head = new int[ranks];
+        java.util.Arrays.fill(head, -1);
+        nonEmpty = new long[(ranks + 63) >>> 6];
+      }
+    }
 
     /** Encodes the piece; returns its byte count. */
     int load(CharSequence text, int start, int end) {
@@ -278,6 +426,8 @@ public final class Encoder {
         sym = new int[n];
         next = new int[n];
         prev = new int[n];
+      }
+      if (heap.length < 2 * n) {
         heap = new long[2 * n];
       }
       if (dropout && dropped.length < 2 * n) {
