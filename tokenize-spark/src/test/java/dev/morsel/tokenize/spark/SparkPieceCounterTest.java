@@ -86,7 +86,7 @@ class SparkPieceCounterTest {
   @ParameterizedTest
   @MethodSource("pipelines")
   void otherPipelinesCountTheSameOnASubset(Pipeline pipeline) {
-    List<String> texts = Europarl.bodies().subList(0, SUBSET);
+    List<String> texts = Europarl.bodies().subList(0, SUBSET / 2);
     PieceCounts single = PieceCounter.builder().pipeline(pipeline).threads(1).build().count(texts);
     PieceCounts spark = SparkPieceCounter.builder().pipeline(pipeline).build().count(LocalSpark.strings(texts));
     assertEquals(single.size(), spark.size(), pipeline.toString());
@@ -192,7 +192,7 @@ class SparkPieceCounterTest {
   void countFilesEqualsTheSingleJvmFileCount(@TempDir Path dir) throws IOException {
     Path file = dir.resolve("bodies.txt.gz");
     try (Writer w = new OutputStreamWriter(new GZIPOutputStream(Files.newOutputStream(file)), StandardCharsets.UTF_8)) {
-      for (String body : Europarl.bodies().subList(0, SUBSET)) {
+      for (String body : Europarl.bodies().subList(0, SUBSET / 4)) {
         w.write(body);
         w.write('\n');
       }
@@ -200,15 +200,16 @@ class SparkPieceCounterTest {
     PieceCounts single = PieceCounter.builder().threads(1).build().countFiles(List.of(file));
     PieceCounts spark = SparkPieceCounter.builder().build().countFiles(LocalSpark.session(), file.toString());
     assertEquals(single, spark);
-    assertEquals(singleSubset, spark);
+    assertTrue(spark.size() > 1_000, "the file must give real counts, got " + spark);
   }
 
   @ParameterizedTest
   @MethodSource("dev.morsel.tokenize.spark.TestModels#schemes")
   void aModelTrainedFromSparkCountsHasTheSingleJvmFingerprint(String scheme) {
     Pipeline p = Pipeline.defaults();
-    Tokenizer fromSpark = TestModels.train(scheme, sparkAll.counts(), p, 1_000, List.of(TestModels.DOCK));
-    Tokenizer fromSingle = TestModels.train(scheme, singleAll, p, 1_000, List.of(TestModels.DOCK));
+    // pieces seen once are left out on both sides (as a trainer's minimum count would) to keep training short
+    Tokenizer fromSpark = TestModels.train(scheme, sparkAll.counts().withMinCount(2), p, 800, List.of(TestModels.DOCK));
+    Tokenizer fromSingle = TestModels.train(scheme, singleAll.withMinCount(2), p, 800, List.of(TestModels.DOCK));
     assertEquals(fromSingle.fingerprint(), fromSpark.fingerprint(), scheme);
   }
 
