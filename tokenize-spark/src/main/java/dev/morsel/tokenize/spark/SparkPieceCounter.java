@@ -44,7 +44,7 @@ import scala.Tuple2;
  * <pre>{@code
  * Dataset<String> messages = spark.read().textFile("hdfs:///ferry/messages/*.txt");
  * PieceCounts counts = SparkPieceCounter.builder().minCount(2).build().count(messages);
- * BpeSegmenter bpe = BpeTrainer.builder().vocabularySize(32_000).build().train(counts);
+ * BpeSegmenter bpe = BpeLearner.builder().vocabularySize(32_000).build().train(counts);
  * }</pre>
  *
  * @since 0.1.0

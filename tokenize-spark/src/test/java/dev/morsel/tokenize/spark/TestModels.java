@@ -5,10 +5,10 @@ import dev.morsel.tokenize.Template;
 import dev.morsel.tokenize.Tokenizer;
 import dev.morsel.tokenize.Tokenizers;
 import dev.morsel.tokenize.bpe.BpeSegmenter;
-import dev.morsel.tokenize.bpe.BpeTrainer;
+import dev.morsel.tokenize.bpe.BpeLearner;
 import dev.morsel.tokenize.train.PieceCounts;
 import dev.morsel.tokenize.wordpiece.WordPieceSegmenter;
-import dev.morsel.tokenize.wordpiece.WordPieceTrainer;
+import dev.morsel.tokenize.wordpiece.WordPieceLearner;
 import java.util.LinkedHashMap;
 import java.util.List;
 import java.util.Map;
@@ -31,11 +31,11 @@ final class TestModels {
 
   static {
     TRAINERS.put("bpe", (counts, pipeline, size, controls) -> {
-      BpeSegmenter s = BpeTrainer.builder().vocabularySize(size).controlTokens(controls).threads(1).build().train(counts);
+      BpeSegmenter s = BpeLearner.builder().vocabularySize(size).controlTokens(controls).threads(1).build().train(counts);
       return Tokenizers.of(pipeline, s, s.controlTokens(), Template.none());
     });
     TRAINERS.put("wordpiece", (counts, pipeline, size, controls) -> {
-      WordPieceSegmenter s = WordPieceTrainer.builder().vocabularySize(size).controlTokens(controls).build().train(counts);
+      WordPieceSegmenter s = WordPieceLearner.builder().vocabularySize(size).controlTokens(controls).build().train(counts);
       return Tokenizers.of(pipeline, s, s.controlTokens(), Template.none());
     });
   }
