@@ -34,6 +34,19 @@ public final class Vocab {
   final byte[] bytes;
   final int[] offsets; // id -> start in bytes; offsets[size] = total
   final Long2IntOpenHashMap ranks; // pair(left,right) -> rank, -1 if absent
+  /**
+   * Ranks of the 65,536 byte-byte pairs (256 KiB): the first lookups of every piece are between byte
+   * tokens, and a dense table answers them without hashing.
+   */
+  final int[] bytePairRanks;
+  /**
+   * Every merge as an open-addressing table of {@code (left << 16 | right, rank)} int pairs stored
+   * side by side, so a probe reads one cache line (the general map reads a key array and a value
+   * array); load factor at most 1/2, linear probing, Fibonacci hashing. Null when the vocabulary has
+   * more than 65,535 ids (ids no longer fit 16 bits); then the general map answers.
+   */
+  final int[] pairTable;
+  final int pairShift;
   final String[] display;
   final Object2IntOpenHashMap<String> displayIds;
 
@@ -48,6 +61,37 @@ public final class Vocab {
     this.ranks = ranks;
     this.display = display;
     this.displayIds = displayIds;
+    int merges = left.length;
+    int size = k + 256 + merges;
+    if (size <= 65_535) {
+      int bits = Math.max(2, 33 - Integer.numberOfLeadingZeros(Math.max(1, 2 * merges - 1)));
+      int cap = 1 << bits;
+      int[] table = new int[2 * cap];
+      java.util.Arrays.fill(table, -1);
+      for (int r = 0; r < merges; r++) {
+        int key = (left[r] << 16) | right[r];
+        int i = (key * 0x9E3779B9) >>> (32 - bits);
+        while (table[2 * i] != -1) {
+          i = (i + 1) & (cap - 1);
+        }
+        table[2 * i] = key;
+        table[2 * i + 1] = r;
+      }
+      this.pairTable = table;
+      this.pairShift = 32 - bits;
+    } else {
+      this.pairTable = null;
+      this.pairShift = 0;
+    }
+    this.bytePairRanks = new int[1 << 16];
+    java.util.Arrays.fill(bytePairRanks, -1);
+    for (int r = 0; r < left.length; r++) {
+      int a = left[r] - k;
+      int b = right[r] - k;
+      if (a >= 0 && a < 256 && b >= 0 && b < 256) {
+        bytePairRanks[(a << 8) | b] = r;
+      }
+    }
   }
 
   /** The pair key: left id in the high 32 bits, right id in the low 32 bits. */
@@ -177,7 +221,28 @@ public final class Vocab {
 
   /** Rank of the pair, or -1. */
   public int rank(int a, int b) {
-    return ranks.get(pair(a, b));
+    int x = a - k;
+    int y = b - k;
+    if ((x | y) >= 0 && x < 256 && y < 256) {
+      return bytePairRanks[(x << 8) | y];
+    }
+    final int[] t = pairTable;
+    if (t == null) {
+      return ranks.get(pair(a, b));
+    }
+    int key = (a << 16) | b;
+    int mask = (t.length >>> 1) - 1;
+    int i = (key * 0x9E3779B9) >>> pairShift;
+    while (true) {
+      int found = t[2 * i];
+      if (found == key) {
+        return t[2 * i + 1];
+      }
+      if (found == -1) {
+        return -1;
+      }
+      i = (i + 1) & mask;
+    }
   }
 
   /** Display spelling of {@code id}. */
