@@ -80,6 +80,19 @@ public final class Encoder {
       return;
     }
     int len = end - start;
+    if (cache != null && len <= RecentPieces.MAX_CHARS) {
+      Scratch s = scratch.get();
+      RecentPieces recent = s.recent;
+      long h = recent.hash(text, start, end);
+      if (recent.emitIfPresent(h, text, start, end, sink)) {
+        return;
+      }
+      int n = s.load(text, start, end);
+      int m = n <= SHORT_PIECE_BYTES ? mergeShort(s, n) : mergeHeap(s, n, 0.0, null);
+      recent.store(h, text, start, end, s, m);
+      s.emit(m, start, sink);
+      return;
+    }
     long hash = 0;
     boolean cacheable = cache != null && len > CACHE_MIN_PIECE_CHARS && len <= PieceCache.MAX_PIECE_CHARS;
     if (cacheable) {
@@ -368,8 +381,82 @@ public final class Encoder {
     return m;
   }
 
+  /**
+   * A small per-thread cache of short pieces in flat arrays (no object per entry, so a hit reads a
+   * few adjacent cache lines instead of chasing three heap objects as the shared {@link PieceCache}
+   * does): direct-mapped, {@link #SLOTS} slots of up to {@link #MAX_CHARS} chars and
+   * {@link #MAX_TOKENS} tokens, about 400 KiB per thread. Per thread, so there are no races; keyed by a
+   * hash seeded per thread, so crafted text can only cause misses. Zipf's law makes a few thousand
+   * frequent pieces cover most of running text.
+   */
+  static final class RecentPieces {
+    static final int SLOTS = 4096;
+    static final int MAX_CHARS = 16;
+    static final int MAX_TOKENS = 8;
+
+    final long[] hashes = new long[SLOTS];
+    final byte[] lengths = new byte[SLOTS]; // chars; 0 = empty
+    final byte[] counts = new byte[SLOTS]; // tokens
+    final char[] keys = new char[SLOTS * MAX_CHARS];
+    final int[] data = new int[SLOTS * MAX_TOKENS * 3]; // (id, relative start, relative end) per token
+    final long seed = new SplittableRandom().nextLong() | 1L;
+
+    long hash(CharSequence text, int start, int end) {
+      long h = seed;
+      for (int i = start; i < end; i++) {
+        h = (h + text.charAt(i)) * 0x9E3779B97F4A7C15L;
+      }
+      return h ^ (h >>> 29);
+    }
+
+    boolean emitIfPresent(long h, CharSequence text, int start, int end, TokenSink sink) {
+      int slot = (int) h & (SLOTS - 1);
+      int len = end - start;
+      if (hashes[slot] != h || lengths[slot] != len) {
+        return false;
+      }
+      int k = slot * MAX_CHARS;
+      for (int i = 0; i < len; i++) {
+        if (keys[k + i] != text.charAt(start + i)) {
+          return false;
+        }
+      }
+      int d = slot * MAX_TOKENS * 3;
+      int c = counts[slot];
+      for (int j = 0; j < c; j++, d += 3) {
+        sink.token(data[d], start + data[d + 1], start + data[d + 2]);
+      }
+      return true;
+    }
+
+    void store(long h, CharSequence text, int start, int end, Scratch s, int m) {
+      if (m > MAX_TOKENS) {
+        return;
+      }
+      int slot = (int) h & (SLOTS - 1);
+      int len = end - start;
+      int k = slot * MAX_CHARS;
+      for (int i = 0; i < len; i++) {
+        keys[k + i] = text.charAt(start + i);
+      }
+      int d = slot * MAX_TOKENS * 3;
+      int n = s.byteCount;
+      for (int j = 0; j < m; j++, d += 3) {
+        int bs = s.outAt[j];
+        int be = j + 1 < m ? s.outAt[j + 1] : n;
+        data[d] = s.outId[j];
+        data[d + 1] = s.charStart[bs];
+        data[d + 2] = s.charEnd[be - 1];
+      }
+      hashes[slot] = h;
+      lengths[slot] = (byte) len;
+      counts[slot] = (byte) m;
+    }
+  }
+
   /** Per-thread buffers. Grow on demand and are kept. */
   static final class Scratch {
+    final RecentPieces recent = new RecentPieces();
     byte[] buf = new byte[0];
     int[] charStart = new int[0];
     int[] charEnd = new int[0];
