@@ -43,8 +43,10 @@ class ModelCorruptionTest {
     c.forgedPayloads(seed, FORGED_PER_SECTION, c.encodeSamples());
     System.out.println("[model corruption] " + kind + ": " + model.length + "-byte model, sections " + c.tags()
         + ", table ends at " + c.tableEnd() + "; largest allocation while rejecting raw damage "
-        + c.maxRejectedAllocation() + " bytes, forged damage " + c.maxForgedAllocation() + " bytes");
-    assertTrue(c.maxRejectedAllocation() <= model.length + ModelCorruption.ALLOWANCE_BYTES);
+        + c.maxRejectedAllocation() + " bytes (" + c.maxRejectedCase() + "), forged damage " + c.maxForgedAllocation() + " bytes");
+    // steady state (a case over 64 KiB is measured twice, so first-use class loading does not count)
+    assertTrue(c.maxRejectedAllocation() <= model.length, "rejecting allocated " + c.maxRejectedAllocation()
+        + " bytes for a " + model.length + "-byte model (" + c.maxRejectedCase() + ")");
     // damage under valid checksums may be found only after a segmenter was built from the other
     // sections: that costs memory in proportion to the model, never to a forged count
     assertTrue(c.maxForgedAllocation() <= FORGED_ALLOCATION_FACTOR * model.length + (1 << 20),

@@ -52,6 +52,7 @@ public final class ModelCorruption {
   private final Set<String> known = new HashSet<>();
   private final Allocation threads = new Allocation();
   private long maxRejectedAllocation;
+  private String maxRejectedCase = "none";
   private long maxForgedAllocation;
 
   /**
@@ -96,6 +97,11 @@ public final class ModelCorruption {
   /** Largest allocation seen while rejecting a file damaged below the checksums. */
   public long maxRejectedAllocation() {
     return maxRejectedAllocation;
+  }
+
+  /** The damage that gave {@link #maxRejectedAllocation()}. */
+  public String maxRejectedCase() {
+    return maxRejectedCase;
   }
 
   /** Largest allocation seen while rejecting a file forged with valid checksums. */
@@ -245,7 +251,7 @@ public final class ModelCorruption {
       Tokenizers.load(f);
     } catch (ModelFormatException e) {
       long used = threads.getCurrentThreadAllocatedBytes() - before;
-      if (used > f.length + ALLOWANCE_BYTES) {
+      if (used > Math.min(f.length, 64 * 1024)) {
         // the first failure of a kind may load and initialize classes: measure a second time
         used = allocationOfLoad(f);
         if (used > f.length + ALLOWANCE_BYTES) {
@@ -253,7 +259,10 @@ public final class ModelCorruption {
               + " bytes");
         }
       }
-      maxRejectedAllocation = Math.max(maxRejectedAllocation, used);
+      if (used > maxRejectedAllocation) {
+        maxRejectedAllocation = used;
+        maxRejectedCase = what;
+      }
       if (section != null ? !section.equals(e.section()) : !known.contains(e.section())) {
         throw new AssertionError(name + ": " + what + ": exception names section '" + e.section() + "', expected "
             + (section != null ? section : known) + ": " + e.getMessage());
