@@ -40,6 +40,7 @@ final class PipelineTokenizer implements Tokenizer {
   private final ControlTokens controls;
   private final Template template;
   private final Limits limits;
+  private final int maxPieceLength; // copied from limits for the per-piece check
   private final int[] beginIds;
   private final int[] separatorIds;
   private final int[] endIds;
@@ -59,6 +60,7 @@ final class PipelineTokenizer implements Tokenizer {
     this.controls = Objects.requireNonNull(controls, "controlTokens");
     this.template = Objects.requireNonNull(template, "template");
     this.limits = Objects.requireNonNull(limits, "limits");
+    this.maxPieceLength = limits.maxPieceLength();
     this.fingerprint = fingerprint;
     int v = segmenter.vocabularySize();
     this.controlBytes = new byte[v][];
@@ -437,7 +439,13 @@ final class PipelineTokenizer implements Tokenizer {
       builder.add(id, n.spanStart(start), n.spanEnd(end), segment, 0);
     };
 
-    final PieceSink pieceSink = (start, end) -> segmenter.segment(normalized, start, end, tokenSink);
+    final PieceSink pieceSink = (start, end) -> {
+      if (end - start > maxPieceLength) {
+        NormalizedText n = norm;
+        limits.throwPieceTooLong(end - start, n.spanStart(start), n.spanEnd(end));
+      }
+      segmenter.segment(normalized, start, end, tokenSink);
+    };
 
   }
 

