@@ -121,7 +121,7 @@ public final class BpeLearner {
     }
     if (words.isEmpty()) {
       throw new IllegalArgumentException("every piece is longer than maxPieceBytes=" + maxPieceBytes
-          + " bytes of UTF-8: nothing to train on (raise it with BpeTrainer.Builder.maxPieceBytes)");
+          + " bytes of UTF-8: nothing to train on (raise it with BpeLearner.Builder.maxPieceBytes)");
     }
     long[] weights = new long[words.size()];
     for (int i = 0; i < weights.length; i++) {
@@ -174,7 +174,7 @@ public final class BpeLearner {
 
     /**
      * Pieces whose UTF-8 is longer than this many bytes are left out of training (at least 2).
-     * Default {@value BpeTrainer#DEFAULT_MAX_PIECE_BYTES}.
+     * Default {@value BpeLearner#DEFAULT_MAX_PIECE_BYTES}.
      *
      * @since 0.1.0
      */

@@ -6,14 +6,14 @@ import dev.morsel.tokenize.Pipeline;
 import dev.morsel.tokenize.Tokenizer;
 import dev.morsel.tokenize.Tokenizers;
 import dev.morsel.tokenize.bpe.BpeSegmenter;
-import dev.morsel.tokenize.bpe.BpeTrainer;
+import dev.morsel.tokenize.bpe.BpeLearner;
 import dev.morsel.tokenize.normalize.Normalization;
 import dev.morsel.tokenize.split.Splitting;
 import dev.morsel.tokenize.testkit.Europarl;
 import dev.morsel.tokenize.train.PieceCounter;
 import dev.morsel.tokenize.train.PieceCounts;
 import dev.morsel.tokenize.wordpiece.WordPieceSegmenter;
-import dev.morsel.tokenize.wordpiece.WordPieceTrainer;
+import dev.morsel.tokenize.wordpiece.WordPieceLearner;
 import java.util.ArrayList;
 import java.util.List;
 
@@ -37,7 +37,7 @@ final class Models {
   static final int BODIES = 1_500;
 
   /** The normalization forms every property runs under. */
-  static final List<String> FORMS = List.of("none", "nfc", "nfkc", "nfkc+casefold", "nfd+strip-accents");
+  static final List<String> FORMS = List.of("none", "nfc", "nfkc", "nfkc+casefold", "nfd+remove-marks");
 
   /** The segmenters of this module. */
   enum Kind {
@@ -49,9 +49,9 @@ final class Models {
   private static final class Trained {
     static final PieceCounts PIECES = PieceCounter.builder().pipeline(Pipeline.defaults()).threads(2).build()
         .count(Europarl.bodies().subList(0, BODIES));
-    static final BpeSegmenter BPE = BpeTrainer.builder().vocabularySize(VOCABULARY).controlTokens(Spellings.ALL)
+    static final BpeSegmenter BPE = BpeLearner.builder().vocabularySize(VOCABULARY).controlTokens(Spellings.ALL)
         .threads(2).build().train(PIECES);
-    static final WordPieceSegmenter WORDPIECE = WordPieceTrainer.builder().vocabularySize(VOCABULARY)
+    static final WordPieceSegmenter WORDPIECE = WordPieceLearner.builder().vocabularySize(VOCABULARY)
         .controlTokens(Spellings.ALL).build().train(PIECES);
   }
 

@@ -13,13 +13,13 @@ import dev.morsel.tokenize.Tokenizers;
 import dev.morsel.tokenize.Tokens;
 import dev.morsel.tokenize.Template;
 import dev.morsel.tokenize.bpe.BpeSegmenter;
-import dev.morsel.tokenize.bpe.BpeTrainer;
+import dev.morsel.tokenize.bpe.BpeLearner;
 import dev.morsel.tokenize.testkit.Europarl;
 import dev.morsel.tokenize.train.CorpusException;
 import dev.morsel.tokenize.train.PieceCounter;
 import dev.morsel.tokenize.train.PieceCounts;
 import dev.morsel.tokenize.wordpiece.WordPieceSegmenter;
-import dev.morsel.tokenize.wordpiece.WordPieceTrainer;
+import dev.morsel.tokenize.wordpiece.WordPieceLearner;
 import java.io.IOException;
 import java.io.OutputStream;
 import java.nio.charset.StandardCharsets;
@@ -42,12 +42,12 @@ class TrainerAbuseTest {
   @TempDir
   Path dir;
 
-  static BpeTrainer bpe(int vocabularySize) {
-    return BpeTrainer.builder().vocabularySize(vocabularySize).threads(2).build();
+  static BpeLearner bpe(int vocabularySize) {
+    return BpeLearner.builder().vocabularySize(vocabularySize).threads(2).build();
   }
 
-  static WordPieceTrainer wordPiece(int vocabularySize) {
-    return WordPieceTrainer.builder().vocabularySize(vocabularySize).build();
+  static WordPieceLearner wordPiece(int vocabularySize) {
+    return WordPieceLearner.builder().vocabularySize(vocabularySize).build();
   }
 
   static Tokenizer tokenizer(dev.morsel.tokenize.spi.Segmenter s) {
@@ -89,7 +89,7 @@ class TrainerAbuseTest {
   @Test
   void vocabularySmallerThanTheAlphabetIsAClearError() {
     IllegalArgumentException b = assertThrows(IllegalArgumentException.class,
-        () -> BpeTrainer.builder().vocabularySize(255).build());
+        () -> BpeLearner.builder().vocabularySize(255).build());
     assertTrue(b.getMessage().contains("vocabularySize=255"), b.getMessage());
     PieceCounts letters = PieceCounts.of(Map.of("abcdefghij", 3L, "klmnop", 2L));
     IllegalArgumentException w = assertThrows(IllegalArgumentException.class, () -> wordPiece(5).train(letters));
@@ -255,10 +255,10 @@ class TrainerAbuseTest {
   @Test
   void maxPieceBytesIsASetting() {
     IllegalArgumentException e = assertThrows(IllegalArgumentException.class,
-        () -> BpeTrainer.builder().maxPieceBytes(1).build());
+        () -> BpeLearner.builder().maxPieceBytes(1).build());
     assertTrue(e.getMessage().contains("maxPieceBytes=1"), e.getMessage());
     PieceCounts c = PieceCounts.of(Map.of("ferry", 5L, "ferryboat", 5L));
     // pieces over 5 bytes are left out: only "ferry" is learned from
-    assertEquals(4, BpeTrainer.builder().vocabularySize(300).maxPieceBytes(5).threads(1).build().train(c).mergeCount());
+    assertEquals(4, BpeLearner.builder().vocabularySize(300).maxPieceBytes(5).threads(1).build().train(c).mergeCount());
   }
 }

@@ -80,7 +80,11 @@ public final class TokenizerProperties {
       String span = text.substring(t.start(i), t.end(i));
       byte[] spanBytes = tk.pipeline().normalization().apply(span).text().getBytes(StandardCharsets.UTF_8);
       byte[] tokenBytes = tk.tokenBytes(t.id(i));
-      if (indexOf(spanBytes, tokenBytes) < 0) {
+      // After a run of 30 non-starters the normalizer cuts the run and puts U+034F (CGJ) at the start
+      // of the next chunk (UAX #15 section 13, Stream-Safe Text Format); that chunk normalized alone
+      // lacks it, so a token may also lie inside CGJ + normalize(span).
+      byte[] cgjSpanBytes = ("\u034f" + tk.pipeline().normalization().apply(span).text()).getBytes(StandardCharsets.UTF_8);
+      if (indexOf(spanBytes, tokenBytes) < 0 && indexOf(cgjSpanBytes, tokenBytes) < 0) {
         fail(subject + " " + BYTES_IN_SPAN, seed, text, "token " + i + " (id " + t.id(i) + ", bytes "
             + hex(tokenBytes) + ") is not inside its span [" + t.start(i) + ", " + t.end(i) + ") = \""
             + HardText.escape(span, 200) + "\" (normalized bytes " + hex(spanBytes) + ")");
