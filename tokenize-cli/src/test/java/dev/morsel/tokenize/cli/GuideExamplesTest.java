@@ -124,13 +124,13 @@ class GuideExamplesTest {
     // @end region="schemes"
     for (Tokenizer t : candidates.values()) {
       long tokens = t.encodeAll(held).stream().mapToLong(Tokens::size).sum();
-      // a subword vocabulary of 1000 learned from this corpus: more than one token per word is certain on
-      // held-out text with numbers and names, and fewer than one per character
+      // a 1000-id vocabulary cannot hold every held-out word whole (the held-out lines carry booking codes
+      // and times never seen in training), so more than one token per word; and merges were learned, so
+      // well under one token per char (the demo's sweep shows 1.3-1.9 tokens per word at this size)
       assertTrue(tokens > words, t.kind() + ": " + tokens + " tokens for " + words + " words");
       long chars = held.stream().mapToLong(String::length).sum();
       assertTrue(tokens < chars / 2, t.kind() + ": " + tokens + " tokens for " + chars + " chars");
     }
-    assertTrue(candidates.get("wordpiece").encode("x").size() >= 1);
   }
 
   @Test
