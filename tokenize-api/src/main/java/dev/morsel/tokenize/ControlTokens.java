@@ -158,7 +158,11 @@ public final class ControlTokens {
     }
   }
 
-  /** Builder; validates each spelling as it is added and the whole set at {@link #build()}. */
+  /**
+   * Builder; validates each spelling as it is added and the whole set at {@link #build()}.
+   *
+   * @since 0.1.0
+   */
   public static final class Builder {
     private final Map<String, Integer> map = new LinkedHashMap<>();
 

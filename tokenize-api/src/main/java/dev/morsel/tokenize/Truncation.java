@@ -8,7 +8,11 @@ import java.util.Objects;
  * @since 0.1.0
  */
 public final class Truncation {
-  /** Which text of a pair loses tokens. */
+  /**
+   * Which text of a pair loses tokens.
+   *
+   * @since 0.1.0
+   */
   public enum Strategy {
     /** Remove one token at a time from whichever text is currently longer (ties: the second). */
     LONGEST_FIRST,

@@ -395,7 +395,11 @@ public final class TextFormats {
 
   // ------------------------------------------------------------------ pair lists
 
-  /** One ranked pair of a pair list. Immutable. */
+  /**
+   * One ranked pair of a pair list. Immutable.
+   *
+   * @since 0.1.0
+   */
   public static final class Pair {
     private final byte[] left;
     private final byte[] right;

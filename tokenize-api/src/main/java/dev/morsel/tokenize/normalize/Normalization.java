@@ -60,7 +60,11 @@ import java.util.Objects;
  * @since 0.1.0
  */
 public final class Normalization {
-  /** The Unicode normalization form applied first. */
+  /**
+   * The Unicode normalization form applied first.
+   *
+   * @since 0.1.0
+   */
   public enum Form {
     /** No normalization form; options still apply. */
     NONE,
@@ -733,6 +737,8 @@ public final class Normalization {
   /**
    * Builder; every option starts off and the form starts as {@link Form#NONE}. Not thread-safe;
    * {@link #build()} returns an immutable instance.
+   *
+   * @since 0.1.0
    */
   public static final class Builder {
     private Form form = Form.NONE;

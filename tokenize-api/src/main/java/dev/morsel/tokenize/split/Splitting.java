@@ -73,7 +73,11 @@ import java.util.Objects;
  * @since 0.1.0
  */
 public final class Splitting {
-  /** The splitting rule set. */
+  /**
+   * The splitting rule set.
+   *
+   * @since 0.1.0
+   */
   public enum Mode { RULES, WORDS, WHITESPACE, NONE }
 
   // ---------------------------------------------------------------- configuration

@@ -364,7 +364,10 @@ public final class PieceCounter {
   // ---------------------------------------------------------------- builder
 
   /** Builder; not thread-safe. Defaults: {@link Pipeline#defaults()}, all available processors,
-   *  {@value #DEFAULT_MAX_DISTINCT_PIECES} distinct pieces, no listener. */
+   *  {@value #DEFAULT_MAX_DISTINCT_PIECES} distinct pieces, no listener.
+   *
+   * @since 0.1.0
+   */
   public static final class Builder {
     private Pipeline pipeline;
     private int threads = Runtime.getRuntime().availableProcessors();

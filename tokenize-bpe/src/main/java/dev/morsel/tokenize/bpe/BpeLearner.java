@@ -135,7 +135,11 @@ public final class BpeLearner {
     return BpeSegmenter.create(v, BpeSegmenter.DEFAULT_CACHE_ENTRIES);
   }
 
-  /** Builder; every setting is checked at {@link #build()}. Not thread-safe. */
+  /**
+   * Builder; every setting is checked at {@link #build()}. Not thread-safe.
+   *
+   * @since 0.1.0
+   */
   public static final class Builder {
     private int vocabularySize = DEFAULT_VOCABULARY_SIZE;
     private long minPairCount = DEFAULT_MIN_PAIR_COUNT;

@@ -101,7 +101,11 @@ public final class WordPieceLearner {
    */
   public static final long DEFAULT_MIN_PAIR_COUNT = 1;
 
-  /** How the trainer ranks candidate pairs (a, b); both are likelihood-based after [1]. */
+  /**
+   * How the trainer ranks candidate pairs (a, b); both are likelihood-based after [1].
+   *
+   * @since 0.1.0
+   */
   public enum Score {
     /**
      * The log-likelihood gain of a merge under a unigram model of the units, estimated at the
@@ -142,7 +146,11 @@ public final class WordPieceLearner {
     return new Builder();
   }
 
-  /** Builds {@link WordPieceLearner}s. Not thread-safe. */
+  /**
+   * Builds {@link WordPieceLearner}s. Not thread-safe.
+   *
+   * @since 0.1.0
+   */
   public static final class Builder {
     private int vocabularySize = DEFAULT_VOCABULARY_SIZE;
     private long minCount = DEFAULT_MIN_COUNT;

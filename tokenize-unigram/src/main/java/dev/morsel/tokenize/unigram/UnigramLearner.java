@@ -49,7 +49,11 @@ public final class UnigramLearner {
         b.rawBytes, b.controlTokens, b.unknownToken, b.threads, b.seedTableLimit, b.listener).train(counts);
   }
 
-  /** Settings for a {@link UnigramLearner}. Not thread-safe. */
+  /**
+   * Settings for a {@link UnigramLearner}. Not thread-safe.
+   *
+   * @since 0.1.0
+   */
   public static final class Builder {
     private int vocabularySize = 8000;
     private int seedFactor = 8;

@@ -1,0 +1,84 @@
+package dev.morsel.tokenize.modules;
+
+import static org.junit.jupiter.api.Assertions.assertEquals;
+import static org.junit.jupiter.api.Assertions.assertFalse;
+import static org.junit.jupiter.api.Assertions.assertTrue;
+
+import java.io.IOException;
+import java.io.InputStream;
+import java.lang.module.ModuleDescriptor;
+import java.nio.file.Files;
+import java.nio.file.Path;
+import java.nio.file.Paths;
+import java.util.Set;
+import java.util.TreeSet;
+import java.util.stream.Collectors;
+import java.util.stream.Stream;
+import org.junit.jupiter.api.Test;
+
+/**
+ * The compiled module descriptor of {@code tokenize-api}, read with the JDK's own parser
+ * ({@link ModuleDescriptor#read}, the {@code Module} attribute of JVMS 17 §4.7.25): the module
+ * exports exactly its public API packages, none of them only to friends, and uses the segmenter SPI.
+ * The compiled classes are listed too, so a new package cannot slip in unexported or exported by
+ * accident.
+ */
+class ModuleDescriptorTest {
+  private static final Path CLASSES = Paths.get("target/classes");
+
+  private static final Set<String> API_PACKAGES = Set.of(
+      "dev.morsel.tokenize",
+      "dev.morsel.tokenize.normalize",
+      "dev.morsel.tokenize.split",
+      "dev.morsel.tokenize.format",
+      "dev.morsel.tokenize.train",
+      "dev.morsel.tokenize.spi");
+
+  @Test
+  void exportsExactlyTheApiPackagesToEveryone() throws IOException {
+    ModuleDescriptor d = descriptor();
+    assertEquals("dev.morsel.tokenize", d.name());
+    assertFalse(d.isOpen(), "the module must not be open to reflection");
+    assertTrue(d.opens().isEmpty(), "no package is opened: " + d.opens());
+    Set<String> exported = new TreeSet<>();
+    for (ModuleDescriptor.Exports e : d.exports()) {
+      assertFalse(e.isQualified(), "qualified export " + e);
+      exported.add(e.source());
+    }
+    assertEquals(new TreeSet<>(API_PACKAGES), exported);
+  }
+
+  @Test
+  void everyCompiledPackageIsAnExportedApiPackage() throws IOException {
+    // this module has no internal package: every package it compiles is API
+    assertEquals(new TreeSet<>(API_PACKAGES), compiledPackages());
+    assertEquals(compiledPackages(), new TreeSet<>(descriptor().packages()));
+  }
+
+  @Test
+  void usesTheSegmenterSpiAndRequiresOnlyItsTwoLibraries() throws IOException {
+    ModuleDescriptor d = descriptor();
+    assertEquals(Set.of("dev.morsel.tokenize.spi.SegmenterProvider"), d.uses());
+    assertTrue(d.provides().isEmpty(), "the api provides no segmenter: " + d.provides());
+    Set<String> required = d.requires().stream()
+        .filter(r -> !r.name().equals("java.base"))
+        .map(ModuleDescriptor.Requires::name)
+        .collect(Collectors.toCollection(TreeSet::new));
+    assertEquals(new TreeSet<>(Set.of("com.ibm.icu", "it.unimi.dsi.fastutil.core")), required);
+  }
+
+  static ModuleDescriptor descriptor() throws IOException {
+    try (InputStream in = Files.newInputStream(CLASSES.resolve("module-info.class"))) {
+      return ModuleDescriptor.read(in);
+    }
+  }
+
+  static Set<String> compiledPackages() throws IOException {
+    try (Stream<Path> files = Files.walk(CLASSES)) {
+      return files
+          .filter(p -> p.toString().endsWith(".class") && !p.getFileName().toString().equals("module-info.class"))
+          .map(p -> CLASSES.relativize(p.getParent()).toString().replace(java.io.File.separatorChar, '.'))
+          .collect(Collectors.toCollection(TreeSet::new));
+    }
+  }
+}
