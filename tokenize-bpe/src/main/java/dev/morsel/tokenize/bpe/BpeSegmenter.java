@@ -383,7 +383,7 @@ public final class BpeSegmenter implements Segmenter {
 
   @Override
   public void write(ModelWriter out) {
-    BpeSections.write(out, vocab, cacheEntries);
+    BpeSections.write(out, vocab, DEFAULT_CACHE_ENTRIES);
   }
 
   /**

@@ -17,7 +17,8 @@ import java.util.List;
  *   u32 layout version (1)
  *   u32 control count k (&lt;= {@link #MAX_CONTROLS})
  *   k x (u32 byte length, UTF-8 spelling)   control spellings in id order (ids 0..k-1)
- *   u32 cache size default (entries, 0 = off, &lt;= {@link #MAX_CACHE_ENTRIES})
+ *   u32 cache size (entries, 0 = off, &lt;= {@link #MAX_CACHE_ENTRIES}); writers put the default here,
+ *       since the cache is a runtime setting that changes no result and so must not change the fingerprint
  * BPEM  merges
  *   u32 merge count m (&lt;= {@link #MAX_MERGES})
  *   m x (u32 left id, u32 right id)           in rank order; merge r is id k+256+r
