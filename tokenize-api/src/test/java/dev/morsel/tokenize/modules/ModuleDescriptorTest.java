@@ -14,6 +14,7 @@ import java.util.Set;
 import java.util.TreeSet;
 import java.util.stream.Collectors;
 import java.util.stream.Stream;
+import dev.morsel.tokenize.testkit.ModuleChecks;
 import org.junit.jupiter.api.Test;
 
 /**
@@ -35,29 +36,20 @@ class ModuleDescriptorTest {
       "dev.morsel.tokenize.spi");
 
   @Test
-  void exportsExactlyTheApiPackagesToEveryone() throws IOException {
-    ModuleDescriptor d = descriptor();
-    assertEquals("dev.morsel.tokenize", d.name());
-    assertFalse(d.isOpen(), "the module must not be open to reflection");
-    assertTrue(d.opens().isEmpty(), "no package is opened: " + d.opens());
-    Set<String> exported = new TreeSet<>();
-    for (ModuleDescriptor.Exports e : d.exports()) {
-      assertFalse(e.isQualified(), "qualified export " + e);
-      exported.add(e.source());
-    }
-    assertEquals(new TreeSet<>(API_PACKAGES), exported);
+  void exportsExactlyTheApiPackagesToEveryone() {
+    ModuleChecks.assertExportsExactly("dev.morsel.tokenize", API_PACKAGES);
   }
 
   @Test
-  void everyCompiledPackageIsAnExportedApiPackage() throws IOException {
+  void everyCompiledPackageIsAnExportedApiPackage() {
     // this module has no internal package: every package it compiles is API
-    assertEquals(new TreeSet<>(API_PACKAGES), compiledPackages());
-    assertEquals(compiledPackages(), new TreeSet<>(descriptor().packages()));
+    assertEquals(new TreeSet<>(API_PACKAGES), ModuleChecks.compiledPackages());
+    assertEquals(ModuleChecks.compiledPackages(), new TreeSet<>(ModuleChecks.descriptor().packages()));
   }
 
   @Test
-  void usesTheSegmenterSpiAndRequiresOnlyItsTwoLibraries() throws IOException {
-    ModuleDescriptor d = descriptor();
+  void usesTheSegmenterSpiAndRequiresOnlyItsTwoLibraries() {
+    ModuleDescriptor d = ModuleChecks.descriptor();
     assertEquals(Set.of("dev.morsel.tokenize.spi.SegmenterProvider"), d.uses());
     assertTrue(d.provides().isEmpty(), "the api provides no segmenter: " + d.provides());
     Set<String> required = d.requires().stream()
@@ -65,20 +57,5 @@ class ModuleDescriptorTest {
         .map(ModuleDescriptor.Requires::name)
         .collect(Collectors.toCollection(TreeSet::new));
     assertEquals(new TreeSet<>(Set.of("com.ibm.icu", "it.unimi.dsi.fastutil.core")), required);
-  }
-
-  static ModuleDescriptor descriptor() throws IOException {
-    try (InputStream in = Files.newInputStream(CLASSES.resolve("module-info.class"))) {
-      return ModuleDescriptor.read(in);
-    }
-  }
-
-  static Set<String> compiledPackages() throws IOException {
-    try (Stream<Path> files = Files.walk(CLASSES)) {
-      return files
-          .filter(p -> p.toString().endsWith(".class") && !p.getFileName().toString().equals("module-info.class"))
-          .map(p -> CLASSES.relativize(p.getParent()).toString().replace(java.io.File.separatorChar, '.'))
-          .collect(Collectors.toCollection(TreeSet::new));
-    }
   }
 }
