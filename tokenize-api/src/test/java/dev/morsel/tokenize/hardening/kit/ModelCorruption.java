@@ -243,6 +243,37 @@ public final class ModelCorruption {
     };
   }
 
+  /**
+   * Every kind of damage on {@code model}: every header and table byte, {@code perSection} payload
+   * changes per section, truncations ({@code truncations} beyond the table), forged section lengths,
+   * and {@code forgedPerSection} changes under valid checksums per section (a model that loads must
+   * encode and decode {@code samples}). Asserts that rejecting raw damage allocated at most the
+   * file's size, and rejecting forged damage at most {@code forgedFactor} times the file's size plus
+   * 1 MiB (found only after a segmenter was built from the other sections: proportional to the
+   * model, never to a forged count). Prints a summary line and returns the harness.
+   */
+  public static ModelCorruption everyDamage(String name, byte[] model, List<String> samples, Counts counts, long seed,
+      int perSection, int truncations, int forgedPerSection, long forgedFactor) {
+    ModelCorruption c = new ModelCorruption(name, model, samples, counts);
+    c.everyHeaderAndTableByte();
+    c.sampledPayloadChanges(seed, perSection);
+    c.truncations(seed, truncations);
+    c.forgedSectionLengths();
+    c.forgedPayloads(seed, forgedPerSection, c.encodeSamples());
+    System.out.println("[model corruption] " + name + ": " + model.length + "-byte model, sections " + c.tags()
+        + ", table ends at " + c.tableEnd() + "; largest allocation while rejecting raw damage "
+        + c.maxRejectedAllocation() + " bytes (" + c.maxRejectedCase() + "), forged damage " + c.maxForgedAllocation()
+        + " bytes");
+    if (c.maxRejectedAllocation() > model.length) {
+      throw new AssertionError(name + ": rejecting allocated " + c.maxRejectedAllocation() + " bytes for a "
+          + model.length + "-byte model (" + c.maxRejectedCase() + ")");
+    }
+    if (c.maxForgedAllocation() > forgedFactor * model.length + (1 << 20)) {
+      throw new AssertionError(name + ": forged damage allocated " + c.maxForgedAllocation() + " bytes");
+    }
+    return c;
+  }
+
   // ------------------------------------------------------------------ internals
 
   private void rejected(byte[] f, String what, String section) {
