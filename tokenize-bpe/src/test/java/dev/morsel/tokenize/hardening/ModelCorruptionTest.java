@@ -2,8 +2,6 @@ package dev.morsel.tokenize.hardening;
 
 import dev.morsel.tokenize.hardening.kit.*;
 
-import static org.junit.jupiter.api.Assertions.assertTrue;
-
 import dev.morsel.tokenize.Tokenizer;
 import java.util.List;
 import org.junit.jupiter.api.AfterAll;
@@ -34,23 +32,8 @@ class ModelCorruptionTest {
     Tokenizer t = Models.tokenizer(kind, "nfkc+casefold");
     byte[] model = t.toBytes();
     List<String> samples = List.of("Skarvøy ferry delayed: ＦＥＲＲＹ ﬁn 🧑‍🚒 \uD800 {~final-call~}", "Überfahrt nach Ålesund");
-    ModelCorruption c = new ModelCorruption(kind.name(), model, samples, counts);
-    long seed = 0xC0FFEE00L + kind.ordinal();
-    c.everyHeaderAndTableByte();
-    c.sampledPayloadChanges(seed, PER_SECTION);
-    c.truncations(seed, TRUNCATIONS);
-    c.forgedSectionLengths();
-    c.forgedPayloads(seed, FORGED_PER_SECTION, c.encodeSamples());
-    System.out.println("[model corruption] " + kind + ": " + model.length + "-byte model, sections " + c.tags()
-        + ", table ends at " + c.tableEnd() + "; largest allocation while rejecting raw damage "
-        + c.maxRejectedAllocation() + " bytes (" + c.maxRejectedCase() + "), forged damage " + c.maxForgedAllocation() + " bytes");
-    // steady state (a case over 64 KiB is measured twice, so first-use class loading does not count)
-    assertTrue(c.maxRejectedAllocation() <= model.length, "rejecting allocated " + c.maxRejectedAllocation()
-        + " bytes for a " + model.length + "-byte model (" + c.maxRejectedCase() + ")");
-    // damage under valid checksums may be found only after a segmenter was built from the other
-    // sections: that costs memory in proportion to the model, never to a forged count
-    assertTrue(c.maxForgedAllocation() <= FORGED_ALLOCATION_FACTOR * model.length + (1 << 20),
-        "forged damage allocated " + c.maxForgedAllocation());
+    ModelCorruption.everyDamage(kind.name(), model, samples, counts, 0xC0FFEE00L + kind.ordinal(), PER_SECTION,
+        TRUNCATIONS, FORGED_PER_SECTION, FORGED_ALLOCATION_FACTOR);
   }
 
   @AfterAll

@@ -37,7 +37,7 @@ final class Models {
   static final int BODIES = 1_500;
 
   /** The normalization forms every property runs under. */
-  static final List<String> FORMS = List.of("none", "nfc", "nfkc", "nfkc+casefold", "nfd+remove-marks");
+  static final List<String> FORMS = PropertySweep.FORMS;
 
   /** The segmenters of this module. */
   enum Kind {

@@ -2,15 +2,10 @@ package dev.morsel.tokenize.hardening;
 
 import dev.morsel.tokenize.hardening.kit.*;
 
-import static org.junit.jupiter.api.Assertions.assertEquals;
 import static org.junit.jupiter.api.Assertions.assertTrue;
 
-import dev.morsel.tokenize.Tokens;
-import dev.morsel.tokenize.Trust;
 import java.util.ArrayList;
 import java.util.List;
-import java.util.SplittableRandom;
-import java.util.concurrent.ForkJoinPool;
 import java.util.stream.Stream;
 import org.junit.jupiter.api.AfterAll;
 import org.junit.jupiter.api.TestInstance;
@@ -53,48 +48,18 @@ class SegmenterPropertyTest {
   @MethodSource("subjects")
   void everyPropertyHolds(Models.Kind kind, String form) {
     Subject s = Models.subject(kind, form);
-    long[] seeds = Seeds.cases(BASE_SEED + kind.ordinal() * 0x1_0000_0000L + form.hashCode() * 65_537L, CASES);
-    List<String> texts = new ArrayList<>();
-    List<Tokens> results = new ArrayList<>();
-    for (long seed : seeds) {
-      String text = HardText.next(new SplittableRandom(seed), MAX_UNITS);
-      Tokens t = TokenizerProperties.check(s, seed, text, counts);
-      counts.add("generated texts, " + s.name());
-      counts.add("generated texts (all)");
-      if (texts.size() < 2_000) {
-        texts.add(text);
-        results.add(t);
-      }
-    }
-    List<Tokens> batch = s.main().encodeAll(texts, Trust.UNTRUSTED, ForkJoinPool.commonPool());
-    for (int i = 0; i < texts.size(); i++) {
-      if (!batch.get(i).equals(results.get(i))) {
-        throw new AssertionError(HardText.replay(s + " batch vs sequential", seeds[i], texts.get(i)));
-      }
-    }
-    counts.add("batch (many threads) equals sequential", texts.size());
-    assertEquals(texts.size(), batch.size());
-
+    long salt = kind.ordinal() * 0x1_0000_0000L + form.hashCode() * 65_537L;
     // prose: seeded slices of held-out Europarl bodies, where WordPiece rarely needs its unknown
     // token, so that its round trip is checked as often as BPE's
-    List<String> prose = Models.heldOut(500, 4000);
-    long[] proseSeeds = Seeds.cases(~BASE_SEED + kind.ordinal() * 0x1_0000_0000L + form.hashCode() * 65_537L,
-        PROSE_CASES);
-    for (long seed : proseSeeds) {
-      SplittableRandom rnd = new SplittableRandom(seed);
-      String body = prose.get(rnd.nextInt(prose.size()));
-      int from = rnd.nextInt(body.length());
-      String text = body.substring(from, Math.min(body.length(), from + rnd.nextInt(1, 200)));
-      TokenizerProperties.check(s, seed, text, counts);
-      counts.add("prose slices, " + s.name());
-    }
+    PropertySweep.run(s, BASE_SEED + salt, CASES, MAX_UNITS, ~BASE_SEED + salt, Models.heldOut(500, 4000),
+        PROSE_CASES, counts);
   }
 
   @AfterAll
   void report() {
     counts.print();
     if (!Seeds.replaying()) {
-      assertTrue(counts.get("generated texts (all)") >= 100_000L, "generated: " + counts.get("generated texts (all)"));
+      assertTrue(counts.get(PropertySweep.GENERATED) >= 100_000L, "generated: " + counts.get(PropertySweep.GENERATED));
     }
   }
 }

@@ -2,19 +2,13 @@ package dev.morsel.tokenize.hardening;
 
 import dev.morsel.tokenize.hardening.kit.*;
 
-import static org.junit.jupiter.api.Assertions.assertEquals;
 import static org.junit.jupiter.api.Assertions.assertTrue;
 
-import dev.morsel.tokenize.Decoding;
 import dev.morsel.tokenize.Tokenizer;
-import dev.morsel.tokenize.Tokens;
-import dev.morsel.tokenize.Trust;
 import dev.morsel.tokenize.bpe.BpeSegmenter;
 import java.util.ArrayList;
 import java.util.List;
 import java.util.SplittableRandom;
-import java.util.concurrent.ExecutorService;
-import java.util.concurrent.Executors;
 import org.junit.jupiter.api.AfterAll;
 import org.junit.jupiter.api.TestInstance;
 import org.junit.jupiter.params.ParameterizedTest;
@@ -53,32 +47,8 @@ class SharedTokenizerConcurrencyTest {
       shared = Models.tokenizer(kind, "nfkc");
       reference = dev.morsel.tokenize.Tokenizers.load(shared.toBytes());
     }
-    List<Tokens> expected = new ArrayList<>();
-    List<String> decoded = new ArrayList<>();
-    for (String s : inputs) {
-      Tokens t = reference.encode(s);
-      expected.add(t);
-      decoded.add(reference.decode(t.ids(), true, Decoding.REPLACE));
-    }
-    SharedUse.Outcome o = SharedUse.run(shared, inputs, expected, decoded, THREADS, ROUNDS, 0xBEEF_0000L + kind.ordinal());
-    counts.add(kind + " shared encodes equal to sequential", o.encodes);
-    counts.add(kind + " per-thread stream decodes equal to batch decode", o.streamDecodes);
-    assertEquals((long) THREADS * ROUNDS * inputs.size(), o.encodes);
-
-    ExecutorService pool = Executors.newFixedThreadPool(THREADS);
-    try {
-      for (int r = 0; r < ROUNDS; r++) {
-        List<Tokens> batch = shared.encodeAll(inputs, Trust.UNTRUSTED, pool);
-        for (int i = 0; i < inputs.size(); i++) {
-          if (!batch.get(i).equals(expected.get(i))) {
-            throw new AssertionError(HardText.replay(kind + " encodeAll on 8 threads", i, inputs.get(i)));
-          }
-        }
-        counts.add(kind + " 8-thread batch results equal to sequential", inputs.size());
-      }
-    } finally {
-      pool.shutdownNow();
-    }
+    SharedUse.againstReference(shared, reference, inputs, THREADS, ROUNDS, 0xBEEF_0000L + kind.ordinal(), counts,
+        kind.toString());
   }
 
   @AfterAll

@@ -13,7 +13,8 @@ import java.util.Objects;
  *
  * <p>Deterministic: there are no random choices; rankings break ties by score, then by token
  * string; EM adds partial sums in a fixed order, so the result does not depend on the thread count.
- * Pieces holding an unpaired surrogate are not learned from. Progress is reported to the listener
+ * Pieces holding an unpaired surrogate, and pieces longer than {@code maxPieceLength} (default
+ * {@value #DEFAULT_MAX_PIECE_LENGTH} UTF-16 units), are not learned from. Progress is reported to the listener
  * under the stages {@code "seed"}, {@code "em"} and {@code "prune"}.
  *
  * <pre>{@code
@@ -26,6 +27,12 @@ import java.util.Objects;
  * @since 0.1.0
  */
 public final class UnigramLearner {
+  /**
+   * Default of {@link Builder#maxPieceLength}, in UTF-16 units (reason: far above any word of prose;
+   * a longer piece is a run without breaks, whose every substring the seed stage would count).
+   */
+  public static final int DEFAULT_MAX_PIECE_LENGTH = 4096;
+
   private final Builder b;
 
   private UnigramLearner(Builder b) {
@@ -40,13 +47,15 @@ public final class UnigramLearner {
   /**
    * Trains on {@code counts}, weighted by count.
    *
-   * @throws IllegalArgumentException if {@code counts} is empty, or {@code vocabularySize} is smaller
-   *     than the reserved ids plus the alphabet (every distinct character of the pieces)
+   * @throws IllegalArgumentException if {@code counts} is empty or no piece is left to learn from
+   *     (all longer than {@code maxPieceLength} or holding an unpaired surrogate), if
+   *     {@code vocabularySize} is smaller than the reserved ids plus the alphabet (every distinct
+   *     character of the pieces), or if a substring's count summed over the pieces overflows a long
    */
   public UnigramModel train(PieceCounts counts) {
     Objects.requireNonNull(counts, "counts");
     return new Training(b.vocabularySize, b.seedFactor, b.maxTokenLength, b.shrinkFactor, b.emIterations,
-        b.rawBytes, b.controlTokens, b.unknownToken, b.threads, b.seedTableLimit, b.listener).train(counts);
+        b.rawBytes, b.controlTokens, b.unknownToken, b.threads, b.seedTableLimit, b.maxPieceLength, b.listener).train(counts);
   }
 
   /**
@@ -65,6 +74,7 @@ public final class UnigramLearner {
     private String unknownToken = UnigramModel.DEFAULT_UNKNOWN;
     private int threads = Math.max(1, Runtime.getRuntime().availableProcessors());
     private int seedTableLimit = 1_000_000;
+    private int maxPieceLength = DEFAULT_MAX_PIECE_LENGTH;
     private TrainingListener listener = TrainingListener.NONE;
 
     private Builder() {}
@@ -81,6 +91,7 @@ public final class UnigramLearner {
       c.unknownToken = unknownToken;
       c.threads = threads;
       c.seedTableLimit = seedTableLimit;
+      c.maxPieceLength = maxPieceLength;
       c.listener = listener;
       return c;
     }
@@ -163,6 +174,15 @@ public final class UnigramLearner {
      */
     public Builder seedTableLimit(int entries) {
       this.seedTableLimit = check("seedTableLimit", entries, 1000, 100_000_000);
+      return this;
+    }
+
+    /**
+     * Longest piece learned from, in UTF-16 units; longer pieces (runs without a break) are left out
+     * of training. Default {@value UnigramLearner#DEFAULT_MAX_PIECE_LENGTH}, range 1..2^26.
+     */
+    public Builder maxPieceLength(int length) {
+      this.maxPieceLength = check("maxPieceLength", length, 1, 1 << 26);
       return this;
     }
 

@@ -4,6 +4,7 @@ import dev.morsel.tokenize.Decoding;
 import dev.morsel.tokenize.StreamDecoder;
 import dev.morsel.tokenize.Tokenizer;
 import dev.morsel.tokenize.Tokens;
+import dev.morsel.tokenize.Trust;
 import java.util.ArrayList;
 import java.util.List;
 import java.util.SplittableRandom;
@@ -109,5 +110,42 @@ public final class SharedUse {
       throw new AssertionError(failure.get());
     }
     return new Outcome(encodes.get(), streams.get());
+  }
+
+  /**
+   * The whole concurrency check of one segmenter: sequential results and decodes from
+   * {@code reference} (a separate instance, ideally cache-less), then {@link #run} on {@code shared},
+   * then {@code rounds} parallel {@code encodeAll} batches on a {@code threads}-thread pool; all must
+   * equal the sequential results. Counts go to {@code counts} under {@code label}.
+   */
+  public static void againstReference(Tokenizer shared, Tokenizer reference, List<String> inputs, int threads,
+      int rounds, long seed, Counts counts, String label) throws Exception {
+    List<Tokens> expected = new ArrayList<>();
+    List<String> decoded = new ArrayList<>();
+    for (String s : inputs) {
+      Tokens t = reference.encode(s);
+      expected.add(t);
+      decoded.add(reference.decode(t.ids(), true, Decoding.REPLACE));
+    }
+    Outcome o = run(shared, inputs, expected, decoded, threads, rounds, seed);
+    if (o.encodes != (long) threads * rounds * inputs.size()) {
+      throw new AssertionError(label + ": " + o.encodes + " shared encodes, expected " + (long) threads * rounds * inputs.size());
+    }
+    counts.add(label + " shared encodes equal to sequential", o.encodes);
+    counts.add(label + " per-thread stream decodes equal to batch decode", o.streamDecodes);
+    ExecutorService pool = Executors.newFixedThreadPool(threads);
+    try {
+      for (int r = 0; r < rounds; r++) {
+        List<Tokens> batch = shared.encodeAll(inputs, Trust.UNTRUSTED, pool);
+        for (int i = 0; i < inputs.size(); i++) {
+          if (!batch.get(i).equals(expected.get(i))) {
+            throw new AssertionError(HardText.replay(label + " encodeAll on " + threads + " threads", i, inputs.get(i)));
+          }
+        }
+        counts.add(label + " " + threads + "-thread batch results equal to sequential", inputs.size());
+      }
+    } finally {
+      pool.shutdownNow();
+    }
   }
 }

@@ -46,7 +46,10 @@ final class SeedCounter {
       for (int s = 0; s < cps; s++) {
         int maxLen = Math.min(maxTokenLength, cps - s);
         for (int len = 1; len <= maxLen; len++) {
-          table.addTo(p.substring(offsets[s], offsets[s + len]), c);
+          String sub = p.substring(offsets[s], offsets[s + len]);
+          if (table.addTo(sub, c) > Long.MAX_VALUE - c) {
+            throwOverflow(sub, c);
+          }
         }
       }
       if (table.size() > tableLimit) {
@@ -111,6 +114,11 @@ final class SeedCounter {
       logp[i] = Math.log(logp[i]) - logSum;
     }
     return new Seeds(tokens, logp, ns);
+  }
+
+  private static void throwOverflow(String sub, long c) {
+    throw new IllegalArgumentException("the count of substring '" + sub + "' summed over the pieces overflows a"
+        + " long (adding " + c + "); scale the piece counts down");
   }
 
   /** Whether {@code s} is one code point. */

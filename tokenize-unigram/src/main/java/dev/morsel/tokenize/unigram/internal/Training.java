@@ -37,12 +37,13 @@ public final class Training {
   private final String unknown;
   private final int threads;
   private final int seedTableLimit;
+  private final int maxPieceLength;
   private final TrainingListener listener;
 
   /** All settings already validated by the public builder. */
   public Training(int vocabularySize, int seedFactor, int maxTokenLength, double shrinkFactor, int emIterations,
       boolean rawBytes, List<String> controls, String unknown, int threads, int seedTableLimit,
-      TrainingListener listener) {
+      int maxPieceLength, TrainingListener listener) {
     this.vocabularySize = vocabularySize;
     this.seedFactor = seedFactor;
     this.maxTokenLength = maxTokenLength;
@@ -53,6 +54,7 @@ public final class Training {
     this.unknown = unknown;
     this.threads = threads;
     this.seedTableLimit = seedTableLimit;
+    this.maxPieceLength = maxPieceLength;
     this.listener = listener;
   }
 
@@ -65,8 +67,13 @@ public final class Training {
     List<String> corpusList = new ArrayList<>(n);
     long[] weights = new long[n];
     IntOpenHashSet alphabet = new IntOpenHashSet();
+    int tooLong = 0;
     for (int i = 0; i < n; i++) {
       String p = counts.piece(i);
+      if (p.length() > maxPieceLength) {
+        tooLong++;
+        continue; // a run without breaks: its substrings would swamp the seed; not learned from
+      }
       if (UnigramSegmenter.unpairedSurrogate(p) >= 0) {
         continue; // an unpaired surrogate cannot be a token; such pieces are not learned from
       }
@@ -75,7 +82,10 @@ public final class Training {
       p.codePoints().forEach(alphabet::add);
     }
     if (corpusList.isEmpty()) {
-      throw new IllegalArgumentException("every piece holds an unpaired surrogate; nothing to train on");
+      throw new IllegalArgumentException(tooLong == 0 ? "every piece holds an unpaired surrogate; nothing to train on"
+          : tooLong + " of " + n + " pieces are longer than maxPieceLength="
+          + maxPieceLength + " (UnigramLearner.Builder.maxPieceLength) and the rest hold an unpaired surrogate;"
+          + " nothing to train on");
     }
     String[] corpus = corpusList.toArray(new String[0]);
     weights = Arrays.copyOf(weights, corpus.length);
