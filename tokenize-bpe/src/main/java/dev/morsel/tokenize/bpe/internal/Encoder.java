@@ -186,10 +186,13 @@ public final class Encoder {
         break;
       }
       sym[best] = mergeBase + bestRank;
-      int tail = m - best - 2;
-      System.arraycopy(sym, best + 2, sym, best + 1, tail);
-      System.arraycopy(at, best + 2, at, best + 1, tail);
-      System.arraycopy(rk, best + 2, rk, best + 1, Math.max(0, tail - 1));
+      // plain loops: at most 14 elements move, where three System.arraycopy calls per merge cost more
+      // than the moves themselves
+      for (int i = best + 1; i + 1 < m; i++) {
+        sym[i] = sym[i + 1];
+        at[i] = at[i + 1];
+        rk[i] = rk[i + 1];
+      }
       m--;
       if (best > 0) {
         rk[best - 1] = vocab.rank(sym[best - 1], sym[best]);
