@@ -75,7 +75,9 @@ public final class WordPieceSegmenter implements Segmenter {
   /**
    * Word-initial token bodies as whole pieces: greedy longest-match-first takes a piece that is itself
    * a word-initial token as that one token (no longer prefix exists), so one hash probe replaces a
-   * walk of one trie transition per char. Measured with the 30k Europarl model: see the commit.
+   * walk of one trie transition per char. Measured with a seg-only harness (split + segment over
+   * the Europarl bodies, 30k model, thread CPU time, best of 6 passes): 17.6 / 18.5 MB/s without,
+   * 22.7 / 21.3 MB/s with.
    */
   private final WholePieces whole;
   private final ThreadLocal<int[]> scratch;
