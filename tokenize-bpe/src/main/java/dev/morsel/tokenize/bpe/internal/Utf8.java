@@ -89,4 +89,59 @@ public final class Utf8 {
       out.write(0x80 | (cp & 0x3F));
     }
   }
+
+  /**
+   * Strict UTF-8 (RFC 3629 section 3: no overlong forms, no surrogates, nothing above U+10FFFF) of
+   * {@code bytes[from, from + len)} into {@code out}; the char count, or -1 if malformed or longer
+   * than {@code out}. Allocates nothing.
+   */
+  public static int decodeStrict(byte[] bytes, int from, int len, char[] out) {
+    int n = 0;
+    int end = from + len;
+    for (int i = from; i < end; ) {
+      int b = bytes[i] & 0xFF;
+      int cp;
+      int w;
+      if (b < 0x80) {
+        cp = b;
+        w = 1;
+      } else if (b >= 0xC2 && b < 0xE0) {
+        cp = b & 0x1F;
+        w = 2;
+      } else if (b >= 0xE0 && b < 0xF0) {
+        cp = b & 0x0F;
+        w = 3;
+      } else if (b >= 0xF0 && b < 0xF5) {
+        cp = b & 0x07;
+        w = 4;
+      } else {
+        return -1;
+      }
+      if (i + w > end) {
+        return -1;
+      }
+      for (int k = 1; k < w; k++) {
+        int c = bytes[i + k] & 0xFF;
+        if ((c & 0xC0) != 0x80) {
+          return -1;
+        }
+        cp = (cp << 6) | (c & 0x3F);
+      }
+      if ((w == 3 && (cp < 0x800 || (cp >= 0xD800 && cp < 0xE000))) || (w == 4 && (cp < 0x10000 || cp > 0x10FFFF))) {
+        return -1;
+      }
+      int units = cp >= 0x10000 ? 2 : 1;
+      if (n + units > out.length) {
+        return -1;
+      }
+      if (units == 2) {
+        out[n++] = Character.highSurrogate(cp);
+        out[n++] = Character.lowSurrogate(cp);
+      } else {
+        out[n++] = (char) cp;
+      }
+      i += w;
+    }
+    return n;
+  }
 }

@@ -40,12 +40,13 @@ public final class Vocab {
    */
   final int[] bytePairRanks;
   /**
-   * Every merge as an open-addressing table of {@code (left << 16 | right, rank)} int pairs stored
-   * side by side, so a probe reads one cache line (the general map reads a key array and a value
-   * array); load factor at most 1/2, linear probing, Fibonacci hashing. Null when the vocabulary has
+   * Every merge as an open-addressing table of longs {@code (left << 16 | right) << 32 | rank}, so a
+   * probe reads one slot of one cache line (the general map reads a key array and a value array);
+   * -1 marks an empty slot (no key is -1, as ids stay below 0xFFFF); load factor at most 1/2, linear
+   * probing, Fibonacci hashing. Null when the vocabulary has
    * more than 65,535 ids (ids no longer fit 16 bits); then the general map answers.
    */
-  final int[] pairTable;
+  final long[] pairTable;
   final int pairShift;
   final String[] display;
   final Object2IntOpenHashMap<String> displayIds;
@@ -64,18 +65,19 @@ public final class Vocab {
     int merges = left.length;
     int size = k + 256 + merges;
     if (size <= 65_535) {
-      int bits = Math.max(2, 33 - Integer.numberOfLeadingZeros(Math.max(1, 2 * merges - 1)));
+      // load at most 1/2: 32k merges take 2^16 slots of 8 bytes (512 KiB, half of this machine's
+      // 1 MiB L2) instead of 2^17 int pairs (1 MiB) at load 1/4
+      int bits = Math.max(2, 32 - Integer.numberOfLeadingZeros(Math.max(1, 2 * merges - 1)));
       int cap = 1 << bits;
-      int[] table = new int[2 * cap];
-      java.util.Arrays.fill(table, -1);
+      long[] table = new long[cap];
+      java.util.Arrays.fill(table, -1L);
       for (int r = 0; r < merges; r++) {
         int key = (left[r] << 16) | right[r];
         int i = (key * 0x9E3779B9) >>> (32 - bits);
-        while (table[2 * i] != -1) {
+        while (table[i] != -1L) {
           i = (i + 1) & (cap - 1);
         }
-        table[2 * i] = key;
-        table[2 * i + 1] = r;
+        table[i] = ((long) key << 32) | r;
       }
       this.pairTable = table;
       this.pairShift = 32 - bits;
@@ -226,26 +228,25 @@ public final class Vocab {
     if ((x | y) >= 0 && x < 256 && y < 256) {
       return bytePairRanks[(x << 8) | y];
     }
-    final int[] t = pairTable;
+    final long[] t = pairTable;
     if (t == null) {
       return ranks.get(pair(a, b));
     }
     int key = (a << 16) | b;
-    int mask = (t.length >>> 1) - 1;
+    int mask = t.length - 1;
     int i = (key * 0x9E3779B9) >>> pairShift;
     while (true) {
-      int found = t[2 * i];
-      if (found == key) {
-        return t[2 * i + 1];
+      long e = t[i];
+      if ((int) (e >>> 32) == key) {
+        return (int) e;
       }
-      if (found == -1) {
+      if (e == -1L) {
         return -1;
       }
       i = (i + 1) & mask;
     }
   }
 
-  /** Display spelling of {@code id}. */
   public String display(int id) {
     return display[id];
   }

@@ -20,8 +20,13 @@ final class PieceTrie {
   private final int[] first;
   private final int[] rootAscii = new int[128];
   private final int maxDepth;
-  private final long[] tableKey;
-  private final int[] tableChild;
+  /**
+   * (key, child) in adjacent slots, so a probe reads one cache line instead of one in each of two
+   * arrays. Viterbi's child lookups took 76% of the profile samples of a seg-only harness (split +
+   * segment over the Europarl bodies, 32k model); this layout measured within noise there (19.6 /
+   * 19.5 MB/s before, 17.4 / 20.5 after, shared 2-core machine).
+   */
+  private final long[] table;
   private final int mask;
 
   /**
@@ -89,19 +94,20 @@ final class PieceTrie {
     this.first = Arrays.copyOf(fst, next + 1);
     this.maxDepth = depth;
     int tcap = Integer.highestOneBit(Math.max(4, next) * 2 - 1) * 2; // load factor at most 1/2
-    this.tableKey = new long[tcap];
-    this.tableChild = new int[tcap];
+    this.table = new long[2 * tcap];
     this.mask = tcap - 1;
-    Arrays.fill(tableKey, EMPTY);
+    for (int i = 0; i < table.length; i += 2) {
+      table[i] = EMPTY;
+    }
     for (int k = 0; k < next; k++) {
       for (int c = first[k]; c < first[k + 1]; c++) {
         long key = (long) k << 16 | label[c];
         int h = hash(key) & mask;
-        while (tableKey[h] != EMPTY) {
+        while (table[2 * h] != EMPTY) {
           h = (h + 1) & mask;
         }
-        tableKey[h] = key;
-        tableChild[h] = c;
+        table[2 * h] = key;
+        table[2 * h + 1] = c;
       }
     }
     Arrays.fill(rootAscii, -1);
@@ -139,14 +145,15 @@ final class PieceTrie {
     }
     long key = (long) node << 16 | c;
     int h = hash(key) & mask;
+    final long[] t = table;
     long k;
-    while ((k = tableKey[h]) != key) {
+    while ((k = t[2 * h]) != key) {
       if (k == EMPTY) {
         return -1;
       }
       h = (h + 1) & mask;
     }
-    return tableChild[h];
+    return (int) t[2 * h + 1];
   }
 
   /** Mixes the key bits (the 64-bit finalizer of MurmurHash3, Appleby 2011). */

@@ -56,6 +56,8 @@ public final class UnigramSegmenter implements UnigramModel {
   private final double[] score;
   private final Object2IntOpenHashMap<String> ids;
   private final PieceTrie trie;
+  /** Pieces that are their own Viterbi path: one probe instead of a Viterbi pass (see wholePieces). */
+  private final WholePieces whole;
   private final int controlCount;
   private final boolean rawBytes;
   private final int byteBase;
@@ -153,6 +155,35 @@ public final class UnigramSegmenter implements UnigramModel {
       values[i] = firstPiece + i;
     }
     this.trie = new PieceTrie(pieces, values);
+    this.whole = wholePieces(pieces);
+  }
+
+  /**
+   * The pieces whose Viterbi path is the piece itself as one token, found by running Viterbi on each
+   * vocabulary piece of at most {@link WholePieces#MAX_CHARS} chars once. The path depends on the
+   * piece's chars only, so a lookup gives exactly Viterbi's answer.
+   */
+  private WholePieces wholePieces(String[] pieces) {
+    String[] keep = new String[score.length];
+    int[] found = new int[2]; // the first token, the token count
+    TokenSink count = (tid, a, b) -> {
+      if (found[1]++ == 0) {
+        found[0] = tid;
+      }
+    };
+    for (int i = 0; i < pieces.length; i++) {
+      String p = pieces[i];
+      int n = p.length();
+      if (n == 0 || n > WholePieces.MAX_CHARS) {
+        continue;
+      }
+      found[1] = 0;
+      viterbi(p, 0, n, scratchFor(n), count);
+      if (found[1] == 1 && found[0] == firstPiece + i) {
+        keep[firstPiece + i] = p;
+      }
+    }
+    return WholePieces.of(keep);
   }
 
   private void put(int id, String s, byte[] b, String what, int index, Failure fail) {
@@ -264,6 +295,11 @@ public final class UnigramSegmenter implements UnigramModel {
     checkRange(text, start, end);
     int n = end - start;
     if (n == 0) {
+      return;
+    }
+    int id = whole.find(text, start, end);
+    if (id >= 0) {
+      sink.token(id, start, end);
       return;
     }
     Scratch s = scratchFor(n);
