@@ -82,6 +82,12 @@ public final class Encoder {
   }
 
   /** {@link #segment(CharSequence, int, int, TokenSink, PieceCache)}; without the whole-token table while it is built. */
+  /** Merges the {@code n} bytes loaded in {@code s} by the path that suits their number; returns the token count. */
+  private int merge(Scratch s, int n) {
+    return n <= SHORT_PIECE_BYTES ? mergeShort(s, n) : n < BUCKET_PIECE_BYTES ? mergeHeap(s, n, 0.0, null)
+        : mergeBuckets(s, n);
+  }
+
   private void segment(CharSequence text, int start, int end, TokenSink sink, PieceCache cache, boolean useWhole) {
     if (start >= end) {
       return;
@@ -99,8 +105,7 @@ public final class Encoder {
         sink.token(id, start, end);
         return;
       }
-      int n = s.load(text, start, end);
-      int m = n <= SHORT_PIECE_BYTES ? mergeShort(s, n) : mergeHeap(s, n, 0.0, null);
+      int m = merge(s, s.load(text, start, end));
       recent.store(h, text, start, end, s, m);
       s.emit(m, start, sink);
       return;
@@ -121,9 +126,7 @@ public final class Encoder {
       }
     }
     Scratch s = scratch.get();
-    int n = s.load(text, start, end);
-    int m = n <= SHORT_PIECE_BYTES ? mergeShort(s, n) : n < BUCKET_PIECE_BYTES ? mergeHeap(s, n, 0.0, null)
-        : mergeBuckets(s, n);
+    int m = merge(s, s.load(text, start, end));
     if (cacheable) {
       cache.store(hash, text, start, end, s, m);
     }
