@@ -1,6 +1,6 @@
 package dev.morsel.tokenize.wordpiece;
 
-import dev.morsel.tokenize.bpe.internal.WholePieces;
+import dev.morsel.tokenize.spi.PieceTable;
 import dev.morsel.tokenize.format.ModelFormatException;
 import dev.morsel.tokenize.format.ModelSections;
 import dev.morsel.tokenize.format.ModelWriter;
@@ -79,7 +79,7 @@ public final class WordPieceSegmenter implements Segmenter {
    * the Europarl bodies, 30k model, thread CPU time, best of 6 passes): 17.6 / 18.5 MB/s without,
    * 22.7 / 21.3 MB/s with.
    */
-  private final WholePieces whole;
+  private final PieceTable whole;
   private final ThreadLocal<int[]> scratch;
 
   // ------------------------------------------------------------------ life-cycle
@@ -167,7 +167,7 @@ public final class WordPieceSegmenter implements Segmenter {
         initial[i] = bodies[i];
       }
     }
-    whole = WholePieces.of(initial);
+    whole = PieceTable.of(initial);
     try {
       trie = new LinMaxMatchTrie(bodies, cont, settings.maxPieceLength());
     } catch (IllegalArgumentException e) {

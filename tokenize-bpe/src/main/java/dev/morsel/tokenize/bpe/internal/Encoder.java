@@ -1,5 +1,6 @@
 package dev.morsel.tokenize.bpe.internal;
 
+import dev.morsel.tokenize.spi.PieceTable;
 import dev.morsel.tokenize.spi.TokenSink;
 import java.util.SplittableRandom;
 
@@ -56,7 +57,7 @@ public final class Encoder {
   private final int base; // id of byte 0
   private final int mergeBase; // id of merge rank 0
   private final ThreadLocal<Scratch> scratch = ThreadLocal.withInitial(Scratch::new);
-  private final WholePieces whole;
+  private final PieceTable whole;
 
   /** An encoder over {@code vocab}. */
   public Encoder(Vocab vocab) {
@@ -118,7 +119,7 @@ public final class Encoder {
         return;
       }
     }
-    if (useWhole && len <= WholePieces.MAX_CHARS) {
+    if (useWhole && len <= PieceTable.MAX_CHARS) {
       int id = whole.find(text, start, end);
       if (id >= 0) {
         sink.token(id, start, end);
@@ -408,17 +409,17 @@ public final class Encoder {
 
   /**
    * The pieces that encode to one whole token, found once here: every token whose bytes are
-   * well-formed UTF-8 of at most {@link WholePieces#MAX_CHARS} UTF-16 units is encoded with the merge
+   * well-formed UTF-8 of at most {@link PieceTable#MAX_CHARS} UTF-16 units is encoded with the merge
    * paths above and kept if the result is that token alone. The result of a piece depends on its
    * bytes only, so a piece equal to a kept string has exactly that one-token result: a lookup gives
    * the same answer as merging. Measured on the Europarl bodies with the 32k model: 31,850 of 32,000
    * tokens are kept and 75% of pieces (392,380 of the 524,226 in the first 3,000 bodies) are found.
    * Decodes without allocating, so building from a forged model costs memory in proportion to it.
    */
-  private static WholePieces wholeTokens(Encoder enc, Vocab vocab) {
+  private static PieceTable wholeTokens(Encoder enc, Vocab vocab) {
     int size = vocab.size();
     String[] keep = new String[size];
-    char[] chars = new char[WholePieces.MAX_CHARS];
+    char[] chars = new char[PieceTable.MAX_CHARS];
     int[] found = new int[2]; // the one token, the token count
     TokenSink count = (tid, a, b) -> {
       found[0] = tid;
@@ -437,7 +438,7 @@ public final class Encoder {
         keep[id] = t;
       }
     }
-    return WholePieces.of(keep);
+    return PieceTable.of(keep);
   }
 
   /**

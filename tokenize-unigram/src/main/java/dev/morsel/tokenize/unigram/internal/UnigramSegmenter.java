@@ -3,6 +3,7 @@ package dev.morsel.tokenize.unigram.internal;
 import dev.morsel.tokenize.format.ModelWriter;
 import dev.morsel.tokenize.format.SectionWriter;
 import dev.morsel.tokenize.spi.ByteSink;
+import dev.morsel.tokenize.spi.PieceTable;
 import dev.morsel.tokenize.spi.TokenSink;
 import dev.morsel.tokenize.unigram.Segmentation;
 import dev.morsel.tokenize.unigram.UnigramModel;
@@ -57,7 +58,7 @@ public final class UnigramSegmenter implements UnigramModel {
   private final Object2IntOpenHashMap<String> ids;
   private final PieceTrie trie;
   /** Pieces that are their own Viterbi path: one probe instead of a Viterbi pass (see wholePieces). */
-  private final WholePieces whole;
+  private final PieceTable whole;
   private final int controlCount;
   private final boolean rawBytes;
   private final int byteBase;
@@ -160,10 +161,10 @@ public final class UnigramSegmenter implements UnigramModel {
 
   /**
    * The pieces whose Viterbi path is the piece itself as one token, found by running Viterbi on each
-   * vocabulary piece of at most {@link WholePieces#MAX_CHARS} chars once. The path depends on the
+   * vocabulary piece of at most {@link PieceTable#MAX_CHARS} chars once. The path depends on the
    * piece's chars only, so a lookup gives exactly Viterbi's answer.
    */
-  private WholePieces wholePieces(String[] pieces) {
+  private PieceTable wholePieces(String[] pieces) {
     String[] keep = new String[score.length];
     int[] found = new int[2]; // the first token, the token count
     TokenSink count = (tid, a, b) -> {
@@ -174,7 +175,7 @@ public final class UnigramSegmenter implements UnigramModel {
     for (int i = 0; i < pieces.length; i++) {
       String p = pieces[i];
       int n = p.length();
-      if (n == 0 || n > WholePieces.MAX_CHARS) {
+      if (n == 0 || n > PieceTable.MAX_CHARS) {
         continue;
       }
       found[1] = 0;
@@ -183,7 +184,7 @@ public final class UnigramSegmenter implements UnigramModel {
         keep[firstPiece + i] = p;
       }
     }
-    return WholePieces.of(keep);
+    return PieceTable.of(keep);
   }
 
   private void put(int id, String s, byte[] b, String what, int index, Failure fail) {
