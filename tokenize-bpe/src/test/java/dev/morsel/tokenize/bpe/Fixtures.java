@@ -1,8 +1,5 @@
 package dev.morsel.tokenize.bpe;
 
-import dev.morsel.tokenize.format.ModelFormatException;
-import dev.morsel.tokenize.format.ModelSections;
-import dev.morsel.tokenize.format.SectionReader;
 import dev.morsel.tokenize.train.PieceCounts;
 import java.io.BufferedReader;
 import java.io.ByteArrayOutputStream;
@@ -10,18 +7,12 @@ import java.io.IOException;
 import java.io.InputStream;
 import java.io.InputStreamReader;
 import java.io.UncheckedIOException;
-import java.nio.ByteBuffer;
 import java.nio.charset.StandardCharsets;
-import java.security.MessageDigest;
-import java.security.NoSuchAlgorithmException;
 import java.util.ArrayList;
 import java.util.Collections;
 import java.util.HashMap;
-import java.util.HexFormat;
 import java.util.List;
 import java.util.Map;
-import java.util.Set;
-import java.util.TreeMap;
 import java.util.zip.GZIPInputStream;
 
 /** Test fixtures: the Europarl sample, a local piece rule, token collection, in-memory sections. */
@@ -196,47 +187,5 @@ final class Fixtures {
       return "tokens do not cover [" + start + ", " + end + ")";
     }
     return null;
-  }
-
-  /** Minimal ModelSections over raw payloads (no container). */
-  static final class MapSections implements ModelSections {
-    final Map<String, byte[]> payloads;
-
-    MapSections(Map<String, byte[]> payloads) {
-      this.payloads = new TreeMap<>(payloads);
-    }
-
-    @Override
-    public Set<String> tags() {
-      return payloads.keySet();
-    }
-
-    @Override
-    public boolean has(String tag) {
-      return payloads.containsKey(tag);
-    }
-
-    @Override
-    public SectionReader reader(String tag) {
-      byte[] b = payloads.get(tag);
-      if (b == null) {
-        throw new ModelFormatException(tag, "missing");
-      }
-      return new SectionReader(tag, ByteBuffer.wrap(b));
-    }
-
-    @Override
-    public String fingerprint() {
-      try {
-        MessageDigest md = MessageDigest.getInstance("SHA-256");
-        payloads.forEach((k, v) -> {
-          md.update(k.getBytes(StandardCharsets.US_ASCII));
-          md.update(v);
-        });
-        return HexFormat.of().formatHex(md.digest());
-      } catch (NoSuchAlgorithmException e) {
-        throw new IllegalStateException(e);
-      }
-    }
   }
 }

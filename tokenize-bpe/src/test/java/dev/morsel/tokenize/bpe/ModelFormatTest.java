@@ -1,5 +1,6 @@
 package dev.morsel.tokenize.bpe;
 
+import dev.morsel.tokenize.testkit.Sections;
 import static org.junit.jupiter.api.Assertions.assertArrayEquals;
 import static org.junit.jupiter.api.Assertions.assertEquals;
 import static org.junit.jupiter.api.Assertions.assertThrows;
@@ -58,7 +59,7 @@ class ModelFormatTest {
     BpeSegmenter s = withControls().withCacheEntries(1024);
     Map<String, byte[]> pl = payloads(s);
     assertEquals(java.util.Set.of("BPEC", "BPEM"), pl.keySet());
-    BpeSegmenter back = BpeSegmenter.read(new Fixtures.MapSections(pl));
+    BpeSegmenter back = BpeSegmenter.read(Sections.of(pl));
     assertSameSegmenter(s, back);
     // the cache is a runtime setting: not saved, so a loaded model starts with the default, and the
     // sections (hence the fingerprint) do not depend on it
@@ -82,7 +83,7 @@ class ModelFormatTest {
       }
     }
     assertTrue(found != null, "no provider of kind bpe");
-    assertSameSegmenter(s, found.read(new Fixtures.MapSections(payloads(s))));
+    assertSameSegmenter(s, found.read(Sections.of(payloads(s))));
   }
 
   /** A BPEM payload with these (left, right) pairs. */
@@ -98,7 +99,7 @@ class ModelFormatTest {
   private static ModelFormatException corrupt(byte[] bpem) {
     Map<String, byte[]> pl = new HashMap<>(payloads(BpeSegmenter.of(List.of(), new int[0], new int[0])));
     pl.put("BPEM", bpem);
-    return assertThrows(ModelFormatException.class, () -> BpeSegmenter.read(new Fixtures.MapSections(pl)));
+    return assertThrows(ModelFormatException.class, () -> BpeSegmenter.read(Sections.of(pl)));
   }
 
   private static void assertNames(ModelFormatException e, String section, String part) {
@@ -141,17 +142,17 @@ class ModelFormatTest {
     byte[] c = pl.get("BPEC").clone();
     c[0] = 9; // version
     pl.put("BPEC", c);
-    assertNames(assertThrows(ModelFormatException.class, () -> BpeSegmenter.read(new Fixtures.MapSections(pl))),
+    assertNames(assertThrows(ModelFormatException.class, () -> BpeSegmenter.read(Sections.of(pl))),
         "BPEC", "version");
     Map<String, byte[]> missing = new HashMap<>(payloads(withControls()));
     missing.remove("BPEM");
-    assertNames(assertThrows(ModelFormatException.class, () -> BpeSegmenter.read(new Fixtures.MapSections(missing))),
+    assertNames(assertThrows(ModelFormatException.class, () -> BpeSegmenter.read(Sections.of(missing))),
         "BPEM", "missing");
     // a control spelling that contains another (ControlTokens rule) is rejected
     ModelWriter w = new ModelWriter();
     w.section("BPEC").putInt(1).putInt(2).putString("«dock»").putString("dock").putInt(0);
     w.section("BPEM").putInt(0);
-    assertNames(assertThrows(ModelFormatException.class, () -> BpeSegmenter.read(new Fixtures.MapSections(w.payloads()))),
+    assertNames(assertThrows(ModelFormatException.class, () -> BpeSegmenter.read(Sections.of(w.payloads()))),
         "BPEC", "contains");
   }
 

@@ -1,25 +1,21 @@
 package dev.morsel.tokenize.wordpiece;
 
+import dev.morsel.tokenize.testkit.Sections;
 import static org.junit.jupiter.api.Assertions.assertArrayEquals;
 import static org.junit.jupiter.api.Assertions.assertEquals;
 import static org.junit.jupiter.api.Assertions.assertThrows;
 import static org.junit.jupiter.api.Assertions.assertTrue;
 
 import dev.morsel.tokenize.format.ModelFormatException;
-import dev.morsel.tokenize.format.ModelSections;
 import dev.morsel.tokenize.format.ModelWriter;
-import dev.morsel.tokenize.format.SectionReader;
 import dev.morsel.tokenize.format.SectionWriter;
 import dev.morsel.tokenize.spi.Segmenter;
 import dev.morsel.tokenize.spi.SegmenterProvider;
-import java.nio.ByteBuffer;
-import java.util.Arrays;
 import java.util.HashMap;
 import java.util.List;
 import java.util.Map;
 import java.util.ServiceLoader;
 import java.util.Set;
-import java.util.TreeMap;
 import java.util.function.Consumer;
 import org.junit.jupiter.api.Test;
 
@@ -27,39 +23,6 @@ import org.junit.jupiter.api.Test;
 class ModelSectionsRoundTripTest {
   private static final String M = WordPieceSettings.DEFAULT_MARKER;
   private static final String UNK = WordPieceSettings.DEFAULT_UNKNOWN;
-
-  /** A minimal in-test view over {@link ModelWriter#payloads()}. */
-  private static final class Sections implements ModelSections {
-    private final Map<String, byte[]> payloads;
-
-    Sections(Map<String, byte[]> payloads) {
-      this.payloads = new TreeMap<>(payloads);
-    }
-
-    @Override
-    public Set<String> tags() {
-      return payloads.keySet();
-    }
-
-    @Override
-    public boolean has(String tag) {
-      return payloads.containsKey(tag);
-    }
-
-    @Override
-    public SectionReader reader(String tag) {
-      byte[] b = payloads.get(tag);
-      if (b == null) {
-        throw new ModelFormatException(tag, "section is missing");
-      }
-      return new SectionReader(tag, ByteBuffer.wrap(b));
-    }
-
-    @Override
-    public String fingerprint() {
-      return Integer.toHexString(payloads.values().stream().mapToInt(Arrays::hashCode).sum());
-    }
-  }
 
   private static WordPieceSegmenter sample() {
     WordPieceSettings st = WordPieceSettings.defaults().withMaxPieceLength(40);
@@ -78,7 +41,7 @@ class ModelSectionsRoundTripTest {
     WordPieceSegmenter s = sample();
     Map<String, byte[]> p = save(s);
     assertEquals(Set.of(WordPieceSegmenter.SETTINGS_TAG, WordPieceSegmenter.VOCABULARY_TAG), p.keySet());
-    WordPieceSegmenter back = WordPieceSegmenter.read(new Sections(p));
+    WordPieceSegmenter back = WordPieceSegmenter.read(Sections.of(p));
     assertEquals(s.tokens(), back.tokens());
     assertEquals(s.settings(), back.settings());
     assertEquals(s.controlCount(), back.controlCount());
@@ -95,7 +58,7 @@ class ModelSectionsRoundTripTest {
       }
     }
     assertTrue(found != null, "no provider of kind wordpiece on the class path");
-    Segmenter back = found.read(new Sections(save(sample())));
+    Segmenter back = found.read(Sections.of(save(sample())));
     assertEquals(sample().vocabularySize(), back.vocabularySize());
     assertEquals("wordpiece", back.kind());
   }
@@ -105,7 +68,7 @@ class ModelSectionsRoundTripTest {
     ModelWriter w = new ModelWriter();
     body.accept(w.section(tag));
     p.put(tag, w.payloads().get(tag));
-    return assertThrows(ModelFormatException.class, () -> WordPieceSegmenter.read(new Sections(p)));
+    return assertThrows(ModelFormatException.class, () -> WordPieceSegmenter.read(Sections.of(p)));
   }
 
   private static void settings(SectionWriter w, int version, String marker, String unk, int maxLen, int controls) {
@@ -149,6 +112,6 @@ class ModelSectionsRoundTripTest {
     // missing section
     Map<String, byte[]> p = new HashMap<>(save(sample()));
     p.remove(vo);
-    assertEquals(vo, assertThrows(ModelFormatException.class, () -> WordPieceSegmenter.read(new Sections(p))).section());
+    assertEquals(vo, assertThrows(ModelFormatException.class, () -> WordPieceSegmenter.read(Sections.of(p))).section());
   }
 }

@@ -1,5 +1,6 @@
 package dev.morsel.tokenize.unigram;
 
+import dev.morsel.tokenize.testkit.Sections;
 import static org.junit.jupiter.api.Assertions.assertArrayEquals;
 import static org.junit.jupiter.api.Assertions.assertEquals;
 import static org.junit.jupiter.api.Assertions.assertThrows;
@@ -53,7 +54,7 @@ class ModelSectionsTest {
       UnigramModel m = model(bytes);
       ModelWriter w = new ModelWriter();
       m.write(w);
-      Segmenter back = provider().read(InTestSections.of(w));
+      Segmenter back = provider().read(Sections.of(w));
       assertEquals(m.vocabularySize(), back.vocabularySize());
       assertEquals(UnigramModel.KIND, back.kind());
       assertEquals(m.unknownId(), back.unknownId());
@@ -66,7 +67,7 @@ class ModelSectionsTest {
       assertArrayEquals(encode(m, text), encode(back, text));
       ModelWriter w2 = new ModelWriter();
       ((UnigramModel) back).write(w2);
-      assertEquals(InTestSections.of(w).fingerprint(), InTestSections.of(w2).fingerprint());
+      assertEquals(Sections.of(w).fingerprint(), Sections.of(w2).fingerprint());
     }
   }
 
@@ -89,7 +90,7 @@ class ModelSectionsTest {
 
   private static void rejected(Map<String, byte[]> payloads, String section, String... words) {
     ModelFormatException e = assertThrows(ModelFormatException.class,
-        () -> provider().read(new InTestSections(payloads)));
+        () -> provider().read(Sections.of(payloads)));
     assertEquals(section, e.section(), e.getMessage());
     for (String w : words) {
       assertTrue(e.getMessage().contains(w), e.getMessage() + " lacks '" + w + "'");

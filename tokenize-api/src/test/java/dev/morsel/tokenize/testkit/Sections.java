@@ -1,0 +1,24 @@
+package dev.morsel.tokenize.testkit;
+
+import dev.morsel.tokenize.format.ModelFile;
+import dev.morsel.tokenize.format.ModelSections;
+import dev.morsel.tokenize.format.ModelWriter;
+import java.util.Map;
+
+/**
+ * Model sections for segmenter tests, through the real container: the payloads are written as a
+ * model file and read back, so a segmenter's reader sees exactly what it would see when loading.
+ */
+public final class Sections {
+  private Sections() {}
+
+  /** The sections holding these payloads (tags must be four characters from A-Z0-9). */
+  public static ModelSections of(Map<String, byte[]> payloads) {
+    return ModelFile.read(ModelFile.write(payloads));
+  }
+
+  /** The sections a writer collected. */
+  public static ModelSections of(ModelWriter writer) {
+    return of(writer.payloads());
+  }
+}
