@@ -1,6 +1,6 @@
 /**
  * Morsel's tokenization API: the {@link dev.morsel.tokenize.Tokenizer} interface, offset-keeping
- * normalization, splitting, control tokens, framing, the model file container and piece counting.
+ * normalization, splitting, reserved tokens, framing, the model file container and piece counting.
  * Segmenters plug in through {@link dev.morsel.tokenize.spi.SegmenterProvider}.
  */
 module dev.morsel.tokenize {

@@ -22,7 +22,7 @@ import java.util.concurrent.Executor;
 import java.util.concurrent.ForkJoinPool;
 
 /**
- * The one {@link Tokenizer} implementation: control-token scan, normalization with alignment,
+ * The one {@link Tokenizer} implementation: reserved-token scan, normalization with alignment,
  * splitting, segmentation, assembly of original offsets, framing. Immutable and thread-safe; all
  * per-call state lives in a per-thread {@link Scratch}.
  */
@@ -30,21 +30,21 @@ final class PipelineTokenizer implements Tokenizer {
   /** Model section tags written by the api (see docs/format.md). */
   static final String KIND = ModelFile.TAG_KIND;
   static final String PIPE = ModelFile.TAG_PIPE;
-  static final String CTRL = ModelFile.TAG_CTRL;
+  static final String RSRV = ModelFile.TAG_RESERVED;
   static final String FRAM = ModelFile.TAG_FRAM;
 
   // ------------------------------------------------------------------ configuration
 
   private final Pipeline pipeline;
   private final Segmenter segmenter;
-  private final ControlTokens controls;
+  private final ReservedTokens reserved;
   private final Template template;
   private final Limits limits;
   private final int maxPieceLength; // copied from limits for the per-piece check
   private final int[] beginIds;
   private final int[] separatorIds;
   private final int[] endIds;
-  private final byte[][] controlBytes;
+  private final byte[][] reservedBytes;
 
   // ------------------------------------------------------------------ state
 
@@ -53,24 +53,24 @@ final class PipelineTokenizer implements Tokenizer {
 
   // ------------------------------------------------------------------ life-cycle
 
-  PipelineTokenizer(Pipeline pipeline, Segmenter segmenter, ControlTokens controls, Template template, Limits limits,
+  PipelineTokenizer(Pipeline pipeline, Segmenter segmenter, ReservedTokens reserved, Template template, Limits limits,
       String fingerprint) {
     this.pipeline = Objects.requireNonNull(pipeline, "pipeline");
     this.segmenter = Objects.requireNonNull(segmenter, "segmenter");
-    this.controls = Objects.requireNonNull(controls, "controlTokens");
+    this.reserved = Objects.requireNonNull(reserved, "reservedTokens");
     this.template = Objects.requireNonNull(template, "template");
     this.limits = Objects.requireNonNull(limits, "limits");
     this.maxPieceLength = limits.maxPieceLength();
     this.fingerprint = fingerprint;
     int v = segmenter.vocabularySize();
-    this.controlBytes = new byte[v][];
-    for (String s : controls.spellings()) {
-      int id = controls.id(s);
+    this.reservedBytes = new byte[v][];
+    for (String s : reserved.spellings()) {
+      int id = reserved.id(s);
       if (id >= v) {
-        throw new IllegalArgumentException("control token '" + s + "' has id " + id + ", outside the vocabulary of "
+        throw new IllegalArgumentException("reserved token '" + s + "' has id " + id + ", outside the vocabulary of "
             + v + " ids");
       }
-      controlBytes[id] = s.getBytes(StandardCharsets.UTF_8);
+      reservedBytes[id] = s.getBytes(StandardCharsets.UTF_8);
     }
     this.beginIds = resolve(template.begin(), "begin");
     this.separatorIds = resolve(template.separator(), "separator");
@@ -80,10 +80,10 @@ final class PipelineTokenizer implements Tokenizer {
   private int[] resolve(List<String> spellings, String where) {
     int[] out = new int[spellings.size()];
     for (int i = 0; i < out.length; i++) {
-      int id = controls.id(spellings.get(i));
+      int id = reserved.id(spellings.get(i));
       if (id < 0) {
         throw new IllegalArgumentException("template " + where + " marker '" + spellings.get(i)
-            + "' is not a registered control token (registered: " + controls.spellings() + ")");
+            + "' is not a registered reserved token (registered: " + reserved.spellings() + ")");
       }
       out[i] = id;
     }
@@ -121,7 +121,7 @@ final class PipelineTokenizer implements Tokenizer {
 
   private static void frame(Tokens.Builder b, int[] ids, int at, int segment) {
     for (int id : ids) {
-      b.add(id, at, at, segment, Tokens.CONTROL | Tokens.FRAME);
+      b.add(id, at, at, segment, Tokens.RESERVED | Tokens.FRAME);
     }
   }
 
@@ -129,11 +129,11 @@ final class PipelineTokenizer implements Tokenizer {
   private void content(Scratch s, CharSequence text, Trust trust, int segment) {
     s.segment = segment;
     int n = text.length();
-    if (trust == Trust.TRUSTED && !controls.isEmpty()) {
+    if (trust == Trust.TRUSTED && !reserved.isEmpty()) {
       int at = 0;
       int[] hit = s.hit;
       while (at < n) {
-        int found = controls.find(text, at, n, hit);
+        int found = reserved.find(text, at, n, hit);
         int stop = found < 0 ? n : found;
         if (stop > at) {
           plain(s, text, at, stop);
@@ -141,7 +141,7 @@ final class PipelineTokenizer implements Tokenizer {
         if (found < 0) {
           break;
         }
-        s.builder.add(hit[0], found, hit[1], segment, Tokens.CONTROL);
+        s.builder.add(hit[0], found, hit[1], segment, Tokens.RESERVED);
         at = hit[1];
       }
     } else if (n > 0) {
@@ -149,7 +149,7 @@ final class PipelineTokenizer implements Tokenizer {
     }
   }
 
-  /** Normalizes, splits and segments {@code text[from, to)}, which holds no control token. */
+  /** Normalizes, splits and segments {@code text[from, to)}, which holds no reserved token. */
   private void plain(Scratch s, CharSequence text, int from, int to) {
     NormalizedText norm = pipeline.normalization().apply(text, from, to);
     s.norm = norm;
@@ -260,14 +260,14 @@ final class PipelineTokenizer implements Tokenizer {
   // ------------------------------------------------------------------ decode
 
   /** Appends the bytes of {@code id}; returns false if it was dropped. */
-  boolean appendToken(int id, boolean dropControl, Utf8Decoding.ByteRun out, long position) {
-    if (id < 0 || id >= controlBytes.length) {
+  boolean appendToken(int id, boolean dropReserved, Utf8Decoding.ByteRun out, long position) {
+    if (id < 0 || id >= reservedBytes.length) {
       throw new IllegalArgumentException("id " + id + " at position " + position + " is outside the vocabulary of "
-          + controlBytes.length + " ids");
+          + reservedBytes.length + " ids");
     }
-    byte[] c = controlBytes[id];
+    byte[] c = reservedBytes[id];
     if (c != null) {
-      if (dropControl) {
+      if (dropReserved) {
         return false;
       }
       out.write(c, 0, c.length);
@@ -278,7 +278,7 @@ final class PipelineTokenizer implements Tokenizer {
   }
 
   @Override
-  public String decode(int[] ids, boolean dropControl, Decoding decoding) {
+  public String decode(int[] ids, boolean dropReserved, Decoding decoding) {
     Objects.requireNonNull(ids, "ids");
     Objects.requireNonNull(decoding, "decoding");
     Utf8Decoding.ByteRun run = new Utf8Decoding.ByteRun();
@@ -286,7 +286,7 @@ final class PipelineTokenizer implements Tokenizer {
     int kept = 0;
     for (int i = 0; i < ids.length; i++) {
       int before = run.size;
-      if (appendToken(ids[i], dropControl, run, i) && starts != null) {
+      if (appendToken(ids[i], dropReserved, run, i) && starts != null) {
         starts[kept++] = before;
       }
     }
@@ -294,21 +294,21 @@ final class PipelineTokenizer implements Tokenizer {
   }
 
   @Override
-  public StreamDecoder streamDecoder(boolean dropControl, Decoding decoding) {
-    return new Utf8Decoding.Stream(this, dropControl, Objects.requireNonNull(decoding, "decoding"));
+  public StreamDecoder streamDecoder(boolean dropReserved, Decoding decoding) {
+    return new Utf8Decoding.Stream(this, dropReserved, Objects.requireNonNull(decoding, "decoding"));
   }
 
   // ------------------------------------------------------------------ vocabulary
 
   @Override
   public int vocabularySize() {
-    return controlBytes.length;
+    return reservedBytes.length;
   }
 
   @Override
   public String token(int id) {
-    Objects.checkIndex(id, controlBytes.length);
-    String c = controls.spelling(id);
+    Objects.checkIndex(id, reservedBytes.length);
+    String c = reserved.spelling(id);
     return c != null ? c : segmenter.token(id);
   }
 
@@ -321,7 +321,7 @@ final class PipelineTokenizer implements Tokenizer {
 
   @Override
   public int id(String token) {
-    int c = controls.id(token);
+    int c = reserved.id(token);
     return c >= 0 ? c : segmenter.id(token);
   }
 
@@ -336,8 +336,8 @@ final class PipelineTokenizer implements Tokenizer {
   }
 
   @Override
-  public ControlTokens controlTokens() {
-    return controls;
+  public ReservedTokens reservedTokens() {
+    return reserved;
   }
 
   @Override
@@ -357,12 +357,12 @@ final class PipelineTokenizer implements Tokenizer {
 
   @Override
   public Tokenizer withTemplate(Template t) {
-    return new PipelineTokenizer(pipeline, segmenter, controls, t, limits, null);
+    return new PipelineTokenizer(pipeline, segmenter, reserved, t, limits, null);
   }
 
   @Override
   public Tokenizer withLimits(Limits l) {
-    return new PipelineTokenizer(pipeline, segmenter, controls, template, l, fingerprint);
+    return new PipelineTokenizer(pipeline, segmenter, reserved, template, l, fingerprint);
   }
 
   /** The segmenter (for modules that need their own segmenter's extra features). */
@@ -376,11 +376,11 @@ final class PipelineTokenizer implements Tokenizer {
     ModelWriter w = new ModelWriter();
     w.section(KIND).putString(segmenter.kind());
     w.section(PIPE).putString(pipeline.normalization().spec()).putString(pipeline.splitting().spec());
-    SectionWriter c = w.section(CTRL);
-    List<String> spellings = controls.spellings();
+    SectionWriter c = w.section(RSRV);
+    List<String> spellings = reserved.spellings();
     c.putInt(spellings.size());
     for (String s : spellings) {
-      c.putInt(controls.id(s)).putString(s);
+      c.putInt(reserved.id(s)).putString(s);
     }
     SectionWriter f = w.section(FRAM);
     for (List<String> list : List.of(template.begin(), template.separator(), template.end())) {
@@ -420,8 +420,8 @@ final class PipelineTokenizer implements Tokenizer {
 
   @Override
   public String toString() {
-    return "Tokenizer[kind=" + kind() + ", vocabulary=" + vocabularySize() + ", " + pipeline + ", control tokens="
-        + controls.size() + "]";
+    return "Tokenizer[kind=" + kind() + ", vocabulary=" + vocabularySize() + ", " + pipeline + ", reserved tokens="
+        + reserved.size() + "]";
   }
 
   // ------------------------------------------------------------------ internals

@@ -4,8 +4,8 @@ import java.util.List;
 import java.util.Objects;
 
 /**
- * Framing: the control tokens put around an encoded text ({@code begin text end}) or a pair
- * ({@code begin first separator second end}). Spellings name registered control tokens. Markers get
+ * Framing: the reserved tokens put around one encoded text ({@code begin text end}) or two
+ * ({@code begin first separator second end}). Spellings name registered reserved tokens. Markers get
  * an empty span at their position and the {@link Tokens#FRAME} flag. Immutable.
  *
  * @since 0.1.0
@@ -31,9 +31,9 @@ public final class Template {
   /**
    * A template.
    *
-   * @param begin control spellings put before the (first) text
-   * @param separator control spellings put between the texts of a pair
-   * @param end control spellings put after the (last) text
+   * @param begin reserved spellings put before the (first) text
+   * @param separator reserved spellings put between the two texts
+   * @param end reserved spellings put after the (last) text
    */
   public static Template of(List<String> begin, List<String> separator, List<String> end) {
     Objects.requireNonNull(begin, "begin");
@@ -47,7 +47,7 @@ public final class Template {
     return begin;
   }
 
-  /** Markers between the texts of a pair. */
+  /** Markers between two texts. */
   public List<String> separator() {
     return separator;
   }

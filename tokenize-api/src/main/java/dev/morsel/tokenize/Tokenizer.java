@@ -12,7 +12,7 @@ import java.util.concurrent.Executor;
  * never throws a checked exception; bad arguments give an unchecked exception that names the
  * argument and the limit.
  *
- * <p>Encoding runs: control-token scan (only for {@link Trust#TRUSTED} text), normalization with
+ * <p>Encoding runs: reserved-token scan (only for {@link Trust#TRUSTED} text), normalization with
  * alignment, splitting into pieces, segmentation of each piece, framing by the {@link Template}.
  *
  * @since 0.1.0
@@ -21,12 +21,12 @@ public interface Tokenizer {
 
   // ------------------------------------------------------------------ encode
 
-  /** Encodes untrusted text: control-token spellings in it are ordinary text. */
+  /** Encodes untrusted text: reserved-token spellings in it are ordinary text. */
   default Tokens encode(CharSequence text) {
     return encode(text, Trust.UNTRUSTED);
   }
 
-  /** Encodes text, matching control tokens only if {@code trust} is {@link Trust#TRUSTED}. */
+  /** Encodes text, matching reserved tokens only if {@code trust} is {@link Trust#TRUSTED}. */
   Tokens encode(CharSequence text, Trust trust);
 
   /** Encodes a pair of untrusted texts (segments 0 and 1), framed by the template's pair form. */
@@ -61,7 +61,7 @@ public interface Tokenizer {
 
   // ------------------------------------------------------------------ decode
 
-  /** Decodes ids to text, keeping control tokens' spellings; ill-formed UTF-8 becomes U+FFFD. */
+  /** Decodes ids to text, keeping reserved tokens' spellings; ill-formed UTF-8 becomes U+FFFD. */
   default String decode(int[] ids) {
     return decode(ids, false, Decoding.REPLACE);
   }
@@ -69,15 +69,15 @@ public interface Tokenizer {
   /**
    * Decodes ids to text.
    *
-   * @param dropControl leave out control tokens and padding
+   * @param dropReserved leave out reserved tokens and padding
    * @param decoding what to do with ill-formed UTF-8
    * @throws IllegalArgumentException for an id outside the vocabulary (naming its position), or
    *     ill-formed UTF-8 under {@link Decoding#STRICT}
    */
-  String decode(int[] ids, boolean dropControl, Decoding decoding);
+  String decode(int[] ids, boolean dropReserved, Decoding decoding);
 
   /** A decoder fed one id at a time (for generation); per-caller state, not thread-safe. */
-  StreamDecoder streamDecoder(boolean dropControl, Decoding decoding);
+  StreamDecoder streamDecoder(boolean dropReserved, Decoding decoding);
 
   // ------------------------------------------------------------------ vocabulary
 
@@ -99,8 +99,8 @@ public interface Tokenizer {
   /** The segmenter kind, for example {@code "bpe"}. */
   String kind();
 
-  /** The registered control tokens. */
-  ControlTokens controlTokens();
+  /** The registered reserved tokens. */
+  ReservedTokens reservedTokens();
 
   /** The framing template. */
   Template template();
@@ -108,7 +108,7 @@ public interface Tokenizer {
   /** Normalization and splitting. */
   Pipeline pipeline();
 
-  /** This tokenizer with another template (control tokens it names must be registered). */
+  /** This tokenizer with another template (reserved tokens it names must be registered). */
   Tokenizer withTemplate(Template template);
 
   /** The input limits. */
@@ -121,7 +121,7 @@ public interface Tokenizer {
 
   /**
    * SHA-256 (lowercase hex) over the canonical content of the model: equal fingerprints mean the
-   * same vocabulary, settings and control tokens, so a service and a batch job can prove they agree.
+   * same vocabulary, settings and reserved tokens, so a service and a batch job can prove they agree.
    */
   String fingerprint();
 

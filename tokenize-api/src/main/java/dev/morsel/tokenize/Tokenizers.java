@@ -29,21 +29,21 @@ public final class Tokenizers {
   /**
    * A tokenizer from its parts.
    *
-   * @throws IllegalArgumentException if a control token's id is outside the segmenter's vocabulary,
-   *     or the template names a spelling that is not a registered control token
+   * @throws IllegalArgumentException if a reserved token's id is outside the segmenter's vocabulary,
+   *     or the template names a spelling that is not a registered reserved token
    */
-  public static Tokenizer of(Pipeline pipeline, Segmenter segmenter, ControlTokens controlTokens, Template template) {
-    return new PipelineTokenizer(pipeline, segmenter, controlTokens, template, Limits.defaults(), null);
+  public static Tokenizer of(Pipeline pipeline, Segmenter segmenter, ReservedTokens reservedTokens, Template template) {
+    return new PipelineTokenizer(pipeline, segmenter, reservedTokens, template, Limits.defaults(), null);
   }
 
-  /** A tokenizer with the default pipeline, the segmenter's own control tokens and no framing. */
+  /** A tokenizer with the default pipeline, the segmenter's own reserved tokens and no framing. */
   public static Tokenizer of(Segmenter segmenter) {
     return of(Pipeline.defaults(), segmenter);
   }
 
-  /** A tokenizer with the given pipeline, the segmenter's own control tokens and no framing. */
+  /** A tokenizer with the given pipeline, the segmenter's own reserved tokens and no framing. */
   public static Tokenizer of(Pipeline pipeline, Segmenter segmenter) {
-    return of(pipeline, segmenter, segmenter.controlTokens(), Template.none());
+    return of(pipeline, segmenter, segmenter.reservedTokens(), Template.none());
   }
 
   /** Loads a model file, validating it fully before building anything. */
@@ -126,19 +126,19 @@ public final class Tokenizers {
     } catch (IllegalArgumentException e) {
       throw new ModelFormatException(PipelineTokenizer.PIPE, e.getMessage(), e);
     }
-    SectionReader c = sections.reader(PipelineTokenizer.CTRL);
-    ControlTokens.Builder cb = ControlTokens.builder();
-    int n = c.getCount("control tokens", 1 << 20, 8);
-    ControlTokens controls;
+    SectionReader c = sections.reader(PipelineTokenizer.RSRV);
+    ReservedTokens.Builder cb = ReservedTokens.builder();
+    int n = c.getCount("reserved tokens", 1 << 20, 8);
+    ReservedTokens reserved;
     try {
       for (int i = 0; i < n; i++) {
-        int id = c.getInt("control token id");
-        cb.add(c.getString("control token spelling"), id);
+        int id = c.getInt("reserved token id");
+        cb.add(c.getString("reserved token spelling"), id);
       }
       c.expectEnd();
-      controls = cb.build();
+      reserved = cb.build();
     } catch (IllegalArgumentException e) {
-      throw new ModelFormatException(PipelineTokenizer.CTRL, e.getMessage(), e);
+      throw new ModelFormatException(PipelineTokenizer.RSRV, e.getMessage(), e);
     }
     SectionReader f = sections.reader(PipelineTokenizer.FRAM);
     List<List<String>> lists = new ArrayList<>();
@@ -153,10 +153,10 @@ public final class Tokenizers {
     f.expectEnd();
     Segmenter segmenter = provider.read(sections);
     try {
-      return new PipelineTokenizer(pipeline, segmenter, controls, Template.of(lists.get(0), lists.get(1), lists.get(2)),
+      return new PipelineTokenizer(pipeline, segmenter, reserved, Template.of(lists.get(0), lists.get(1), lists.get(2)),
           Limits.defaults(), sections.fingerprint());
     } catch (IllegalArgumentException e) {
-      throw new ModelFormatException(PipelineTokenizer.CTRL, e.getMessage(), e);
+      throw new ModelFormatException(PipelineTokenizer.RSRV, e.getMessage(), e);
     }
   }
 }

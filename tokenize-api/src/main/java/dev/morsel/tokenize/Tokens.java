@@ -9,7 +9,7 @@ import java.util.Objects;
 /**
  * The result of encoding: token ids with, for each token, its {@code [start, end)} span in UTF-16
  * units of the caller's <em>original</em> text, a segment index (0 for the first text of a pair, 1
- * for the second) and flags (control token, framing marker, padding).
+ * for the second) and flags (reserved token, framing marker, padding).
  *
  * <p>Stored as parallel primitive arrays: there is no object per token. Instances are immutable and
  * thread-safe; accessors that return arrays return copies.
@@ -22,8 +22,8 @@ import java.util.Objects;
  * @since 0.1.0
  */
 public final class Tokens {
-  /** Flag: the token is a control token (matched in trusted text or framed in). */
-  public static final int CONTROL = 1;
+  /** Flag: the token is a reserved token (matched in trusted text or framed in). */
+  public static final int RESERVED = 1;
   /** Flag: the token was added by framing (begin, end or separator marker). */
   public static final int FRAME = 2;
   /** Flag: the token is padding. */
@@ -106,14 +106,14 @@ public final class Tokens {
     return segments[i];
   }
 
-  /** Flags of token {@code i}: a combination of {@link #CONTROL}, {@link #FRAME}, {@link #PADDING}. */
+  /** Flags of token {@code i}: a combination of {@link #RESERVED}, {@link #FRAME}, {@link #PADDING}. */
   public int flags(int i) {
     return flags[i];
   }
 
-  /** Whether token {@code i} is a control token. */
-  public boolean isControl(int i) {
-    return (flags[i] & CONTROL) != 0;
+  /** Whether token {@code i} is a reserved token. */
+  public boolean isReserved(int i) {
+    return (flags[i] & RESERVED) != 0;
   }
 
   /** Whether token {@code i} is padding. */
@@ -160,11 +160,11 @@ public final class Tokens {
     return out;
   }
 
-  /** 1 for every control token (matched or framed), 0 otherwise. */
-  public int[] controlMask() {
+  /** 1 for every reserved token (matched or framed), 0 otherwise. */
+  public int[] reservedMask() {
     int[] out = new int[flags.length];
     for (int i = 0; i < out.length; i++) {
-      out[i] = (flags[i] & CONTROL) != 0 ? 1 : 0;
+      out[i] = (flags[i] & RESERVED) != 0 ? 1 : 0;
     }
     return out;
   }

@@ -161,23 +161,23 @@ final class Utf8Decoding {
   /** The streaming decoder: holds an incomplete tail, emits everything before it. */
   static final class Stream implements StreamDecoder {
     private final PipelineTokenizer tokenizer;
-    private final boolean dropControl;
+    private final boolean dropReserved;
     private final Decoding decoding;
     private final ByteRun run = new ByteRun();
     private final int[] starts = new int[5];
     private int held; // tokens whose bytes are still held (at most 4 bytes, so at most 4 tokens + the new one)
     private long position;
 
-    Stream(PipelineTokenizer tokenizer, boolean dropControl, Decoding decoding) {
+    Stream(PipelineTokenizer tokenizer, boolean dropReserved, Decoding decoding) {
       this.tokenizer = tokenizer;
-      this.dropControl = dropControl;
+      this.dropReserved = dropReserved;
       this.decoding = decoding;
     }
 
     @Override
     public String accept(int id) {
       int before = run.size;
-      if (!tokenizer.appendToken(id, dropControl, run, position)) {
+      if (!tokenizer.appendToken(id, dropReserved, run, position)) {
         position++;
         return "";
       }

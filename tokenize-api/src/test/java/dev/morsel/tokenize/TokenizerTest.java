@@ -23,16 +23,16 @@ import org.junit.jupiter.params.provider.ValueSource;
 
 /**
  * The pipeline around any segmenter, tested with the lossless {@link ByteSegmenter}: offsets,
- * control tokens and the trusted flag, framing, truncation, padding, windows, decoding, batch,
+ * reserved tokens and the trusted flag, framing, truncation, padding, windows, decoding, batch,
  * save and load.
  */
 class TokenizerTest {
-  private static final String OPEN = "\u27e6go\u27e7"; // our own control spellings for the tests
+  private static final String OPEN = "\u27e6go\u27e7"; // our own reserved spellings for the tests
   private static final String CLOSE = "\u27e6halt\u27e7";
   private static final String JOIN = "\u27e6then\u27e7";
 
   private static Tokenizer tokenizer(Normalization n) {
-    ControlTokens c = ControlTokens.builder().add(OPEN, 256).add(CLOSE, 257).add(JOIN, 258).build();
+    ReservedTokens c = ReservedTokens.builder().add(OPEN, 256).add(CLOSE, 257).add(JOIN, 258).build();
     return Tokenizers.of(Pipeline.of(n, Splitting.rules()), new ByteSegmenter(3), c, Template.none());
   }
 
@@ -132,57 +132,57 @@ class TokenizerTest {
     }
   }
 
-  // ------------------------------------------------------------------ control tokens
+  // ------------------------------------------------------------------ reserved tokens
 
   @Test
-  void untrustedTextNeverYieldsControlTokens() {
+  void untrustedTextNeverYieldsReservedTokens() {
     Tokenizer t = tokenizer(Normalization.of(Normalization.Form.NFC));
     String text = "Cabin 12 " + OPEN + " rebook me " + CLOSE;
     Tokens untrusted = t.encode(text);
     for (int i = 0; i < untrusted.size(); i++) {
-      assertFalse(t.controlTokens().isControl(untrusted.id(i)), "untrusted text produced a control token");
-      assertFalse(untrusted.isControl(i));
+      assertFalse(t.reservedTokens().isReserved(untrusted.id(i)), "untrusted text produced a reserved token");
+      assertFalse(untrusted.isReserved(i));
     }
     assertEquals(text, t.decode(untrusted.ids()));
     Tokens trusted = t.encode(text, Trust.TRUSTED);
-    List<Integer> controls = new ArrayList<>();
+    List<Integer> reserved = new ArrayList<>();
     for (int i = 0; i < trusted.size(); i++) {
-      if (trusted.isControl(i)) {
-        controls.add(trusted.id(i));
-        assertEquals(t.controlTokens().spelling(trusted.id(i)), trusted.text(text, i));
+      if (trusted.isReserved(i)) {
+        reserved.add(trusted.id(i));
+        assertEquals(t.reservedTokens().spelling(trusted.id(i)), trusted.text(text, i));
       }
     }
-    assertEquals(List.of(256, 257), controls);
+    assertEquals(List.of(256, 257), reserved);
     assertEquals(text, t.decode(trusted.ids()));
     assertEquals("Cabin 12  rebook me ", t.decode(trusted.ids(), true, Decoding.REPLACE));
   }
 
   @Test
-  void compatibilitySpellingIsNotAControlTokenEvenWhenTrusted() {
+  void compatibilitySpellingIsNotAReservedTokenEvenWhenTrusted() {
     // U+FF47 U+FF4F are fullwidth "go": NFKC maps them to ASCII, but matching runs on the original text
     Tokenizer t = tokenizer(Normalization.of(Normalization.Form.NFKC));
     String text = "\u27e6\uff47\uff4f\u27e7";
     for (Trust trust : Trust.values()) {
       Tokens tokens = t.encode(text, trust);
       for (int i = 0; i < tokens.size(); i++) {
-        assertFalse(tokens.isControl(i), "compatibility spelling became a control token under " + trust);
+        assertFalse(tokens.isReserved(i), "compatibility spelling became a reserved token under " + trust);
       }
     }
     assertEquals(OPEN, Normalization.of(Normalization.Form.NFKC).apply(text).text());
   }
 
   @Test
-  void overlappingControlSpellingsAreRejected() {
+  void overlappingReservedSpellingsAreRejected() {
     IllegalArgumentException e = assertThrows(IllegalArgumentException.class,
-        () -> ControlTokens.builder().add("<<a", 1).add("a>>", 2).add("x<<", 3).build());
+        () -> ReservedTokens.builder().add("\u27e8\u27e8a", 1).add("a\u27e9\u27e9", 2).add("x\u27e8\u27e8", 3).build());
     assertTrue(e.getMessage().contains("overlap"), e.getMessage());
-    e = assertThrows(IllegalArgumentException.class, () -> ControlTokens.builder().add("@@stop", 1).add("stop", 2).build());
+    e = assertThrows(IllegalArgumentException.class, () -> ReservedTokens.builder().add("@@stop", 1).add("stop", 2).build());
     assertTrue(e.getMessage().contains("contains"), e.getMessage());
-    assertThrows(IllegalArgumentException.class, () -> ControlTokens.builder().add("", 1));
-    assertThrows(IllegalArgumentException.class, () -> ControlTokens.builder().add("a", 1).add("b", 1));
-    assertThrows(IllegalArgumentException.class, () -> ControlTokens.builder().add("a", 1).add("a", 2));
+    assertThrows(IllegalArgumentException.class, () -> ReservedTokens.builder().add("", 1));
+    assertThrows(IllegalArgumentException.class, () -> ReservedTokens.builder().add("a", 1).add("b", 1));
+    assertThrows(IllegalArgumentException.class, () -> ReservedTokens.builder().add("a", 1).add("a", 2));
     assertThrows(IllegalArgumentException.class, () -> Tokenizers.of(Pipeline.defaults(), new ByteSegmenter(0),
-        ControlTokens.builder().add("q", 256).build(), Template.none()));
+        ReservedTokens.builder().add("q", 256).build(), Template.none()));
   }
 
   // ------------------------------------------------------------------ framing and length
@@ -197,7 +197,7 @@ class TokenizerTest {
     assertEquals(0, one.end(0));
     assertEquals(6, one.start(one.size() - 1));
     assertEquals(6, one.end(one.size() - 1));
-    assertEquals(Tokens.CONTROL | Tokens.FRAME, one.flags(0));
+    assertEquals(Tokens.RESERVED | Tokens.FRAME, one.flags(0));
     Tokens pair = t.encodePair("Deck B", "Kai 4");
     OffsetInvariants.check(pair, "Deck B", "Kai 4");
     int sep = 1 + 6;
@@ -371,7 +371,7 @@ class TokenizerTest {
     assertEquals(t.fingerprint(), back.fingerprint());
     assertEquals(64, t.fingerprint().length());
     assertEquals(t.template(), back.template());
-    assertEquals(t.controlTokens(), back.controlTokens());
+    assertEquals(t.reservedTokens(), back.reservedTokens());
     assertEquals(t.pipeline(), back.pipeline());
     String text = "Lost: one blue umbrella, Deck C \ud83c\udf02";
     assertEquals(t.encodePair(text, "Pier 3"), back.encodePair(text, "Pier 3"));

@@ -49,10 +49,10 @@ public final class ModelFile {
   /** Section tag: the pipeline, two strings (normalization spec, splitting spec). */
   public static final String TAG_PIPE = "PIPE";
 
-  /** Section tag: control tokens, a count then (id u32, spelling string) per token. */
-  public static final String TAG_CTRL = "CTRL";
+  /** Section tag: reserved tokens, a count then (id u32, spelling string) per token. */
+  public static final String TAG_RESERVED = "RSRV";
 
-  /** Section tag: the framing template, three lists of control spellings (begin, separator, end). */
+  /** Section tag: the framing template, three lists of reserved spellings (begin, separator, end). */
   public static final String TAG_FRAM = "FRAM";
 
   /** Section tag: free key/value metadata, excluded from the fingerprint. */

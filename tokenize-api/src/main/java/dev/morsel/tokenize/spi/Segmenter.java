@@ -7,9 +7,9 @@ import dev.morsel.tokenize.format.ModelWriter;
  * thread-safe (per-thread scratch state is their own business) and allocate nothing per token in
  * steady state.
  *
- * <p>A segmenter owns a vocabulary of {@link #vocabularySize()} ids, {@code 0..size-1}. Control
+ * <p>A segmenter owns a vocabulary of {@link #vocabularySize()} ids, {@code 0..size-1}. Reserved
  * tokens reserved by a trainer are part of that vocabulary, but {@link #segment} never produces them
- * from ordinary text: only the tokenizer's control-token scan and framing do.
+ * from ordinary text: only the tokenizer's reserved-token scan and framing do.
  *
  * @since 0.1.0
  */
@@ -18,12 +18,12 @@ public interface Segmenter {
   String kind();
 
   /**
-   * The control tokens this segmenter's vocabulary reserves (spelling to id), as a trainer reserved
+   * The reserved tokens this segmenter's vocabulary reserves (spelling to id), as a trainer reserved
    * them; none by default. {@link dev.morsel.tokenize.Tokenizers#of(dev.morsel.tokenize.Pipeline,
    * Segmenter)} registers them.
    */
-  default dev.morsel.tokenize.ControlTokens controlTokens() {
-    return dev.morsel.tokenize.ControlTokens.none();
+  default dev.morsel.tokenize.ReservedTokens reservedTokens() {
+    return dev.morsel.tokenize.ReservedTokens.none();
   }
 
   /** Number of ids in the vocabulary. */

@@ -27,7 +27,7 @@ class ModelFileCorruptionTest {
 
   static Map<String, byte[]> sample() {
     Map<String, byte[]> m = new TreeMap<>();
-    m.put("CTRL", "~~ferry-full~~ ~~harbour-closed~~".getBytes(StandardCharsets.UTF_8)); // 33 bytes, padded
+    m.put("RSRV", "~~ferry-full~~ ~~harbour-closed~~".getBytes(StandardCharsets.UTF_8)); // 33 bytes, padded
     m.put("EMPT", new byte[0]);
     m.put("KIND", "skerry-bpe".getBytes(StandardCharsets.UTF_8));
     m.put("META", "route Holmsund–Varø".getBytes(StandardCharsets.UTF_8));
@@ -39,7 +39,18 @@ class ModelFileCorruptionTest {
 
   static final byte[] FILE = ModelFile.write(sample());
   static final int TABLE_END = 32 + 24 * sample().size();
-  static final Set<String> SECTIONS = Set.of("header", "table", "CTRL", "EMPT", "KIND", "META", "VOCB");
+  static final Set<String> SECTIONS = Set.of("header", "table", "RSRV", "EMPT", "KIND", "META", "VOCB");
+
+  /** The payload offset the table entry of {@code tag} records (entries: tag, CRC, u64 offset, u64 length). */
+  static int payloadOffset(byte[] f, String tag) {
+    ByteBuffer b = ByteBuffer.wrap(f).order(ByteOrder.LITTLE_ENDIAN);
+    for (int entry = 32; entry < TABLE_END; entry += 24) {
+      if (new String(f, entry, 4, StandardCharsets.US_ASCII).equals(tag)) {
+        return Math.toIntExact(b.getLong(entry + 8));
+      }
+    }
+    throw new AssertionError("no table entry " + tag);
+  }
 
   /** Recomputes the header CRC in place (so a forged field is seen by the bounds checks, not the CRC). */
   static void fixHeaderCrc(byte[] f) {
@@ -226,14 +237,14 @@ class ModelFileCorruptionTest {
 
   @Test
   void nonZeroPaddingIsRejectedEvenWithValidChecksums() {
-    // CTRL's payload is 33 bytes: 7 pad bytes follow; the payload CRC does not cover them
+    // RSRV's payload is 33 bytes: 7 pad bytes follow; the payload CRC does not cover them
     ModelSections s = ModelFile.read(FILE);
-    int start = TABLE_END;
-    assertEquals(33, s.payload("CTRL").remaining());
+    int start = payloadOffset(FILE, "RSRV");
+    assertEquals(33, s.payload("RSRV").remaining());
     byte[] f = FILE.clone();
     f[start + 33] = 0x01;
     ModelFormatException e = expectRejected(f, "padding");
-    assertEquals("CTRL", e.section());
+    assertEquals("RSRV", e.section());
     assertTrue(e.getMessage().contains("padding byte at offset " + (start + 33)), e.getMessage());
   }
 }

@@ -328,11 +328,11 @@ class ModelFileTest {
   void modelWriterProducesTheSameFile() {
     ModelWriter w = new ModelWriter();
     w.section("KIND").putString("skerry-bpe");
-    w.section("CTRL").putInt(1).putInt(0).putString("~~harbour-closed~~");
+    w.section("RSRV").putInt(1).putInt(0).putString("~~harbour-closed~~");
     byte[] file = w.toModelFile();
     assertArrayEquals(ModelFile.write(w.payloads()), file);
-    SectionReader r = ModelFile.read(file).reader("CTRL");
-    assertEquals(1, r.getCount("control tokens", 10, 8));
+    SectionReader r = ModelFile.read(file).reader("RSRV");
+    assertEquals(1, r.getCount("reserved tokens", 10, 8));
     assertEquals(0, r.getInt("id"));
     assertEquals("~~harbour-closed~~", r.getString("spelling"));
     r.expectEnd();

@@ -6,7 +6,7 @@ import static org.junit.jupiter.api.Assertions.assertEquals;
 import static org.junit.jupiter.api.Assertions.assertThrows;
 import static org.junit.jupiter.api.Assertions.assertTrue;
 
-import dev.morsel.tokenize.ControlTokens;
+import dev.morsel.tokenize.ReservedTokens;
 import dev.morsel.tokenize.Limits;
 import dev.morsel.tokenize.Pipeline;
 import dev.morsel.tokenize.Template;
@@ -29,7 +29,7 @@ import org.junit.jupiter.api.Test;
  * segmenter so that only the api's checks are exercised.
  */
 class LimitsViolationTest {
-  private static final Tokenizer BYTES = Tokenizers.of(Pipeline.defaults(), new ByteSegmenter(0), ControlTokens.none(),
+  private static final Tokenizer BYTES = Tokenizers.of(Pipeline.defaults(), new ByteSegmenter(0), ReservedTokens.none(),
       Template.none());
 
   private static void assertNames(IllegalArgumentException e, String limit, String setting) {

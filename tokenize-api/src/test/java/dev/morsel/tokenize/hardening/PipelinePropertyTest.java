@@ -5,7 +5,7 @@ import dev.morsel.tokenize.hardening.kit.*;
 import static org.junit.jupiter.api.Assertions.assertEquals;
 import static org.junit.jupiter.api.Assertions.assertTrue;
 
-import dev.morsel.tokenize.ControlTokens;
+import dev.morsel.tokenize.ReservedTokens;
 import dev.morsel.tokenize.Pipeline;
 import dev.morsel.tokenize.Tokenizer;
 import dev.morsel.tokenize.Tokenizers;
@@ -38,7 +38,7 @@ class PipelinePropertyTest {
 
   static Tokenizer tokenizer(Normalization n, Splitting s) {
     ByteSegmenter seg = new ByteSegmenter(Spellings.ALL.size());
-    ControlTokens.Builder cb = ControlTokens.builder();
+    ReservedTokens.Builder cb = ReservedTokens.builder();
     for (int i = 0; i < Spellings.ALL.size(); i++) {
       cb.add(Spellings.ALL.get(i), 256 + i);
     }

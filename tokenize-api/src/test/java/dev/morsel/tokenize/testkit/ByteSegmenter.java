@@ -11,8 +11,8 @@ import java.nio.charset.StandardCharsets;
 
 /**
  * A test segmenter with no learning at all: token {@code b} is the UTF-8 byte {@code b} (ids 0..255),
- * ids 256.. are free for control tokens. Lossless, so it isolates the pipeline (normalization,
- * splitting, control tokens, framing, offsets, decoding) from any real segmenter. Kind
+ * ids 256.. are free for reserved tokens. Lossless, so it isolates the pipeline (normalization,
+ * splitting, reserved tokens, framing, offsets, decoding) from any real segmenter. Kind
  * {@code "test-bytes"}, registered as a service in the test resources.
  */
 public final class ByteSegmenter implements Segmenter {
@@ -21,7 +21,7 @@ public final class ByteSegmenter implements Segmenter {
 
   private final int vocabularySize;
 
-  /** A segmenter with 256 byte ids plus {@code extra} free ids for control tokens. */
+  /** A segmenter with 256 byte ids plus {@code extra} free ids for reserved tokens. */
   public ByteSegmenter(int extra) {
     this.vocabularySize = 256 + extra;
   }

@@ -1,6 +1,6 @@
 package dev.morsel.tokenize.bench;
 
-import dev.morsel.tokenize.ControlTokens;
+import dev.morsel.tokenize.ReservedTokens;
 import dev.morsel.tokenize.Pipeline;
 import dev.morsel.tokenize.Template;
 import dev.morsel.tokenize.Tokenizer;
@@ -71,7 +71,7 @@ public final class Models {
   public static Path bpeFile() {
     return cached("bpe-32k.morsel", () -> {
       BpeSegmenter s = BpeLearner.builder().vocabularySize(BPE_SIZE).build().train(counts());
-      return Tokenizers.of(pipeline(), s, s.controlTokens(), Template.none());
+      return Tokenizers.of(pipeline(), s, s.reservedTokens(), Template.none());
     });
   }
 
@@ -89,7 +89,7 @@ public final class Models {
   public static Path wordpieceFile() {
     return cached("wordpiece-30k.morsel", () -> {
       WordPieceSegmenter s = WordPieceLearner.builder().vocabularySize(WORDPIECE_SIZE).build().train(counts());
-      return Tokenizers.of(pipeline(), s, s.controlTokens(), Template.none());
+      return Tokenizers.of(pipeline(), s, s.reservedTokens(), Template.none());
     });
   }
 
@@ -130,9 +130,9 @@ public final class Models {
     return sum;
   }
 
-  /** A tokenizer with the given pipeline and segmenter and no control tokens or framing. */
+  /** A tokenizer with the given pipeline and segmenter and no reserved tokens or framing. */
   public static Tokenizer with(Pipeline p, dev.morsel.tokenize.spi.Segmenter s) {
-    return Tokenizers.of(p, s, ControlTokens.none(), Template.none());
+    return Tokenizers.of(p, s, ReservedTokens.none(), Template.none());
   }
 
   private static synchronized Path cached(String name, Supplier<Tokenizer> train) {

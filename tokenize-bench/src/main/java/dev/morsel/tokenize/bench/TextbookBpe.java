@@ -19,9 +19,9 @@ final class TextbookBpe {
   private final int firstMerge;
 
   TextbookBpe(BpeSegmenter s) {
-    int controls = s.controlTokens().size();
-    firstByte = controls;
-    firstMerge = controls + 256;
+    int reserved = s.reservedTokens().size();
+    firstByte = reserved;
+    firstMerge = reserved + 256;
     for (int r = 0; r < s.mergeCount(); r++) {
       ranks.put(((long) s.mergeLeft(r) << 32) | s.mergeRight(r), r);
     }

@@ -57,7 +57,7 @@ public class WordPieceBenchmarks {
     WordPieceSegmenter s = Models.wordpieceSegmenter();
     trained = Models.with(Models.pipeline(), s);
     WordPieceSettings wide = s.settings().withMaxPieceLength(WordPieceSettings.MAX_MAX_PIECE_LENGTH);
-    trainedUnsplit = Models.with(Models.unsplit(), WordPieceSegmenter.of(s.tokens(), s.controlCount(), wide));
+    trainedUnsplit = Models.with(Models.unsplit(), WordPieceSegmenter.of(s.tokens(), s.reservedCount(), wide));
     List<String> tokens = new ArrayList<>();
     WordPieceSettings settings = WordPieceSettings.defaults().withMaxPieceLength(WordPieceSettings.MAX_MAX_PIECE_LENGTH);
     String m = settings.marker();

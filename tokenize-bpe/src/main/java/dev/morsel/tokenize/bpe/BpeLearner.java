@@ -1,6 +1,6 @@
 package dev.morsel.tokenize.bpe;
 
-import dev.morsel.tokenize.ControlTokens;
+import dev.morsel.tokenize.ReservedTokens;
 import dev.morsel.tokenize.bpe.internal.ByteSpelling;
 import dev.morsel.tokenize.bpe.internal.MergeLearner;
 import dev.morsel.tokenize.bpe.internal.Utf8;
@@ -16,10 +16,10 @@ import java.util.Objects;
  * {@link #builder()}.
  *
  * <p>Each piece becomes a word: its UTF-8 bytes (a lone surrogate as U+FFFD), weighted by its count.
- * Merges are learned until the vocabulary (control tokens + 256 bytes + merges) reaches
+ * Merges are learned until the vocabulary (reserved tokens + 256 bytes + merges) reaches
  * {@code vocabularySize}, or no pair occurs at least {@code minPairCount} times, or no pair is
  * eligible. A pair is eligible unless its token would exceed {@code maxTokenBytes}, its bytes are
- * already a token, or its display spelling equals a control spelling.
+ * already a token, or its display spelling equals a reserved spelling.
  *
  * <p>Tie-break (deterministic): highest weighted pair count; then the smallest concatenated bytes in
  * unsigned lexicographic order; then the shorter left operand. Pair counts count overlapping
@@ -65,7 +65,7 @@ public final class BpeLearner {
   private final int maxTokenBytes;
   private final long minPieceCount;
   private final int maxPieceBytes;
-  private final List<String> controls;
+  private final List<String> reserved;
   private final int threads;
   private final TrainingListener listener;
 
@@ -75,12 +75,12 @@ public final class BpeLearner {
     this.maxTokenBytes = b.maxTokenBytes;
     this.minPieceCount = b.minPieceCount;
     this.maxPieceBytes = b.maxPieceBytes;
-    this.controls = List.copyOf(b.controls);
+    this.reserved = List.copyOf(b.reserved);
     this.threads = b.threads;
     this.listener = b.listener;
   }
 
-  /** A builder with the defaults above, no control tokens, all processors, no listener. */
+  /** A builder with the defaults above, no reserved tokens, all processors, no listener. */
   public static Builder builder() {
     return new Builder();
   }
@@ -127,11 +127,11 @@ public final class BpeLearner {
     for (int i = 0; i < weights.length; i++) {
       weights[i] = kweights.get(i);
     }
-    int k = controls.size();
+    int k = reserved.size();
     int budget = vocabularySize - k - 256;
-    MergeLearner learner = new MergeLearner(k, words, weights, budget, minPairCount, maxTokenBytes, controls, listener);
+    MergeLearner learner = new MergeLearner(k, words, weights, budget, minPairCount, maxTokenBytes, reserved, listener);
     int[][] merges = learner.run(threads);
-    Vocab v = Vocab.build(controls, merges[0], merges[1], (i, msg) -> new IllegalStateException(msg));
+    Vocab v = Vocab.build(reserved, merges[0], merges[1], (i, msg) -> new IllegalStateException(msg));
     return BpeSegmenter.create(v, BpeSegmenter.DEFAULT_CACHE_ENTRIES);
   }
 
@@ -146,13 +146,13 @@ public final class BpeLearner {
     private int maxTokenBytes = DEFAULT_MAX_TOKEN_BYTES;
     private long minPieceCount = DEFAULT_MIN_PIECE_COUNT;
     private int maxPieceBytes = DEFAULT_MAX_PIECE_BYTES;
-    private List<String> controls = List.of();
+    private List<String> reserved = List.of();
     private int threads = Runtime.getRuntime().availableProcessors();
     private TrainingListener listener = TrainingListener.NONE;
 
     private Builder() {}
 
-    /** Target number of ids: control tokens + 256 bytes + merges. Default 32,000. */
+    /** Target number of ids: reserved tokens + 256 bytes + merges. Default 32,000. */
     public Builder vocabularySize(int size) {
       this.vocabularySize = size;
       return this;
@@ -188,11 +188,11 @@ public final class BpeLearner {
     }
 
     /**
-     * Control token spellings, given ids {@code 0..k-1} in this order. They must satisfy
-     * {@link ControlTokens.Builder}'s rules and must not spell a single byte token.
+     * Reserved token spellings, given ids {@code 0..k-1} in this order. They must satisfy
+     * {@link ReservedTokens.Builder}'s rules and must not spell a single byte token.
      */
-    public Builder controlTokens(List<String> spellings) {
-      this.controls = List.copyOf(Objects.requireNonNull(spellings, "spellings"));
+    public Builder reservedTokens(List<String> spellings) {
+      this.reserved = List.copyOf(Objects.requireNonNull(spellings, "spellings"));
       return this;
     }
 
@@ -211,24 +211,24 @@ public final class BpeLearner {
     /**
      * The trainer.
      *
-     * @throws IllegalArgumentException naming the setting that is out of range or the control token
+     * @throws IllegalArgumentException naming the setting that is out of range or the reserved token
      *     that is invalid
      */
     public BpeLearner build() {
-      ControlTokens.Builder cb = ControlTokens.builder();
-      for (int i = 0; i < controls.size(); i++) {
-        String c = controls.get(i);
+      ReservedTokens.Builder cb = ReservedTokens.builder();
+      for (int i = 0; i < reserved.size(); i++) {
+        String c = reserved.get(i);
         if (c == null) {
-          throw new IllegalArgumentException("controlTokens: spelling " + i + " is null");
+          throw new IllegalArgumentException("reservedTokens: spelling " + i + " is null");
         }
         try {
           cb.add(c, i);
         } catch (IllegalArgumentException e) {
-          throw new IllegalArgumentException("controlTokens: " + e.getMessage(), e);
+          throw new IllegalArgumentException("reservedTokens: " + e.getMessage(), e);
         }
         for (int b = 0; b < 256; b++) {
           if (c.equals(ByteSpelling.display(new byte[] {(byte) b}, 0, 1))) {
-            throw new IllegalArgumentException("controlTokens: spelling '" + c + "' is the display spelling of byte token "
+            throw new IllegalArgumentException("reservedTokens: spelling '" + c + "' is the display spelling of byte token "
                 + b + "; choose a spelling no byte token has");
           }
         }
@@ -236,12 +236,12 @@ public final class BpeLearner {
       try {
         cb.build();
       } catch (IllegalArgumentException e) {
-        throw new IllegalArgumentException("controlTokens: " + e.getMessage(), e);
+        throw new IllegalArgumentException("reservedTokens: " + e.getMessage(), e);
       }
-      int floor = 256 + controls.size();
+      int floor = 256 + reserved.size();
       if (vocabularySize < floor) {
         throw new IllegalArgumentException("vocabularySize=" + vocabularySize + " is below " + floor + " (256 byte tokens + "
-            + controls.size() + " control tokens)");
+            + reserved.size() + " reserved tokens)");
       }
       if (minPairCount < 1) {
         throw new IllegalArgumentException("minPairCount=" + minPairCount + " must be at least 1");

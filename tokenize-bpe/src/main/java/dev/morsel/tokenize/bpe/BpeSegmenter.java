@@ -1,6 +1,6 @@
 package dev.morsel.tokenize.bpe;
 
-import dev.morsel.tokenize.ControlTokens;
+import dev.morsel.tokenize.ReservedTokens;
 import dev.morsel.tokenize.bpe.internal.BpeSections;
 import dev.morsel.tokenize.bpe.internal.ByteSpelling;
 import dev.morsel.tokenize.bpe.internal.Encoder;
@@ -28,7 +28,7 @@ import java.util.SplittableRandom;
  * thread-safe; allocates nothing per token (per-thread scratch buffers, and cache hits allocate
  * nothing at all).
  *
- * <p>Vocabulary: control tokens {@code 0..k-1} (never produced by {@link #segment}), then the 256
+ * <p>Vocabulary: reserved tokens {@code 0..k-1} (never produced by {@link #segment}), then the 256
  * byte tokens {@code k..k+255} (all present, so there is no unknown token), then one token per merge
  * in rank order. Segmentation repeatedly merges the lowest-ranked adjacent pair, leftmost first among
  * equal ranks [1]; a token that holds part of a multi-byte character reports that whole character's
@@ -36,7 +36,7 @@ import java.util.SplittableRandom;
  *
  * <p>Display spellings ({@link #token}): a token's bytes as text where they are well-formed UTF-8,
  * with {@code \\} for a backslash, and {@code \xHH} (lowercase hex) for C0 controls, DEL, and every
- * byte not part of a complete well-formed UTF-8 sequence. Control tokens show their spelling. Token
+ * byte not part of a complete well-formed UTF-8 sequence. Reserved tokens show their spelling. Token
  * bytes are unique, so spellings are unique, and {@link #id(String)} inverts {@link #token(int)}.
  *
  * <p>Piece cache: on by default with {@link #DEFAULT_CACHE_ENTRIES} entries; see
@@ -66,7 +66,7 @@ public final class BpeSegmenter implements Segmenter {
 
   private final Vocab vocab;
   private final Encoder encoder;
-  private final ControlTokens controlTokens;
+  private final ReservedTokens reservedTokens;
   private final int cacheEntries;
   private final PieceCache cache; // null when off
   private final double dropout;
@@ -74,10 +74,10 @@ public final class BpeSegmenter implements Segmenter {
   private final SplittableRandom dropoutRoot; // null when dropout is off
   private final ThreadLocal<SplittableRandom> dropoutRandom;
 
-  private BpeSegmenter(Vocab vocab, Encoder encoder, ControlTokens controls, int cacheEntries, double dropout, long seed) {
+  private BpeSegmenter(Vocab vocab, Encoder encoder, ReservedTokens reserved, int cacheEntries, double dropout, long seed) {
     this.vocab = vocab;
     this.encoder = encoder;
-    this.controlTokens = controls;
+    this.reservedTokens = reserved;
     this.cacheEntries = cacheEntries;
     this.cache = cacheEntries == 0 || dropout > 0 ? null : new PieceCache(cacheEntries); // dropout bypasses it
     this.dropout = dropout;
@@ -97,9 +97,9 @@ public final class BpeSegmenter implements Segmenter {
   }
 
   static BpeSegmenter create(Vocab vocab, int cacheEntries) {
-    ControlTokens.Builder b = ControlTokens.builder();
-    for (int i = 0; i < vocab.controlCount(); i++) {
-      b.add(vocab.controls().get(i), i);
+    ReservedTokens.Builder b = ReservedTokens.builder();
+    for (int i = 0; i < vocab.reservedCount(); i++) {
+      b.add(vocab.reserved().get(i), i);
     }
     return new BpeSegmenter(vocab, new Encoder(vocab), b.build(), cacheEntries, 0.0, 0L);
   }
@@ -108,18 +108,18 @@ public final class BpeSegmenter implements Segmenter {
 
   /**
    * A segmenter from explicit merges: merge {@code r} joins {@code left[r]} and {@code right[r]} into
-   * id {@code controls.size() + 256 + r}.
+   * id {@code reserved.size() + 256 + r}.
    *
-   * @throws IllegalArgumentException if a merge refers to a control id or an id not below its own, a
+   * @throws IllegalArgumentException if a merge refers to a reserved id or an id not below its own, a
    *     pair repeats, two tokens would have the same bytes, a token exceeds {@link #MAX_TOKEN_BYTES},
-   *     or the control spellings are invalid (see {@link ControlTokens.Builder})
+   *     or the reserved spellings are invalid (see {@link ReservedTokens.Builder})
    */
-  public static BpeSegmenter of(List<String> controls, int[] left, int[] right) {
-    Objects.requireNonNull(controls, "controls");
+  public static BpeSegmenter of(List<String> reserved, int[] left, int[] right) {
+    Objects.requireNonNull(reserved, "reserved");
     if (left.length != right.length) {
       throw new IllegalArgumentException("left (" + left.length + ") and right (" + right.length + ") differ in length");
     }
-    Vocab v = Vocab.build(controls, left, right, (i, msg) -> new IllegalArgumentException(msg));
+    Vocab v = Vocab.build(reserved, left, right, (i, msg) -> new IllegalArgumentException(msg));
     return create(v, DEFAULT_CACHE_ENTRIES);
   }
 
@@ -143,14 +143,14 @@ public final class BpeSegmenter implements Segmenter {
    * lines are not allowed. Tokens are looked up by their bytes among the byte tokens and earlier lines.
    *
    * @param source a name for the input used in error messages (a file name, say)
-   * @param controls control spellings, ids {@code 0..k-1}
+   * @param reserved reserved spellings, ids {@code 0..k-1}
    * @throws ModelFormatException naming {@code source} and the line: malformed line or escape, unknown
    *     token, repeated pair, a token that already exists, a token over {@link #MAX_TOKEN_BYTES}
    * @throws UncheckedIOException if reading fails
    */
-  public static BpeSegmenter readMergeList(Reader in, String source, List<String> controls) {
+  public static BpeSegmenter readMergeList(Reader in, String source, List<String> reserved) {
     Objects.requireNonNull(in, "in");
-    int k = controls.size();
+    int k = reserved.size();
     Map<String, Integer> byBytes = new HashMap<>();
     for (int b = 0; b < 256; b++) {
       byBytes.put(String.valueOf((char) b), k + b);
@@ -196,7 +196,7 @@ public final class BpeSegmenter implements Segmenter {
       throw new UncheckedIOException("reading " + source + " failed after line " + lineNo, e);
     }
     try {
-      return of(controls, left.toIntArray(), right.toIntArray());
+      return of(reserved, left.toIntArray(), right.toIntArray());
     } catch (IllegalArgumentException e) {
       throw new ModelFormatException(source, e.getMessage(), e);
     }
@@ -222,7 +222,7 @@ public final class BpeSegmenter implements Segmenter {
     if (entries < 0 || entries > MAX_CACHE_ENTRIES) {
       throw new IllegalArgumentException("cacheEntries=" + entries + " is outside [0, " + MAX_CACHE_ENTRIES + "]");
     }
-    return new BpeSegmenter(vocab, encoder, controlTokens, entries, dropout, seed);
+    return new BpeSegmenter(vocab, encoder, reservedTokens, entries, dropout, seed);
   }
 
   /** The configured cache size in entries (0 = off). */
@@ -245,7 +245,7 @@ public final class BpeSegmenter implements Segmenter {
     if (!(p >= 0.0 && p <= 1.0)) {
       throw new IllegalArgumentException("dropout=" + p + " is not a probability in [0, 1]");
     }
-    return new BpeSegmenter(vocab, encoder, controlTokens, cacheEntries, p, seed);
+    return new BpeSegmenter(vocab, encoder, reservedTokens, cacheEntries, p, seed);
   }
 
   /** The dropout probability (0 = off). */
@@ -276,10 +276,10 @@ public final class BpeSegmenter implements Segmenter {
     return token == null ? -1 : vocab.id(token);
   }
 
-  /** The control tokens reserved by the trainer, ids {@code 0..k-1}, for assembling a tokenizer. */
+  /** The reserved tokens given to the trainer, ids {@code 0..k-1}, for assembling a tokenizer. */
   @Override
-  public ControlTokens controlTokens() {
-    return controlTokens;
+  public ReservedTokens reservedTokens() {
+    return reservedTokens;
   }
 
   /** Number of merges. */
@@ -299,7 +299,7 @@ public final class BpeSegmenter implements Segmenter {
     return vocab.right(rank);
   }
 
-  /** A copy of token {@code id}'s bytes (a control token's spelling as UTF-8). */
+  /** A copy of token {@code id}'s bytes (a reserved token's spelling as UTF-8). */
   public byte[] tokenBytes(int id) {
     Objects.checkIndex(id, vocab.size());
     return vocab.tokenBytes(id);
@@ -327,11 +327,11 @@ public final class BpeSegmenter implements Segmenter {
     for (int r = 0; r < vocab.mergeCount(); r++) {
       ranks.put(((long) vocab.left(r) << 32) | vocab.right(r), r);
     }
-    int first = vocab.controlCount() + 256;
+    int first = vocab.reservedCount() + 256;
     String piece = text.subSequence(start, end).toString().replaceAll("[\\ud800-\\udbff](?![\\udc00-\\udfff])|(?<![\\ud800-\\udbff])[\\udc00-\\udfff]", "\ufffd");
     java.util.ArrayList<Integer> ids = new java.util.ArrayList<>();
     for (byte b : piece.getBytes(StandardCharsets.UTF_8)) {
-      ids.add(vocab.controlCount() + (b & 0xFF));
+      ids.add(vocab.reservedCount() + (b & 0xFF));
     }
     java.util.ArrayList<String> out = new java.util.ArrayList<>();
     out.add(ids.size() + " byte tokens; merges in order:");
@@ -413,7 +413,7 @@ public final class BpeSegmenter implements Segmenter {
 
   @Override
   public String toString() {
-    return "BpeSegmenter[" + vocab.controlCount() + " control, " + vocab.mergeCount() + " merges, cache "
+    return "BpeSegmenter[" + vocab.reservedCount() + " reserved, " + vocab.mergeCount() + " merges, cache "
         + cacheEntries + (dropout > 0 ? ", dropout " + dropout : "") + "]";
   }
 }

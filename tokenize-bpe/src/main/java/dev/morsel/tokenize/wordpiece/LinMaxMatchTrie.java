@@ -77,7 +77,7 @@ final class LinMaxMatchTrie {
    * Builds the automaton.
    *
    * @param bodies token bodies (continuation bodies without the marker), indexed by token id; {@code
-   *     null} for ids that are not matched (control and unknown tokens)
+   *     null} for ids that are not matched (reserved and unknown tokens)
    * @param continuation whether each id is a continuation token
    * @param maxLength bodies longer than this (in UTF-16 units) can never match a piece and are left
    *     out

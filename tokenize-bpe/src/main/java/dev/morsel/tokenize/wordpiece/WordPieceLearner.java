@@ -45,10 +45,10 @@ import java.util.Set;
  *       {@code (double) count(ab) / ((double) count(a) * (double) count(b))}. Ties go to the
  *       higher count(ab), then the smaller spelling of a, then the smaller spelling of b ({@link
  *       String#compareTo}). Pairs with count(ab) below {@code minPairCount} are never merged.
- *   <li>A pair is never merged if the new unit's spelling equals a control or unknown spelling, or
+ *   <li>A pair is never merged if the new unit's spelling equals a reserved or unknown spelling, or
  *       if it is word-initial and starts with the marker while being longer than it (its spelling
  *       would read as a continuation token).
- *   <li>Merging stops when the vocabulary (control tokens, the unknown token and all units ever
+ *   <li>Merging stops when the vocabulary (reserved tokens, the unknown token and all units ever
  *       created) reaches {@code vocabularySize}, or no pair is left.
  * </ol>
  *
@@ -124,7 +124,7 @@ public final class WordPieceLearner {
   private final int vocabularySize;
   private final long minCount;
   private final int maxAlphabet;
-  private final List<String> controlTokens;
+  private final List<String> reservedTokens;
   private final WordPieceSettings settings;
   private final TrainingListener listener;
   private final Score rule;
@@ -134,7 +134,7 @@ public final class WordPieceLearner {
     this.vocabularySize = b.vocabularySize;
     this.minCount = b.minCount;
     this.maxAlphabet = b.maxAlphabet;
-    this.controlTokens = List.copyOf(b.controlTokens);
+    this.reservedTokens = List.copyOf(b.reservedTokens);
     this.settings = b.settings;
     this.listener = b.listener;
     this.rule = b.score;
@@ -155,7 +155,7 @@ public final class WordPieceLearner {
     private int vocabularySize = DEFAULT_VOCABULARY_SIZE;
     private long minCount = DEFAULT_MIN_COUNT;
     private int maxAlphabet = DEFAULT_MAX_ALPHABET;
-    private List<String> controlTokens = List.of();
+    private List<String> reservedTokens = List.of();
     private WordPieceSettings settings = WordPieceSettings.defaults();
     private TrainingListener listener = TrainingListener.NONE;
     private Score score = Score.LIKELIHOOD_GAIN;
@@ -164,7 +164,7 @@ public final class WordPieceLearner {
     private Builder() {}
 
     /**
-     * Target vocabulary size in tokens, control and unknown tokens included (default {@value
+     * Target vocabulary size in tokens, reserved and unknown tokens included (default {@value
      * WordPieceLearner#DEFAULT_VOCABULARY_SIZE}).
      *
      * @throws IllegalArgumentException if not in {@code [2, MAX_VOCABULARY_SIZE]}
@@ -205,22 +205,22 @@ public final class WordPieceLearner {
     }
 
     /**
-     * Control token spellings reserved at ids {@code 0..n-1} (default none).
+     * Reserved token spellings reserved at ids {@code 0..n-1} (default none).
      *
      * @throws IllegalArgumentException if a spelling is null, empty or repeated
      */
-    public Builder controlTokens(List<String> controlTokens) {
+    public Builder reservedTokens(List<String> reservedTokens) {
       Set<String> seen = new HashSet<>();
-      for (int i = 0; i < controlTokens.size(); i++) {
-        String s = controlTokens.get(i);
+      for (int i = 0; i < reservedTokens.size(); i++) {
+        String s = reservedTokens.get(i);
         if (s == null || s.isEmpty()) {
-          throw new IllegalArgumentException("control token " + i + " is " + (s == null ? "null" : "empty"));
+          throw new IllegalArgumentException("reserved token " + i + " is " + (s == null ? "null" : "empty"));
         }
         if (!seen.add(s)) {
-          throw new IllegalArgumentException("control token " + i + " '" + s + "' is repeated");
+          throw new IllegalArgumentException("reserved token " + i + " '" + s + "' is repeated");
         }
       }
-      this.controlTokens = List.copyOf(controlTokens);
+      this.reservedTokens = List.copyOf(reservedTokens);
       return this;
     }
 
@@ -265,11 +265,11 @@ public final class WordPieceLearner {
     /**
      * The trainer.
      *
-     * @throws IllegalArgumentException if a control token equals the unknown spelling
+     * @throws IllegalArgumentException if a reserved token equals the unknown spelling
      */
     public WordPieceLearner build() {
-      if (controlTokens.contains(settings.unknownToken())) {
-        throw new IllegalArgumentException("control token '" + settings.unknownToken()
+      if (reservedTokens.contains(settings.unknownToken())) {
+        throw new IllegalArgumentException("reserved token '" + settings.unknownToken()
             + "' equals the unknown token spelling (settings unknownToken)");
       }
       return new WordPieceLearner(this);
@@ -354,7 +354,7 @@ public final class WordPieceLearner {
 
     Run(PieceCounts counts) {
       this.counts = counts;
-      reserved.addAll(controlTokens);
+      reserved.addAll(reservedTokens);
       reserved.add(settings.unknownToken());
       unitBySpelling.defaultReturnValue(-1);
     }
@@ -367,7 +367,7 @@ public final class WordPieceLearner {
       }
       kept = withinLimits(kept);
       buildAlphabetAndWords(kept);
-      int reservedCount = controlTokens.size() + 1;
+      int reservedCount = reservedTokens.size() + 1;
       int initial = reservedCount + spelling.size();
       if (vocabularySize < initial) {
         throw new IllegalArgumentException("vocabularySize=" + vocabularySize + " is smaller than the alphabet ("
@@ -378,10 +378,10 @@ public final class WordPieceLearner {
       }
       countPairs();
       merge(initial);
-      List<String> vocab = new ArrayList<>(controlTokens);
+      List<String> vocab = new ArrayList<>(reservedTokens);
       vocab.add(settings.unknownToken());
       vocab.addAll(spelling);
-      return WordPieceSegmenter.of(vocab, controlTokens.size(), settings);
+      return WordPieceSegmenter.of(vocab, reservedTokens.size(), settings);
     }
 
     /** The pieces no longer than maxPieceLength; fails if none is left or counts could overflow. */

@@ -24,18 +24,18 @@ import java.util.Objects;
  * Immutable and thread-safe; {@link #segment} allocates nothing in steady state and runs in time
  * linear in the piece length on every input (LinMaxMatch [3]).
  *
- * <p>Vocabulary layout: ids {@code 0..controlCount-1} are control tokens (user spellings, never
- * produced by {@link #segment}), id {@code controlCount} is the unknown token, the rest are
+ * <p>Vocabulary layout: ids {@code 0..reservedCount-1} are reserved tokens (user spellings, never
+ * produced by {@link #segment}), id {@code reservedCount} is the unknown token, the rest are
  * ordinary tokens. An ordinary spelling that starts with the marker and is longer than it is a
  * continuation token whose text is the spelling without the marker; any other spelling is a
  * word-initial token. Spellings are distinct and well-formed UTF-16.
  *
  * <p>Decoding: a word-initial token writes its text, a continuation token its text without the
- * marker, the unknown token the UTF-8 of its spelling and a control token the UTF-8 of its spelling.
+ * marker, the unknown token the UTF-8 of its spelling and a reserved token the UTF-8 of its spelling.
  * Decoding is therefore lossless only for results without an unknown token.
  *
  * <p>Model sections: {@value #SETTINGS_TAG} (format version, marker, unknown spelling, maximum
- * piece length, control count) and {@value #VOCABULARY_TAG} (token count, then each spelling);
+ * piece length, reserved count) and {@value #VOCABULARY_TAG} (token count, then each spelling);
  * see {@code docs/wordpiece.md}.
  *
  * <p>References: [2] Wu et al. (2016), "Google's Neural Machine Translation System", §4.1; [3]
@@ -55,7 +55,7 @@ public final class WordPieceSegmenter implements Segmenter {
   /** Most tokens a vocabulary may hold (keeps trie keys and pop runs in int range). */
   public static final int MAX_VOCABULARY_SIZE = 1 << 24;
 
-  private static final byte CONTROL = 0;
+  private static final byte RESERVED = 0;
   private static final byte UNKNOWN = 1;
   private static final byte INITIAL = 2;
   private static final byte CONTINUATION = 3;
@@ -63,7 +63,7 @@ public final class WordPieceSegmenter implements Segmenter {
   // ------------------------------------------------------------------ state
 
   private final WordPieceSettings settings;
-  private final int controlCount;
+  private final int reservedCount;
   private final int unknownId;
   private final String[] spellings;
   private final byte[] kinds;
@@ -85,18 +85,18 @@ public final class WordPieceSegmenter implements Segmenter {
   // ------------------------------------------------------------------ life-cycle
 
   /** Validates and builds; {@code errors} turns (entry index, message) into the exception to throw. */
-  private WordPieceSegmenter(List<String> tokens, int controlCount, WordPieceSettings settings, Errors errors) {
+  private WordPieceSegmenter(List<String> tokens, int reservedCount, WordPieceSettings settings, Errors errors) {
     this.settings = Objects.requireNonNull(settings, "settings");
     int n = tokens.size();
     if (n > MAX_VOCABULARY_SIZE) {
       throw errors.fail(-1, "vocabulary of " + n + " tokens exceeds " + MAX_VOCABULARY_SIZE);
     }
-    if (controlCount < 0 || controlCount >= n) {
-      throw errors.fail(-1, "control count " + controlCount + " must lie in [0, " + (n - 1)
-          + "] so that the unknown token follows the control tokens in a vocabulary of " + n + " tokens");
+    if (reservedCount < 0 || reservedCount >= n) {
+      throw errors.fail(-1, "reserved count " + reservedCount + " must lie in [0, " + (n - 1)
+          + "] so that the unknown token follows the reserved tokens in a vocabulary of " + n + " tokens");
     }
-    this.controlCount = controlCount;
-    this.unknownId = controlCount;
+    this.reservedCount = reservedCount;
+    this.unknownId = reservedCount;
     String marker = settings.marker();
     spellings = new String[n];
     kinds = new byte[n];
@@ -121,13 +121,13 @@ public final class WordPieceSegmenter implements Segmenter {
       }
       spellings[i] = s;
       String text;
-      if (i < controlCount) {
-        kinds[i] = CONTROL;
+      if (i < reservedCount) {
+        kinds[i] = RESERVED;
         text = s;
-      } else if (i == controlCount) {
+      } else if (i == reservedCount) {
         if (!s.equals(settings.unknownToken())) {
           throw errors.fail(i, "expected the unknown token '" + settings.unknownToken() + "' after "
-              + controlCount + " control tokens but found '" + s + "'");
+              + reservedCount + " reserved tokens but found '" + s + "'");
         }
         kinds[i] = UNKNOWN;
         text = s;
@@ -184,16 +184,16 @@ public final class WordPieceSegmenter implements Segmenter {
   }
 
   /**
-   * A segmenter over {@code tokens} in id order: {@code controlCount} control tokens, then the
+   * A segmenter over {@code tokens} in id order: {@code reservedCount} reserved tokens, then the
    * unknown token, then word-initial and continuation tokens (marked with the settings' marker).
    *
    * @throws IllegalArgumentException naming the token index if a token is null, empty, duplicated or
-   *     holds a lone surrogate, if the unknown token is not at index {@code controlCount}, or if the
-   *     control count is out of range
+   *     holds a lone surrogate, if the unknown token is not at index {@code reservedCount}, or if the
+   *     reserved count is out of range
    */
-  public static WordPieceSegmenter of(List<String> tokens, int controlCount, WordPieceSettings settings) {
+  public static WordPieceSegmenter of(List<String> tokens, int reservedCount, WordPieceSettings settings) {
     Objects.requireNonNull(tokens, "tokens");
-    return new WordPieceSegmenter(tokens, controlCount, settings,
+    return new WordPieceSegmenter(tokens, reservedCount, settings,
         (i, m) -> new IllegalArgumentException(i < 0 ? m : "token " + i + ": " + m));
   }
 
@@ -205,12 +205,12 @@ public final class WordPieceSegmenter implements Segmenter {
    * @throws ModelFormatException naming the line if a line is malformed or the vocabulary is invalid
    * @throws UncheckedIOException if reading fails
    */
-  public static WordPieceSegmenter readTokenList(Reader in, String source, int controlCount,
+  public static WordPieceSegmenter readTokenList(Reader in, String source, int reservedCount,
       WordPieceSettings settings) {
     Objects.requireNonNull(in, "in");
     Objects.requireNonNull(source, "source");
     List<String> tokens = TokenListText.read(in, source);
-    return new WordPieceSegmenter(tokens, controlCount, settings,
+    return new WordPieceSegmenter(tokens, reservedCount, settings,
         (i, m) -> new ModelFormatException(i < 0 ? source : source + " line " + (i + 1), m));
   }
 
@@ -229,7 +229,7 @@ public final class WordPieceSegmenter implements Segmenter {
     String marker = st.getString("marker");
     String unknown = st.getString("unknown token");
     int maxPieceLength = st.getInt("max piece length");
-    int controlCount = st.getInt("control count");
+    int reservedCount = st.getInt("reserved count");
     st.expectEnd();
     WordPieceSettings settings;
     try {
@@ -245,11 +245,11 @@ public final class WordPieceSegmenter implements Segmenter {
       tokens[i] = vo.getString("token " + i);
     }
     vo.expectEnd();
-    if (controlCount < 0 || controlCount >= n) {
-      throw new ModelFormatException(SETTINGS_TAG, "control count " + controlCount + " must lie in [0, "
+    if (reservedCount < 0 || reservedCount >= n) {
+      throw new ModelFormatException(SETTINGS_TAG, "reserved count " + reservedCount + " must lie in [0, "
           + (n - 1) + "] for a vocabulary of " + n + " tokens");
     }
-    return new WordPieceSegmenter(List.of(tokens), controlCount, settings,
+    return new WordPieceSegmenter(List.of(tokens), reservedCount, settings,
         (i, m) -> new ModelFormatException(VOCABULARY_TAG, i < 0 ? m : "entry " + i + ": " + m));
   }
 
@@ -285,16 +285,16 @@ public final class WordPieceSegmenter implements Segmenter {
     return settings;
   }
 
-  /** Number of control tokens (ids {@code 0..controlCount-1}). */
-  public int controlCount() {
-    return controlCount;
+  /** Number of reserved tokens (ids {@code 0..reservedCount-1}). */
+  public int reservedCount() {
+    return reservedCount;
   }
 
-  /** The control tokens: ids {@code 0..controlCount-1} bound to their spellings, for assembling a tokenizer. */
+  /** The reserved tokens: ids {@code 0..reservedCount-1} bound to their spellings, for assembling a tokenizer. */
   @Override
-  public dev.morsel.tokenize.ControlTokens controlTokens() {
-    dev.morsel.tokenize.ControlTokens.Builder b = dev.morsel.tokenize.ControlTokens.builder();
-    for (int i = 0; i < controlCount; i++) {
+  public dev.morsel.tokenize.ReservedTokens reservedTokens() {
+    dev.morsel.tokenize.ReservedTokens.Builder b = dev.morsel.tokenize.ReservedTokens.builder();
+    for (int i = 0; i < reservedCount; i++) {
       b.add(spellings[i], i);
     }
     return b.build();
@@ -355,7 +355,7 @@ public final class WordPieceSegmenter implements Segmenter {
         String sub = piece.substring(i, i + len);
         String spelling = i == 0 ? sub : settings.marker() + sub;
         int id = id(spelling);
-        if (id >= controlCount && id != unknownId()) {
+        if (id >= reservedCount && id != unknownId()) {
           found = len;
           out.add("at " + i + ": '" + spelling + "' (" + id + ")" + (backedOff > 0 ? ", after backing off from "
               + backedOff + " longer candidate(s) that are not tokens" : ""));
@@ -426,7 +426,7 @@ public final class WordPieceSegmenter implements Segmenter {
     st.putString(settings.marker());
     st.putString(settings.unknownToken());
     st.putInt(settings.maxPieceLength());
-    st.putInt(controlCount);
+    st.putInt(reservedCount);
     SectionWriter vo = out.section(VOCABULARY_TAG);
     vo.putInt(spellings.length);
     for (String s : spellings) {

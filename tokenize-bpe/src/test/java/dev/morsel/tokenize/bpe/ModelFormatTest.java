@@ -22,10 +22,10 @@ import org.junit.jupiter.api.Test;
 
 /** Model sections (BPEC, BPEM), the provider, and the ranked pair list text format. */
 class ModelFormatTest {
-  private static final List<String> CONTROLS = List.of("«dock»", "«sail»");
+  private static final List<String> RESERVED = List.of("«dock»", "«sail»");
 
-  private static BpeSegmenter withControls() {
-    return BpeLearner.builder().vocabularySize(2 + 256 + 300).controlTokens(CONTROLS).threads(1).build()
+  private static BpeSegmenter withReserved() {
+    return BpeLearner.builder().vocabularySize(2 + 256 + 300).reservedTokens(RESERVED).threads(1).build()
         .train(Fixtures.countPieces(Fixtures.europarlBodies().subList(0, 300)));
   }
 
@@ -56,7 +56,7 @@ class ModelFormatTest {
 
   @Test
   void sectionsWriteThenReadGiveTheSameSegmenter() {
-    BpeSegmenter s = withControls().withCacheEntries(1024);
+    BpeSegmenter s = withReserved().withCacheEntries(1024);
     Map<String, byte[]> pl = payloads(s);
     assertEquals(java.util.Set.of("BPEC", "BPEM"), pl.keySet());
     BpeSegmenter back = BpeSegmenter.read(Sections.of(pl));
@@ -65,8 +65,8 @@ class ModelFormatTest {
     // sections (hence the fingerprint) do not depend on it
     assertEquals(BpeSegmenter.DEFAULT_CACHE_ENTRIES, back.cacheEntries());
     assertArrayEquals(pl.get("BPEC"), payloads(s.withCacheEntries(0)).get("BPEC"));
-    assertEquals(s.controlTokens(), back.controlTokens());
-    assertEquals(1, back.controlTokens().id("«sail»"));
+    assertEquals(s.reservedTokens(), back.reservedTokens());
+    assertEquals(1, back.reservedTokens().id("«sail»"));
     // writing again is byte-identical
     Map<String, byte[]> again = payloads(back);
     assertArrayEquals(pl.get("BPEM"), again.get("BPEM"));
@@ -75,7 +75,7 @@ class ModelFormatTest {
 
   @Test
   void providerIsFoundOnTheClassPath() {
-    BpeSegmenter s = withControls();
+    BpeSegmenter s = withReserved();
     SegmenterProvider found = null;
     for (SegmenterProvider p : ServiceLoader.load(SegmenterProvider.class)) {
       if (p.kind().equals("bpe")) {
@@ -138,17 +138,17 @@ class ModelFormatTest {
 
   @Test
   void corruptSettingsAreRejected() {
-    Map<String, byte[]> pl = new HashMap<>(payloads(withControls()));
+    Map<String, byte[]> pl = new HashMap<>(payloads(withReserved()));
     byte[] c = pl.get("BPEC").clone();
     c[0] = 9; // version
     pl.put("BPEC", c);
     assertNames(assertThrows(ModelFormatException.class, () -> BpeSegmenter.read(Sections.of(pl))),
         "BPEC", "version");
-    Map<String, byte[]> missing = new HashMap<>(payloads(withControls()));
+    Map<String, byte[]> missing = new HashMap<>(payloads(withReserved()));
     missing.remove("BPEM");
     assertNames(assertThrows(ModelFormatException.class, () -> BpeSegmenter.read(Sections.of(missing))),
         "BPEM", "missing");
-    // a control spelling that contains another (ControlTokens rule) is rejected
+    // a reserved spelling that contains another (ReservedTokens rule) is rejected
     ModelWriter w = new ModelWriter();
     w.section("BPEC").putInt(1).putInt(2).putString("«dock»").putString("dock").putInt(0);
     w.section("BPEM").putInt(0);
@@ -158,13 +158,13 @@ class ModelFormatTest {
 
   @Test
   void mergeListRoundTripsIncludingSpacesAndPartialCharacters() {
-    BpeSegmenter s = withControls();
+    BpeSegmenter s = withReserved();
     StringBuilder sb = new StringBuilder();
     s.writeMergeList(sb);
     String text = sb.toString();
     assertEquals(s.mergeCount(), text.split("\n", -1).length - 1);
     assertTrue(text.contains("\\x20"), "pieces with leading spaces are in the list");
-    BpeSegmenter back = BpeSegmenter.readMergeList(new StringReader(text), "merges.txt", CONTROLS);
+    BpeSegmenter back = BpeSegmenter.readMergeList(new StringReader(text), "merges.txt", RESERVED);
     assertSameSegmenter(s, back);
     // a merge of two partial-character bytes uses \xHH in both display and line form
     BpeSegmenter partial = BpeSegmenter.of(List.of(), new int[] {0xC3, 0xE2}, new int[] {0xA9, 0x82});

@@ -17,7 +17,7 @@ import java.util.Set;
 final class TextbookBpe {
   private TextbookBpe() {}
 
-  /** Merges as {left ids, right ids}. Ids: controls 0..k-1, byte b = k+b, merge r = k+256+r. */
+  /** Merges as {left ids, right ids}. Ids: reserved 0..k-1, byte b = k+b, merge r = k+256+r. */
   static int[][] train(Map<String, Long> pieces, int k, int maxMerges, long minPairCount, int maxTokenBytes) {
     List<String> keys = new ArrayList<>(pieces.keySet());
     keys.sort(null);

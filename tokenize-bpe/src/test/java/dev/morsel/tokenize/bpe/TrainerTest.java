@@ -114,18 +114,18 @@ class TrainerTest {
   }
 
   @Test
-  void controlTokensComeFirstAndAreNeverMergedInto() {
-    List<String> controls = List.of("«dock»", "«sail»");
-    BpeSegmenter s = BpeLearner.builder().vocabularySize(2 + 256 + 10).controlTokens(controls).threads(1)
+  void reservedTokensComeFirstAndAreNeverMergedInto() {
+    List<String> reserved = List.of("«dock»", "«sail»");
+    BpeSegmenter s = BpeLearner.builder().vocabularySize(2 + 256 + 10).reservedTokens(reserved).threads(1)
         .build().train(Fixtures.countPieces(List.of("the ferry to the island leaves at dawn", "the ferry is late")));
     assertEquals("«dock»", s.token(0));
     assertEquals("«sail»", s.token(1));
-    assertEquals(1, s.controlTokens().id("«sail»"));
+    assertEquals(1, s.reservedTokens().id("«sail»"));
     assertEquals("a", s.token(2 + 'a'));
     for (int r = 0; r < s.mergeCount(); r++) {
-      assertTrue(s.mergeLeft(r) >= 2 && s.mergeRight(r) >= 2, "merge " + r + " uses a control id");
+      assertTrue(s.mergeLeft(r) >= 2 && s.mergeRight(r) >= 2, "merge " + r + " uses a reserved id");
     }
-    // decodeToken of a control id writes its spelling's UTF-8
+    // decodeToken of a reserved id writes its spelling's UTF-8
     assertArrayEquals("«dock»".getBytes(java.nio.charset.StandardCharsets.UTF_8), Fixtures.decode(s, new int[] {0}));
   }
 
@@ -155,13 +155,13 @@ class TrainerTest {
   @Test
   void badSettingsNameTheSetting() {
     PieceCounts pc = PieceCounts.of(Map.of("quay", 3L));
-    assertMessage("vocabularySize=257", () -> BpeLearner.builder().vocabularySize(257).controlTokens(List.of("«a»", "«b»")).build());
+    assertMessage("vocabularySize=257", () -> BpeLearner.builder().vocabularySize(257).reservedTokens(List.of("«a»", "«b»")).build());
     assertMessage("vocabularySize=100", () -> BpeLearner.builder().vocabularySize(100).build());
     assertMessage("piece counts are empty", () -> BpeLearner.builder().build().train(PieceCounts.empty()));
     assertMessage("minPieceCount=5", () -> BpeLearner.builder().minPieceCount(5).build().train(pc));
-    assertMessage("controlTokens", () -> BpeLearner.builder().controlTokens(List.of("«a»", "«a»")).build());
-    assertMessage("controlTokens", () -> BpeLearner.builder().controlTokens(List.of("Q")).build());
-    assertMessage("controlTokens", () -> BpeLearner.builder().controlTokens(List.of("")).build());
+    assertMessage("reservedTokens", () -> BpeLearner.builder().reservedTokens(List.of("«a»", "«a»")).build());
+    assertMessage("reservedTokens", () -> BpeLearner.builder().reservedTokens(List.of("Q")).build());
+    assertMessage("reservedTokens", () -> BpeLearner.builder().reservedTokens(List.of("")).build());
     assertMessage("minPairCount=0", () -> BpeLearner.builder().minPairCount(0).build());
     assertMessage("maxTokenBytes=1", () -> BpeLearner.builder().maxTokenBytes(1).build());
     assertMessage("maxTokenBytes=5000", () -> BpeLearner.builder().maxTokenBytes(5000).build());

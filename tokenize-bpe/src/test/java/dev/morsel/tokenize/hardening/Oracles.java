@@ -21,10 +21,10 @@ final class Oracles {
    * with the lowest merge rank and merge all its occurrences, left to right, without overlap.
    * Merging every occurrence of the lowest-ranked pair in one pass equals merging the leftmost one
    * at a time, because a merge only creates pairs of higher rank than its own. Vocabulary layout as
-   * documented by {@link BpeSegmenter}: control ids, then 256 byte ids, then one id per merge rank.
+   * documented by {@link BpeSegmenter}: reserved ids, then 256 byte ids, then one id per merge rank.
    */
   static int[] textbookBpe(BpeSegmenter bpe, String normalizedPiece) {
-    int k = bpe.controlTokens().size();
+    int k = bpe.reservedTokens().size();
     Map<Long, Integer> rank = new HashMap<>();
     for (int r = 0; r < bpe.mergeCount(); r++) {
       rank.put(((long) bpe.mergeLeft(r) << 32) | bpe.mergeRight(r), r);
@@ -72,11 +72,11 @@ final class Oracles {
   static int[] greedyWordPiece(WordPieceSegmenter wp, String piece) {
     List<String> tokens = wp.tokens();
     String marker = wp.settings().marker();
-    int controls = wp.controlCount();
+    int reserved = wp.reservedCount();
     Map<String, Integer> initial = new HashMap<>();
     Map<String, Integer> continuation = new HashMap<>();
     int longest = 0;
-    for (int id = controls + 1; id < tokens.size(); id++) {
+    for (int id = reserved + 1; id < tokens.size(); id++) {
       String s = tokens.get(id);
       if (s.length() > marker.length() && s.startsWith(marker)) {
         continuation.put(s.substring(marker.length()), id);
@@ -86,7 +86,7 @@ final class Oracles {
         longest = Math.max(longest, s.length());
       }
     }
-    int unknown = controls;
+    int unknown = reserved;
     if (piece.length() > wp.settings().maxPieceLength()) {
       return new int[] {unknown};
     }

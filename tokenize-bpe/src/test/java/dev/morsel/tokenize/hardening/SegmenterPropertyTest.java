@@ -17,7 +17,7 @@ import org.junit.jupiter.params.provider.MethodSource;
  * The {@link TokenizerProperties} for every segmenter of this module under every normalization
  * form, over seeded {@link HardText}: {@value #CASES} generated texts per (segmenter, form), each
  * checked for offsets, bytes inside spans, cold/warm and variant agreement (cache off, tiny cache,
- * fresh instance, saved and loaded), round trip, no control token from untrusted text, lenient and
+ * fresh instance, saved and loaded), round trip, no reserved token from untrusted text, lenient and
  * streaming decode; plus a parallel batch of the same texts against the sequential results. Case
  * counts per property are printed after the class and asserted. A failure prints the seed; replay it
  * with {@code -Dmorsel.replay=0x...} (see {@link Seeds}).

@@ -51,7 +51,7 @@ class TrainerAbuseTest {
   }
 
   static Tokenizer tokenizer(dev.morsel.tokenize.spi.Segmenter s) {
-    return Tokenizers.of(Pipeline.defaults(), s, dev.morsel.tokenize.ControlTokens.none(), Template.none());
+    return Tokenizers.of(Pipeline.defaults(), s, dev.morsel.tokenize.ReservedTokens.none(), Template.none());
   }
 
   @Test

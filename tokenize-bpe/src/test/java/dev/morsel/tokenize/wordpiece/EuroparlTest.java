@@ -81,7 +81,7 @@ class EuroparlTest {
 
   @Test
   void naiveGreedyAgreesOnASampleOfBodies() {
-    TestSupport.NaiveGreedy naive = new TestSupport.NaiveGreedy(model.tokens(), model.controlCount(),
+    TestSupport.NaiveGreedy naive = new TestSupport.NaiveGreedy(model.tokens(), model.reservedCount(),
         model.settings().marker(), model.settings().maxPieceLength());
     for (int b = 0; b < bodies.size(); b += 59) {
       String text = bodies.get(b);

@@ -44,7 +44,7 @@ class ModelSectionsRoundTripTest {
     WordPieceSegmenter back = WordPieceSegmenter.read(Sections.of(p));
     assertEquals(s.tokens(), back.tokens());
     assertEquals(s.settings(), back.settings());
-    assertEquals(s.controlCount(), back.controlCount());
+    assertEquals(s.reservedCount(), back.reservedCount());
     String text = " ferries ferry fers\n ferryx";
     assertArrayEquals(TestSupport.encode(s, text).ids.toIntArray(), TestSupport.encode(back, text).ids.toIntArray());
   }
@@ -71,8 +71,8 @@ class ModelSectionsRoundTripTest {
     return assertThrows(ModelFormatException.class, () -> WordPieceSegmenter.read(Sections.of(p)));
   }
 
-  private static void settings(SectionWriter w, int version, String marker, String unk, int maxLen, int controls) {
-    w.putInt(version).putString(marker).putString(unk).putInt(maxLen).putInt(controls);
+  private static void settings(SectionWriter w, int version, String marker, String unk, int maxLen, int reserved) {
+    w.putInt(version).putString(marker).putString(unk).putInt(maxLen).putInt(reserved);
   }
 
   @Test
@@ -90,7 +90,7 @@ class ModelSectionsRoundTripTest {
     });
     assertTrue(trailing.getMessage().contains("trailing"), trailing.getMessage());
     assertEquals(st, corrupt(st, w -> w.putInt(1).putString(M)).section());
-    // unknown spelling that is not at index controlCount
+    // unknown spelling that is not at index reservedCount
     ModelFormatException unk = corrupt(st, w -> settings(w, 1, M, "lost-luggage", 40, 1));
     assertEquals(WordPieceSegmenter.VOCABULARY_TAG, unk.section());
     assertTrue(unk.getMessage().contains("entry 1"), unk.getMessage());

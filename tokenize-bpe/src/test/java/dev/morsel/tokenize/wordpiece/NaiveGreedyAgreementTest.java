@@ -34,8 +34,8 @@ class NaiveGreedyAgreementTest {
         ? new String[] {"a", "b", new String(Character.toChars(0x1F6A2))}
         : Arrays.copyOf(new String[] {"a", "b", "c", "d"}, 2 + rnd.nextInt(3));
     Set<String> vocab = new LinkedHashSet<>();
-    int controls = rnd.nextInt(3);
-    for (int i = 0; i < controls; i++) {
+    int reserved = rnd.nextInt(3);
+    for (int i = 0; i < reserved; i++) {
       vocab.add("gangway-" + i);
     }
     vocab.add(WordPieceSettings.DEFAULT_UNKNOWN);
@@ -47,8 +47,8 @@ class NaiveGreedyAgreementTest {
     List<String> tokens = new ArrayList<>(vocab);
     int maxLen = 4 + rnd.nextInt(20);
     WordPieceSettings st = WordPieceSettings.defaults().withMarker(marker).withMaxPieceLength(maxLen);
-    WordPieceSegmenter s = WordPieceSegmenter.of(tokens, controls, st);
-    TestSupport.NaiveGreedy naive = new TestSupport.NaiveGreedy(tokens, controls, marker, maxLen);
+    WordPieceSegmenter s = WordPieceSegmenter.of(tokens, reserved, st);
+    TestSupport.NaiveGreedy naive = new TestSupport.NaiveGreedy(tokens, reserved, marker, maxLen);
     for (int k = 0; k < 25; k++) {
       String input = randomWord(rnd, alphabet, rnd.nextInt(24));
       String text = "#" + input + "#";

@@ -132,11 +132,11 @@ final class TestSupport {
     private final int maxLength;
     private int longestToken;
 
-    /** Vocabulary spellings in id order, laid out as controls, unknown, the rest. */
-    NaiveGreedy(List<String> spellings, int controls, String marker, int maxLength) {
-      this.unknown = controls;
+    /** Vocabulary spellings in id order, laid out as reserved, unknown, the rest. */
+    NaiveGreedy(List<String> spellings, int reserved, String marker, int maxLength) {
+      this.unknown = reserved;
       this.maxLength = maxLength;
-      for (int id = controls + 1; id < spellings.size(); id++) {
+      for (int id = reserved + 1; id < spellings.size(); id++) {
         String s = spellings.get(id);
         String body = s;
         if (s.startsWith(marker) && s.length() > marker.length()) {

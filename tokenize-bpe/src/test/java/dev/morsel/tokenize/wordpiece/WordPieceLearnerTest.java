@@ -102,18 +102,18 @@ class WordPieceLearnerTest {
   }
 
   @Test
-  void controlTokensComeFirstAndListenerReportsMerges() {
+  void reservedTokensComeFirstAndListenerReportsMerges() {
     List<String> stages = new ArrayList<>();
     long[] last = {-1, -1};
     WordPieceSegmenter s = WordPieceLearner.builder().vocabularySize(2 + 1 + 7 + 2)
-        .controlTokens(List.of("start-of-voyage", "end-of-voyage"))
+        .reservedTokens(List.of("start-of-voyage", "end-of-voyage"))
         .listener((stage, done, total, detail) -> {
           stages.add(stage);
           last[0] = done;
           last[1] = total;
         }).build().train(ferryCorpus());
     assertEquals(List.of("start-of-voyage", "end-of-voyage", UNK), s.tokens().subList(0, 3));
-    assertEquals(2, s.controlCount());
+    assertEquals(2, s.reservedCount());
     assertEquals(List.of("merges", "merges"), stages);
     assertEquals(2, last[0]);
     assertEquals(2, last[1]);
@@ -148,8 +148,8 @@ class WordPieceLearnerTest {
         () -> WordPieceLearner.builder().minPairCount(0));
     assertTrue(floor.getMessage().contains("minPairCount=0"), floor.getMessage());
     assertThrows(NullPointerException.class, () -> WordPieceLearner.builder().score(null));
-    assertThrows(IllegalArgumentException.class, () -> WordPieceLearner.builder().controlTokens(List.of("a", "a")));
-    assertThrows(IllegalArgumentException.class, () -> WordPieceLearner.builder().controlTokens(List.of(UNK)).build());
+    assertThrows(IllegalArgumentException.class, () -> WordPieceLearner.builder().reservedTokens(List.of("a", "a")));
+    assertThrows(IllegalArgumentException.class, () -> WordPieceLearner.builder().reservedTokens(List.of(UNK)).build());
   }
 
   @Test
@@ -160,7 +160,7 @@ class WordPieceLearnerTest {
     m.put("quay", 9L);
     m.put("dock", 4L);
     m.put("dock?", 7L);
-    WordPieceSegmenter s = WordPieceLearner.builder().settings(st).controlTokens(List.of("ock")).vocabularySize(200)
+    WordPieceSegmenter s = WordPieceLearner.builder().settings(st).reservedTokens(List.of("ock")).vocabularySize(200)
         .build().train(PieceCounts.of(m));
     // "qu" is the continuation form of 'u'; the word-initial merge q + u is blocked, so "quay"
     // starts with the word-initial "q" (equal to the marker, hence word-initial)
@@ -196,26 +196,26 @@ class WordPieceLearnerTest {
       }
       corpus.merge(sb.toString(), 1L + rnd.nextInt(20), Long::sum);
     }
-    List<String> controls = rnd.nextBoolean() ? List.of() : List.of("lifejacket");
+    List<String> reserved = rnd.nextBoolean() ? List.of() : List.of("lifejacket");
     int extra = rnd.nextInt(60);
     boolean gain = rnd.nextInt(4) != 0;
     long floor = rnd.nextInt(3) == 0 ? 1 + rnd.nextInt(6) : 1;
-    List<String> expected = textbook(corpus, controls, extra, gain, floor);
-    WordPieceSegmenter s = WordPieceLearner.builder().controlTokens(controls).minPairCount(floor)
+    List<String> expected = textbook(corpus, reserved, extra, gain, floor);
+    WordPieceSegmenter s = WordPieceLearner.builder().reservedTokens(reserved).minPairCount(floor)
         .score(gain ? WordPieceLearner.Score.LIKELIHOOD_GAIN : WordPieceLearner.Score.PAIR_RATIO)
-        .vocabularySize(Math.max(2, alphabetEnd(corpus, controls) + extra)).build().train(PieceCounts.of(corpus));
+        .vocabularySize(Math.max(2, alphabetEnd(corpus, reserved) + extra)).build().train(PieceCounts.of(corpus));
     assertEquals(expected, s.tokens(), "seed " + seed + " corpus " + corpus + " extra " + extra + " gain " + gain
         + " floor " + floor);
   }
 
-  private static int alphabetEnd(Map<String, Long> corpus, List<String> controls) {
+  private static int alphabetEnd(Map<String, Long> corpus, List<String> reserved) {
     LinkedHashSet<String> forms = new LinkedHashSet<>();
     corpus.forEach((p, c) -> {
       for (int i = 0; i < p.length(); i++) {
         forms.add(i == 0 ? p.substring(0, 1) : M + p.charAt(i));
       }
     });
-    return controls.size() + 1 + forms.size();
+    return reserved.size() + 1 + forms.size();
   }
 
   /**
@@ -226,7 +226,7 @@ class WordPieceLearnerTest {
    * count(ab)/(count(a)count(b)). Pairs counted below {@code floor} are skipped. Tie-break as
    * documented: higher score, then higher pair count, then smaller left spelling, then smaller right.
    */
-  private static List<String> textbook(Map<String, Long> corpus, List<String> controls, int extra, boolean gain,
+  private static List<String> textbook(Map<String, Long> corpus, List<String> reserved, int extra, boolean gain,
       long floor) {
     // alphabet: characters by total count desc, then code point; word-initial form first
     Map<Character, Long> freq = new HashMap<>();
@@ -237,7 +237,7 @@ class WordPieceLearnerTest {
     });
     List<Character> chars = new ArrayList<>(freq.keySet());
     chars.sort((x, y) -> freq.get(x).equals(freq.get(y)) ? Character.compare(x, y) : Long.compare(freq.get(y), freq.get(x)));
-    List<String> vocab = new ArrayList<>(controls);
+    List<String> vocab = new ArrayList<>(reserved);
     vocab.add(UNK);
     for (char ch : chars) {
       boolean init = false;

@@ -97,7 +97,7 @@ class WordPieceSegmenterTest {
     assertEquals(3, s.id(M + "s"));
     assertEquals(M + "s", s.token(3));
     assertEquals(-1, s.id("s"));
-    // a control spelling in ordinary text is never produced as the control token
+    // a reserved spelling in ordinary text is never produced as the reserved token
     TestSupport.Encoded e = TestSupport.segmentOne(s, "harbour-bell", 0, 12);
     assertArrayEquals(new int[] {1}, e.ids.toIntArray());
     assertThrows(IndexOutOfBoundsException.class, () -> s.token(4));

@@ -36,8 +36,8 @@ final class DecodeCommand implements Callable<Integer> {
   @Parameters(paramLabel = "ID", description = "Ids to decode as one sequence; without any, lines are read from standard input.")
   List<String> ids = new ArrayList<>();
 
-  @Option(names = "--drop-control", description = "Leave out control tokens and padding.")
-  boolean dropControl;
+  @Option(names = "--drop-reserved", description = "Leave out reserved tokens and padding.")
+  boolean dropReserved;
 
   @Option(names = "--strict", description = "Fail on ill-formed UTF-8 instead of writing U+FFFD.")
   boolean strict;
@@ -65,7 +65,7 @@ final class DecodeCommand implements Callable<Integer> {
   }
 
   private String decode(Tokenizer t, int[] seq, Decoding d) {
-    return t.decode(seq, dropControl, d);
+    return t.decode(seq, dropReserved, d);
   }
 
   /** Parses one line of ids; the error names the line and the bad field. */

@@ -48,7 +48,7 @@ final class EncodeCommand implements Callable<Integer> {
   @Option(names = "--format", defaultValue = "ids", description = "ids (space-separated) or json (JSON Lines with tokens and offsets) (default: ${DEFAULT-VALUE}).")
   String format;
 
-  @Option(names = "--trusted", description = "Treat the input as trusted: exact control-token spellings become control tokens. Never use on user input.")
+  @Option(names = "--trusted", description = "Treat the input as trusted: exact reserved-token spellings become reserved tokens. Never use on user input.")
   boolean trusted;
 
   @Option(names = "--pair", description = "Each line holds two texts separated by a TAB; encode them as a pair.")

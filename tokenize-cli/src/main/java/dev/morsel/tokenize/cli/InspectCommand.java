@@ -19,7 +19,7 @@ import picocli.CommandLine.Model.CommandSpec;
 
 /** {@code morsel inspect}: what a model holds, and why a text segments the way it does. */
 @Command(name = "inspect", mixinStandardHelpOptions = true,
-    description = "Summarize a model (kind, vocabulary, fingerprint, normalization, splitting, control tokens),"
+    description = "Summarize a model (kind, vocabulary, fingerprint, normalization, splitting, reserved tokens),"
         + " list its most frequent and longest tokens, and explain how a text is segmented.",
     footer = {"", "Examples:", "  morsel inspect --model ferry.morsel",
         "  morsel inspect --model ferry.morsel --sample messages.txt --top 30",
@@ -52,7 +52,7 @@ final class InspectCommand implements Callable<Integer> {
     o.printf(Locale.ROOT, "fingerprint      %s%n", t.fingerprint());
     o.printf(Locale.ROOT, "normalization    %s%n", t.pipeline().normalization().spec());
     o.printf(Locale.ROOT, "splitting        %s%n", t.pipeline().splitting().spec());
-    o.printf(Locale.ROOT, "control tokens   %s%n", t.controlTokens().isEmpty() ? "none" : describeControls(t));
+    o.printf(Locale.ROOT, "reserved tokens  %s%n", t.reservedTokens().isEmpty() ? "none" : describeReserved(t));
     o.printf(Locale.ROOT, "unknown token    %s%n", t.unknownId() < 0 ? "none (every input is representable)"
         : t.unknownId() + " " + quote(t.token(t.unknownId())));
     o.printf(Locale.ROOT, "file size        %,d bytes%n", Files.size(model));
@@ -82,7 +82,7 @@ final class InspectCommand implements Callable<Integer> {
         o.println("earliest learned multi-character tokens (a proxy for frequency; use --sample FILE to count):");
         int shown = 0;
         for (int id = 0; id < t.vocabularySize() && shown < top; id++) {
-          if (t.controlTokens().isControl(id) || id == t.unknownId()) {
+          if (t.reservedTokens().isReserved(id) || id == t.unknownId()) {
             continue;
           }
           String s = new String(t.tokenBytes(id), java.nio.charset.StandardCharsets.UTF_8);
@@ -97,7 +97,7 @@ final class InspectCommand implements Callable<Integer> {
       List<Integer> ids = ids(t.vocabularySize());
       int[] len = new int[t.vocabularySize()];
       for (int id = 0; id < len.length; id++) {
-        len[id] = t.controlTokens().isControl(id) ? -1 : t.tokenBytes(id).length;
+        len[id] = t.reservedTokens().isReserved(id) ? -1 : t.tokenBytes(id).length;
       }
       ids.sort(Comparator.<Integer>comparingInt(i -> -len[i]).thenComparingInt(i -> i));
       for (int k = 0; k < Math.min(top, ids.size()); k++) {
@@ -130,13 +130,13 @@ final class InspectCommand implements Callable<Integer> {
     return ids;
   }
 
-  private static String describeControls(Tokenizer t) {
+  private static String describeReserved(Tokenizer t) {
     StringBuilder sb = new StringBuilder();
-    for (String s : t.controlTokens().spellings()) {
+    for (String s : t.reservedTokens().spellings()) {
       if (sb.length() > 0) {
         sb.append(", ");
       }
-      sb.append(t.controlTokens().id(s)).append('=').append(quote(s));
+      sb.append(t.reservedTokens().id(s)).append('=').append(quote(s));
     }
     return sb.toString();
   }

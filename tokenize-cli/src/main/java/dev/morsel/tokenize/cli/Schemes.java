@@ -1,6 +1,6 @@
 package dev.morsel.tokenize.cli;
 
-import dev.morsel.tokenize.ControlTokens;
+import dev.morsel.tokenize.ReservedTokens;
 import dev.morsel.tokenize.Pipeline;
 import dev.morsel.tokenize.Template;
 import dev.morsel.tokenize.Tokenizer;
@@ -28,33 +28,33 @@ final class Schemes {
     }
   }
 
-  /** Trains {@code scheme} to {@code vocabularySize} ids (control tokens included). */
-  static Tokenizer train(String scheme, PieceCounts counts, Pipeline pipeline, int vocabularySize, List<String> controls,
+  /** Trains {@code scheme} to {@code vocabularySize} ids (reserved tokens included). */
+  static Tokenizer train(String scheme, PieceCounts counts, Pipeline pipeline, int vocabularySize, List<String> reserved,
       int threads, TrainingListener listener) {
     check(scheme);
     switch (scheme) {
       case "bpe": {
-        BpeSegmenter s = BpeLearner.builder().vocabularySize(vocabularySize).controlTokens(controls).threads(threads)
+        BpeSegmenter s = BpeLearner.builder().vocabularySize(vocabularySize).reservedTokens(reserved).threads(threads)
             .listener(listener).build().train(counts);
-        return Tokenizers.of(pipeline, s, s.controlTokens(), Template.none());
+        return Tokenizers.of(pipeline, s, s.reservedTokens(), Template.none());
       }
       case "wordpiece": {
-        WordPieceSegmenter s = WordPieceLearner.builder().vocabularySize(vocabularySize).controlTokens(controls)
+        WordPieceSegmenter s = WordPieceLearner.builder().vocabularySize(vocabularySize).reservedTokens(reserved)
             .listener(listener).build().train(counts);
-        return Tokenizers.of(pipeline, s, s.controlTokens(), Template.none());
+        return Tokenizers.of(pipeline, s, s.reservedTokens(), Template.none());
       }
       case "unigram": {
-        UnigramModel s = UnigramLearner.builder().vocabularySize(vocabularySize).controlTokens(controls).rawBytes(true)
+        UnigramModel s = UnigramLearner.builder().vocabularySize(vocabularySize).reservedTokens(reserved).rawBytes(true)
             .threads(threads).listener(listener).build().train(counts);
-        return Tokenizers.of(pipeline, s, s.controlTokens(), Template.none());
+        return Tokenizers.of(pipeline, s, s.reservedTokens(), Template.none());
       }
       default:
         throw new Morsel.UsageException("unknown scheme '" + scheme + "'");
     }
   }
 
-  /** The control tokens of a trained tokenizer, for reports. */
-  static ControlTokens controls(Tokenizer t) {
-    return t.controlTokens();
+  /** The reserved tokens of a trained tokenizer, for reports. */
+  static ReservedTokens reserved(Tokenizer t) {
+    return t.reservedTokens();
   }
 }

@@ -26,7 +26,7 @@ import picocli.CommandLine.Model.CommandSpec;
 @Command(name = "train", mixinStandardHelpOptions = true,
     description = "Train a subword vocabulary on a corpus (one text per line; files, folders, globs, .gz, or - for standard input).",
     footer = {"", "Examples:", "  morsel train --scheme bpe --vocab-size 8000 --out ferry.morsel messages/*.txt",
-        "  zcat tickets.gz | morsel train --scheme bpe --vocab-size 16000 --control '<<pause>>' --out t.morsel -"})
+        "  zcat tickets.gz | morsel train --scheme bpe --vocab-size 16000 --reserved '⟨pause⟩' --out t.morsel -"})
 final class TrainCommand implements Callable<Integer> {
   @Spec
   CommandSpec spec;
@@ -37,7 +37,7 @@ final class TrainCommand implements Callable<Integer> {
   @Option(names = "--scheme", defaultValue = "bpe", description = "bpe, wordpiece or unigram (default: ${DEFAULT-VALUE}).")
   String scheme;
 
-  @Option(names = "--vocab-size", defaultValue = "8000", description = "Vocabulary size, control tokens included (default: ${DEFAULT-VALUE}).")
+  @Option(names = "--vocab-size", defaultValue = "8000", description = "Vocabulary size, reserved tokens included (default: ${DEFAULT-VALUE}).")
   int vocabularySize;
 
   @Option(names = "--normalize", defaultValue = "nfc", description = "Normalization, e.g. none, nfc, nfkc+casefold (default: ${DEFAULT-VALUE}).")
@@ -46,8 +46,8 @@ final class TrainCommand implements Callable<Integer> {
   @Option(names = "--split", defaultValue = "rules:3", description = "Splitting: rules:N, words, whitespace, none (default: ${DEFAULT-VALUE}).")
   String split;
 
-  @Option(names = "--control", paramLabel = "SPELLING", description = "Reserve a control token (repeatable); ids 0.. in order.")
-  List<String> controls = new ArrayList<>();
+  @Option(names = "--reserved", paramLabel = "SPELLING", description = "Add a reserved token, a spelling only trusted input can produce (repeatable); ids 0.. in order.")
+  List<String> reserved = new ArrayList<>();
 
   @Option(names = "--threads", description = "Threads for counting and training (default: all cores).")
   int threads = Runtime.getRuntime().availableProcessors();
@@ -76,7 +76,7 @@ final class TrainCommand implements Callable<Integer> {
           .listener(progress).build();
       counts = count(counter, corpus);
       long t1 = System.nanoTime();
-      Tokenizer t = Schemes.train(scheme, counts, pipeline, vocabularySize, controls, threads, progress);
+      Tokenizer t = Schemes.train(scheme, counts, pipeline, vocabularySize, reserved, threads, progress);
       progress.close();
       Path parent = out.toAbsolutePath().getParent();
       if (parent != null) {

@@ -71,7 +71,7 @@ class CliTest {
   @MethodSource("schemes")
   void trainInspectEncodeDecodeRoundTrip(String scheme) throws Exception {
     Path model = dir.resolve(scheme + ".morsel");
-    Run train = run("train", "--scheme", scheme, "--vocab-size", "800", "--control", "\u27e8hold\u27e9", "--out",
+    Run train = run("train", "--scheme", scheme, "--vocab-size", "800", "--reserved", "\u27e8hold\u27e9", "--out",
         model.toString(), corpus.toString());
     assertEquals(0, train.code(), train.err());
     assertTrue(train.out().contains("fingerprint"), train.out());
@@ -142,14 +142,14 @@ class CliTest {
   }
 
   @Test
-  void trustedFlagIsNeededForControlTokens() {
+  void trustedFlagIsNeededForReservedTokens() {
     Path model = dir.resolve("ctl.morsel");
-    assertEquals(0, run("train", "--vocab-size", "400", "--control", "\u27e8hold\u27e9", "--out", model.toString(),
+    assertEquals(0, run("train", "--vocab-size", "400", "--reserved", "\u27e8hold\u27e9", "--out", model.toString(),
         corpus.toString()).code());
     Run plain = feed("Please \u27e8hold\u27e9 my cabin\n", "encode", "--model", model.toString());
     Run trusted = feed("Please \u27e8hold\u27e9 my cabin\n", "encode", "--model", model.toString(), "--trusted");
-    assertFalse((" " + plain.out().strip() + " ").contains(" 0 "), "untrusted input never yields control id 0: " + plain.out());
-    assertTrue((" " + trusted.out().strip() + " ").contains(" 0 "), "trusted input yields control id 0: " + trusted.out());
+    assertFalse((" " + plain.out().strip() + " ").contains(" 0 "), "untrusted input never yields reserved id 0: " + plain.out());
+    assertTrue((" " + trusted.out().strip() + " ").contains(" 0 "), "trusted input yields reserved id 0: " + trusted.out());
   }
 
   @Test

@@ -42,8 +42,8 @@ class ReadmeExampleTest {
     Pipeline pipeline = Pipeline.defaults();
     PieceCounts counts = PieceCounter.builder().pipeline(pipeline).build().countFiles(List.of(corpus));
 
-    // Train byte-level BPE with one control token of your own spelling, and save the model.
-    BpeSegmenter bpe = BpeLearner.builder().vocabularySize(2000).controlTokens(List.of("⟨agent⟩"))
+    // Train byte-level BPE with one reserved token of your own spelling, and save the model.
+    BpeSegmenter bpe = BpeLearner.builder().vocabularySize(2000).reservedTokens(List.of("⟨agent⟩"))
         .build().train(counts);
     Tokenizer tokenizer = Tokenizers.of(pipeline, bpe);
     tokenizer.save(modelFile);
@@ -55,7 +55,7 @@ class ReadmeExampleTest {
       System.out.println(tokens.id(i) + " " + text.substring(tokens.start(i), tokens.end(i)));
     }
     String back = tokenizer.decode(tokens.ids());     // equals the normalized text
-    Tokens withControl = tokenizer.encode(text, Trust.TRUSTED);  // only for text you wrote yourself
+    Tokens withReserved = tokenizer.encode(text, Trust.TRUSTED);  // only for text you wrote yourself
 
     // A batch job loads the same file and proves it has the same vocabulary.
     Tokenizer loaded = Tokenizers.load(modelFile);
@@ -64,9 +64,9 @@ class ReadmeExampleTest {
 
     assertEquals(text, back);
     assertTrue(same);
-    assertFalse(tokens.isControl(tokens.size() - 1));
-    assertTrue(withControl.isControl(withControl.size() - 1));
-    assertEquals(0, withControl.id(withControl.size() - 1));
+    assertFalse(tokens.isReserved(tokens.size() - 1));
+    assertTrue(withReserved.isReserved(withReserved.size() - 1));
+    assertEquals(0, withReserved.id(withReserved.size() - 1));
 
     String source = Files.readString(Paths.get("src/test/java/dev/morsel/tokenize/cli/ReadmeExampleTest.java"));
     String region = source.substring(source.indexOf("// @start region=\"readme\"\n") + 26, source.indexOf("    // @end region"));

@@ -46,7 +46,7 @@ class KotlinUsageTest {
     val counts = PieceCounter.builder().pipeline(pipeline).build().count(messages)
     val bpe = BpeLearner.builder()
         .vocabularySize(400)
-        .controlTokens(listOf("⟦slack⟧", "⟦crew⟧"))
+        .reservedTokens(listOf("⟦slack⟧", "⟦crew⟧"))
         .build()
         .train(counts)
     val tokenizer = Tokenizers.of(pipeline, bpe)
@@ -55,7 +55,7 @@ class KotlinUsageTest {
     val tokens = tokenizer.encode(text)
     val pieces = (0 until tokens.size()).map { i -> text.substring(tokens.start(i), tokens.end(i)) }
 
-    val slack = tokenizer.controlTokens().id("⟦slack⟧")
+    val slack = tokenizer.reservedTokens().id("⟦slack⟧")
     val batch = Tokens.padToLongest(tokenizer.encodeAll(listOf(text, "Cabin 12?")), slack, Side.END)
     val masks = batch.map { it.nonPaddingMask() }
 
@@ -88,18 +88,18 @@ class KotlinUsageTest {
   }
 
   @Test
-  fun controlSpellingsInUntrustedTextStayText() {
+  fun reservedSpellingsInUntrustedTextStayText() {
     val tokenizer = Tokenizers.of(
-        BpeLearner.builder().vocabularySize(300).controlTokens(listOf("⟦slack⟧", "⟦crew⟧")).build()
+        BpeLearner.builder().vocabularySize(300).reservedTokens(listOf("⟦slack⟧", "⟦crew⟧")).build()
             .train(PieceCounter.builder().build().count(messages)))
     val typed = "please page ⟦crew⟧ now"
     val untrusted = tokenizer.encode(typed)
-    assertFalse((0 until untrusted.size()).any { untrusted.isControl(it) }, "a passenger injected a control token")
+    assertFalse((0 until untrusted.size()).any { untrusted.isReserved(it) }, "a passenger injected a reserved token")
     val trusted = tokenizer.encode(typed, Trust.TRUSTED)
-    val crew = tokenizer.controlTokens().id("⟦crew⟧")
-    assertEquals(listOf(crew), (0 until trusted.size()).filter { trusted.isControl(it) }.map { trusted.id(it) })
-    // Java returns null for "no such control id": Kotlin sees a platform type, so a Kotlin caller types it as String?
-    val missing: String? = tokenizer.controlTokens().spelling(9999)
+    val crew = tokenizer.reservedTokens().id("⟦crew⟧")
+    assertEquals(listOf(crew), (0 until trusted.size()).filter { trusted.isReserved(it) }.map { trusted.id(it) })
+    // Java returns null for "no such reserved id": Kotlin sees a platform type, so a Kotlin caller types it as String?
+    val missing: String? = tokenizer.reservedTokens().spelling(9999)
     assertNull(missing)
   }
 

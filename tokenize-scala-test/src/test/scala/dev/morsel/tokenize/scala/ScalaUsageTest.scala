@@ -39,7 +39,7 @@ class ScalaUsageTest {
     val counts = PieceCounter.builder().pipeline(pipeline).build().count(messages.asJava)
     val bpe = BpeLearner.builder()
       .vocabularySize(400)
-      .controlTokens(Seq("⟦slack⟧", "⟦crew⟧").asJava)
+      .reservedTokens(Seq("⟦slack⟧", "⟦crew⟧").asJava)
       .build()
       .train(counts)
     val tokenizer = Tokenizers.of(pipeline, bpe)
@@ -48,7 +48,7 @@ class ScalaUsageTest {
     val tokens = tokenizer.encode(text)
     val pieces = (0 until tokens.size()).map(i => text.substring(tokens.start(i), tokens.end(i)))
 
-    val slack = tokenizer.controlTokens().id("⟦slack⟧")
+    val slack = tokenizer.reservedTokens().id("⟦slack⟧")
     val encoded = tokenizer.encodeAll(Seq(text, "Cabin 12?").asJava)
     val batch = Tokens.padToLongest(encoded, slack, Side.END).asScala.toSeq
     val masks = batch.map(_.nonPaddingMask())
@@ -78,18 +78,18 @@ class ScalaUsageTest {
   }
 
   @Test
-  def controlSpellingsInUntrustedTextStayText(): Unit = {
+  def reservedSpellingsInUntrustedTextStayText(): Unit = {
     val tokenizer = Tokenizers.of(
-      BpeLearner.builder().vocabularySize(300).controlTokens(Seq("⟦slack⟧", "⟦crew⟧").asJava).build()
+      BpeLearner.builder().vocabularySize(300).reservedTokens(Seq("⟦slack⟧", "⟦crew⟧").asJava).build()
         .train(PieceCounter.builder().build().count(messages.asJava)))
     val typed = "please page ⟦crew⟧ now"
     val untrusted = tokenizer.encode(typed)
-    assertFalse((0 until untrusted.size()).exists(untrusted.isControl), "a passenger injected a control token")
+    assertFalse((0 until untrusted.size()).exists(untrusted.isReserved), "a passenger injected a reserved token")
     val trusted = tokenizer.encode(typed, Trust.TRUSTED)
-    val crew = tokenizer.controlTokens().id("⟦crew⟧")
-    assertEquals(Seq(crew), (0 until trusted.size()).filter(trusted.isControl).map(trusted.id))
-    // Java returns null for "no such control id": wrap it in Option at the boundary
-    assertEquals(None, Option(tokenizer.controlTokens().spelling(9999)))
+    val crew = tokenizer.reservedTokens().id("⟦crew⟧")
+    assertEquals(Seq(crew), (0 until trusted.size()).filter(trusted.isReserved).map(trusted.id))
+    // Java returns null for "no such reserved id": wrap it in Option at the boundary
+    assertEquals(None, Option(tokenizer.reservedTokens().spelling(9999)))
   }
 
   @Test

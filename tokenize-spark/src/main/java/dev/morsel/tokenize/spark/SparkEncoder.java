@@ -35,7 +35,7 @@ import org.apache.spark.sql.functions;
  * original text. A column of the same name is replaced, as {@code withColumn} does.
  *
  * <h2>Trust</h2>
- * Text is untrusted by default: control-token spellings in it are encoded as ordinary text. Only
+ * Text is untrusted by default: reserved-token spellings in it are encoded as ordinary text. Only
  * when the column holds text the caller wrote should {@link Builder#trusted(boolean) trusted} be on.
  *
  * <h2>Null and bad input</h2>
@@ -175,7 +175,7 @@ public final class SparkEncoder {
     return fingerprint;
   }
 
-  /** Whether control-token spellings in the text become control tokens. */
+  /** Whether reserved-token spellings in the text become reserved tokens. */
   public boolean trusted() {
     return trusted;
   }
@@ -230,7 +230,7 @@ public final class SparkEncoder {
       this.fingerprint = fingerprint;
     }
 
-    /** Whether the text column is trusted, so that control-token spellings become control tokens; default false. */
+    /** Whether the text column is trusted, so that reserved-token spellings become reserved tokens; default false. */
     public Builder trusted(boolean trusted) {
       this.trusted = trusted;
       return this;

@@ -176,9 +176,9 @@ class SparkEncoderTest {
 
   @ParameterizedTest
   @MethodSource("dev.morsel.tokenize.spark.TestModels#schemes")
-  void controlTokensOnlyWhenTheColumnIsDeclaredTrusted(String scheme) {
+  void reservedTokensOnlyWhenTheColumnIsDeclaredTrusted(String scheme) {
     Tokenizer tokenizer = MODELS.get(scheme);
-    int dock = tokenizer.controlTokens().id(TestModels.DOCK);
+    int dock = tokenizer.reservedTokens().id(TestModels.DOCK);
     String text = "Lost property: one blue rucksack " + TestModels.DOCK + " ask the purser";
     Dataset<Row> one = LocalSpark.session().createDataFrame(List.of(RowFactory.create(0, text)),
         new StructType().add("row", DataTypes.IntegerType).add("message", DataTypes.StringType));
@@ -188,8 +188,8 @@ class SparkEncoderTest {
 
     assertArrayEquals(tokenizer.encode(text, Trust.UNTRUSTED).ids(), untrusted, scheme);
     assertArrayEquals(tokenizer.encode(text, Trust.TRUSTED).ids(), trusted, scheme);
-    assertFalse(Arrays.stream(untrusted).anyMatch(id -> id == dock), scheme + ": untrusted text made a control token");
-    assertTrue(Arrays.stream(trusted).anyMatch(id -> id == dock), scheme + ": trusted text lost its control token");
+    assertFalse(Arrays.stream(untrusted).anyMatch(id -> id == dock), scheme + ": untrusted text made a reserved token");
+    assertTrue(Arrays.stream(trusted).anyMatch(id -> id == dock), scheme + ": trusted text lost its reserved token");
   }
 
   @Test

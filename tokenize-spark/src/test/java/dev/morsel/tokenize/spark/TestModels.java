@@ -19,24 +19,24 @@ import java.util.stream.Stream;
  * in {@link #TRAINERS} (and its module as a test dependency).
  */
 final class TestModels {
-  /** A control token spelling of our own, for the trust tests. */
+  /** A reserved token spelling of our own, for the trust tests. */
   static final String DOCK = "\u27e6dock\u27e7";
 
-  /** Trains a scheme's segmenter to a vocabulary size, with the given control tokens, into a tokenizer. */
+  /** Trains a scheme's segmenter to a vocabulary size, with the given reserved tokens, into a tokenizer. */
   interface Trainer {
-    Tokenizer train(PieceCounts counts, Pipeline pipeline, int vocabularySize, List<String> controls);
+    Tokenizer train(PieceCounts counts, Pipeline pipeline, int vocabularySize, List<String> reserved);
   }
 
   static final Map<String, Trainer> TRAINERS = new LinkedHashMap<>();
 
   static {
-    TRAINERS.put("bpe", (counts, pipeline, size, controls) -> {
-      BpeSegmenter s = BpeLearner.builder().vocabularySize(size).controlTokens(controls).threads(1).build().train(counts);
-      return Tokenizers.of(pipeline, s, s.controlTokens(), Template.none());
+    TRAINERS.put("bpe", (counts, pipeline, size, reserved) -> {
+      BpeSegmenter s = BpeLearner.builder().vocabularySize(size).reservedTokens(reserved).threads(1).build().train(counts);
+      return Tokenizers.of(pipeline, s, s.reservedTokens(), Template.none());
     });
-    TRAINERS.put("wordpiece", (counts, pipeline, size, controls) -> {
-      WordPieceSegmenter s = WordPieceLearner.builder().vocabularySize(size).controlTokens(controls).build().train(counts);
-      return Tokenizers.of(pipeline, s, s.controlTokens(), Template.none());
+    TRAINERS.put("wordpiece", (counts, pipeline, size, reserved) -> {
+      WordPieceSegmenter s = WordPieceLearner.builder().vocabularySize(size).reservedTokens(reserved).build().train(counts);
+      return Tokenizers.of(pipeline, s, s.reservedTokens(), Template.none());
     });
   }
 
@@ -47,7 +47,7 @@ final class TestModels {
     return TRAINERS.keySet().stream();
   }
 
-  static Tokenizer train(String scheme, PieceCounts counts, Pipeline pipeline, int vocabularySize, List<String> controls) {
-    return TRAINERS.get(scheme).train(counts, pipeline, vocabularySize, controls);
+  static Tokenizer train(String scheme, PieceCounts counts, Pipeline pipeline, int vocabularySize, List<String> reserved) {
+    return TRAINERS.get(scheme).train(counts, pipeline, vocabularySize, reserved);
   }
 }

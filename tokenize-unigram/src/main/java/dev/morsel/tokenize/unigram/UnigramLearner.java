@@ -55,7 +55,7 @@ public final class UnigramLearner {
   public UnigramModel train(PieceCounts counts) {
     Objects.requireNonNull(counts, "counts");
     return new Training(b.vocabularySize, b.seedFactor, b.maxTokenLength, b.shrinkFactor, b.emIterations,
-        b.rawBytes, b.controlTokens, b.unknownToken, b.threads, b.seedTableLimit, b.maxPieceLength, b.listener).train(counts);
+        b.rawBytes, b.reservedTokens, b.unknownToken, b.threads, b.seedTableLimit, b.maxPieceLength, b.listener).train(counts);
   }
 
   /**
@@ -70,7 +70,7 @@ public final class UnigramLearner {
     private double shrinkFactor = 0.75;
     private int emIterations = 2;
     private boolean rawBytes;
-    private List<String> controlTokens = List.of();
+    private List<String> reservedTokens = List.of();
     private String unknownToken = UnigramModel.DEFAULT_UNKNOWN;
     private int threads = Math.max(1, Runtime.getRuntime().availableProcessors());
     private int seedTableLimit = 1_000_000;
@@ -87,7 +87,7 @@ public final class UnigramLearner {
       c.shrinkFactor = shrinkFactor;
       c.emIterations = emIterations;
       c.rawBytes = rawBytes;
-      c.controlTokens = controlTokens;
+      c.reservedTokens = reservedTokens;
       c.unknownToken = unknownToken;
       c.threads = threads;
       c.seedTableLimit = seedTableLimit;
@@ -96,7 +96,7 @@ public final class UnigramLearner {
       return c;
     }
 
-    /** Total ids of the trained model (control, byte, unknown tokens and pieces). Default 8000. */
+    /** Total ids of the trained model (reserved, byte and unknown tokens and pieces). Default 8000. */
     public Builder vocabularySize(int size) {
       this.vocabularySize = check("vocabularySize", size, 1, Integer.MAX_VALUE - 8);
       return this;
@@ -141,15 +141,15 @@ public final class UnigramLearner {
       return this;
     }
 
-    /** Control tokens reserved at ids {@code 0..k-1}, distinct and non-empty. Default none. */
-    public Builder controlTokens(List<String> tokens) {
+    /** Reserved tokens, given ids {@code 0..k-1}, distinct and non-empty. Default none. */
+    public Builder reservedTokens(List<String> tokens) {
       List<String> copy = List.copyOf(tokens);
       for (int i = 0; i < copy.size(); i++) {
         if (copy.get(i).isEmpty() || copy.indexOf(copy.get(i)) != i) {
-          throw new IllegalArgumentException("control token " + i + " '" + copy.get(i) + "' is empty or repeated");
+          throw new IllegalArgumentException("reserved token " + i + " '" + copy.get(i) + "' is empty or repeated");
         }
       }
-      this.controlTokens = copy;
+      this.reservedTokens = copy;
       return this;
     }
 

@@ -11,7 +11,7 @@ import java.util.random.RandomGenerator;
  * into the tokens whose probabilities multiply to the most (Viterbi), or into the k best such
  * splits, or into a split drawn at random for subword regularization. Immutable and thread-safe.
  *
- * <p>Id layout: control tokens at {@code 0..k-1} (never produced by segmentation); then, if byte
+ * <p>Id layout: reserved tokens at {@code 0..k-1} (never produced by segmentation); then, if byte
  * fallback is on, 256 byte tokens; then the unknown token; then the pieces. A character that no
  * single-character piece covers becomes the unknown token, or with byte fallback its UTF-8 bytes as
  * byte tokens, each spanning that whole character. A lone surrogate counts as U+FFFD for byte
@@ -39,20 +39,20 @@ public interface UnigramModel extends Segmenter {
    * A model from its parts. Piece {@code i} gets id {@code firstPieceId() + i}. The unknown token
    * scores {@code min(0, lowest piece score) - 10} (a penalty below every piece).
    *
-   * @param controlTokens reserved control tokens (ids 0..k-1), distinct and non-empty
+   * @param reservedTokens reserved reserved tokens (ids 0..k-1), distinct and non-empty
    * @param rawBytes whether uncovered characters become byte tokens instead of the unknown token
    * @param unknownToken spelling of the unknown token
    * @param pieces the pieces: non-empty, distinct, well-formed UTF-16, at most {@link #MAX_PIECE_LENGTH} units
    * @param scores their log-probabilities, finite
    * @throws IllegalArgumentException naming the entry that is wrong
    */
-  static UnigramModel of(List<String> controlTokens, boolean rawBytes, String unknownToken, List<String> pieces,
+  static UnigramModel of(List<String> reservedTokens, boolean rawBytes, String unknownToken, List<String> pieces,
       double[] scores) {
-    return UnigramSegmenter.create(controlTokens, rawBytes, unknownToken, pieces, scores);
+    return UnigramSegmenter.create(reservedTokens, rawBytes, unknownToken, pieces, scores);
   }
 
-  /** Number of control tokens (ids {@code 0..controlCount()-1}). */
-  int controlCount();
+  /** Number of reserved tokens (ids {@code 0..reservedCount()-1}). */
+  int reservedCount();
 
   /**
    * The best segmentation (Viterbi) with each token's log-probability and the total, and the
@@ -81,11 +81,11 @@ public interface UnigramModel extends Segmenter {
     return out;
   }
 
-  /** The control tokens: ids {@code 0..controlCount()-1} bound to their spellings. */
+  /** The reserved tokens: ids {@code 0..reservedCount()-1} bound to their spellings. */
   @Override
-  default dev.morsel.tokenize.ControlTokens controlTokens() {
-    dev.morsel.tokenize.ControlTokens.Builder b = dev.morsel.tokenize.ControlTokens.builder();
-    for (int i = 0; i < controlCount(); i++) {
+  default dev.morsel.tokenize.ReservedTokens reservedTokens() {
+    dev.morsel.tokenize.ReservedTokens.Builder b = dev.morsel.tokenize.ReservedTokens.builder();
+    for (int i = 0; i < reservedCount(); i++) {
       b.add(token(i), i);
     }
     return b.build();
@@ -102,7 +102,7 @@ public interface UnigramModel extends Segmenter {
 
   /**
    * The log-probability of a piece, the penalty of the unknown token, or {@link Double#NaN} for
-   * control and byte tokens.
+   * reserved and byte tokens.
    *
    * @throws IndexOutOfBoundsException if {@code id} is not in the vocabulary
    */

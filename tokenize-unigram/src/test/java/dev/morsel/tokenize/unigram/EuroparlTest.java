@@ -52,7 +52,7 @@ class EuroparlTest {
     assertEquals(17_597, bodies.size());
     PieceCounts counts = LocalSplit.count(bodies.subList(0, TRAIN_LINES));
     model = UnigramLearner.builder().vocabularySize(2000).rawBytes(true).maxTokenLength(12).seedFactor(4)
-        .threads(2).controlTokens(List.of("\u00a7start", "\u00a7stop"))
+        .threads(2).reservedTokens(List.of("\u00a7start", "\u00a7stop"))
         .listener((stage, done, total, detail) -> {
           synchronized (stages) {
             if (!stages.contains(stage)) {
@@ -66,7 +66,7 @@ class EuroparlTest {
   void trainedToTheRequestedSize() {
     assertEquals(2000, model.vocabularySize());
     assertEquals(List.of("seed", "em", "prune"), stages);
-    assertEquals(2, model.controlCount());
+    assertEquals(2, model.reservedCount());
     assertEquals("\u00a7start", model.token(0));
     assertEquals(2, model.firstByteId());
     assertEquals(2 + 256, model.unknownId());
@@ -112,7 +112,7 @@ class EuroparlTest {
       assertArrayEquals(body.getBytes(StandardCharsets.UTF_8), out.toByteArray(), "line " + line);
       for (int i = 0; i < ids.size(); i++) {
         int id = ids.getInt(i);
-        assertTrue(id >= model.controlCount() && id != model.unknownId(), "line " + line + " token " + i + " id " + id);
+        assertTrue(id >= model.reservedCount() && id != model.unknownId(), "line " + line + " token " + i + " id " + id);
       }
       int n = ids.size();
       Tokens t = Tokens.of(ids.toIntArray(), starts.toIntArray(), ends.toIntArray(), new byte[n], new byte[n]);

@@ -177,7 +177,7 @@ class ModelSectionsTest {
     assertTrue(e.getMessage().contains("piece 1") && e.getMessage().contains("surrogate"), e.getMessage());
     e = assertThrows(IllegalArgumentException.class,
         () -> UnigramModel.of(List.of("\u00a7hail", "\u00a7hail"), false, "?", List.of("a"), new double[] {-1}));
-    assertTrue(e.getMessage().contains("control token 1"), e.getMessage());
+    assertTrue(e.getMessage().contains("reserved token 1"), e.getMessage());
   }
 
   @Test
@@ -196,10 +196,10 @@ class ModelSectionsTest {
   }
 
   @Test
-  void controlTokensAreNeverProducedBySegmentation() {
+  void reservedTokensAreNeverProducedBySegmentation() {
     UnigramModel m = model(true);
     String text = "\u00a7hail \u00a7moor";
-    m.segment(text, 0, text.length(), (id, s, e) -> assertTrue(id >= m.controlCount(), "control id " + id));
+    m.segment(text, 0, text.length(), (id, s, e) -> assertTrue(id >= m.reservedCount(), "reserved id " + id));
     assertEquals(0, m.id("\u00a7hail"));
     assertEquals(1, m.id("\u00a7moor"));
   }

@@ -53,7 +53,7 @@ class UnigramLearnerTest {
 
   @Test
   void reachesTheVocabularySizeAndLearnsFrequentWords() {
-    UnigramModel m = small().controlTokens(List.of("\u00a7aboard")).build().train(corpus(3, 500));
+    UnigramModel m = small().reservedTokens(List.of("\u00a7aboard")).build().train(corpus(3, 500));
     assertEquals(120, m.vocabularySize());
     assertEquals(0, m.id("\u00a7aboard"));
     assertEquals(1, m.unknownId());
@@ -97,13 +97,13 @@ class UnigramLearnerTest {
     assertThrows(IllegalArgumentException.class, () -> UnigramLearner.builder().maxTokenLength(0));
     assertThrows(IllegalArgumentException.class, () -> UnigramLearner.builder().emIterations(0));
     assertThrows(IllegalArgumentException.class, () -> UnigramLearner.builder().threads(0));
-    assertThrows(IllegalArgumentException.class, () -> UnigramLearner.builder().controlTokens(List.of("a", "a")));
+    assertThrows(IllegalArgumentException.class, () -> UnigramLearner.builder().reservedTokens(List.of("a", "a")));
     assertThrows(IllegalArgumentException.class, () -> UnigramLearner.builder().unknownToken(""));
   }
 
   @Test
-  void rawBytesModelHasByteTokensAfterControls() {
-    UnigramModel m = small().vocabularySize(400).rawBytes(true).controlTokens(List.of("\u00a7a", "\u00a7b"))
+  void rawBytesModelHasByteTokensAfterReservedTokens() {
+    UnigramModel m = small().vocabularySize(400).rawBytes(true).reservedTokens(List.of("\u00a7a", "\u00a7b"))
         .build().train(corpus(8, 200));
     assertEquals(400, m.vocabularySize());
     assertEquals(2, m.firstByteId());

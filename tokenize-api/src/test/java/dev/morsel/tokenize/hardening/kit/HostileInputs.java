@@ -149,43 +149,43 @@ public final class HostileInputs {
   }
 
   /**
-   * 1 MiB of control-token look-alikes and prefixes with 2% exact spellings, under
-   * {@code nfkc+casefold}: untrusted gives no control id; trusted finds exactly the spellings the
+   * 1 MiB of reserved-token look-alikes and prefixes with 2% exact spellings, under
+   * {@code nfkc+casefold}: untrusted gives no reserved id; trusted finds exactly the spellings the
    * independent scan finds. Returns how many.
    */
-  public int controlLookAlikesAndPrefixes(Tokenizer tk) {
+  public int reservedLookAlikesAndPrefixes(Tokenizer tk) {
     StringBuilder sb = new StringBuilder(MIB + 64);
     SplittableRandom rnd = new SplittableRandom(0x100C_A1E5L);
     while (sb.length() < MIB) {
       String spelling = Spellings.ALL.get(rnd.nextInt(Spellings.ALL.size()));
-      List<String> like = ControlInjection.lookAlikes(spelling);
+      List<String> like = ReservedInjection.lookAlikes(spelling);
       sb.append(rnd.nextInt(50) == 0 ? spelling : like.get(rnd.nextInt(like.size())));
     }
     String text = sb.toString();
-    Tokens u = encodeChecked(tk, "1 MiB of control-token look-alikes and prefixes", text);
+    Tokens u = encodeChecked(tk, "1 MiB of reserved-token look-alikes and prefixes", text);
     for (int i = 1; i < u.size() - 1; i++) {
-      if (u.isControl(i) || tk.controlTokens().isControl(u.id(i))) {
-        throw new AssertionError("untrusted control token at " + i);
+      if (u.isReserved(i) || tk.reservedTokens().isReserved(u.id(i))) {
+        throw new AssertionError("untrusted reserved token at " + i);
       }
     }
     Tokens t = tk.encode(text, Trust.TRUSTED);
     OffsetInvariants.check(t, text);
-    List<int[]> expected = ControlInjection.exactOccurrences(text, tk.controlTokens());
+    List<int[]> expected = ReservedInjection.exactOccurrences(text, tk.reservedTokens());
     int found = 0;
     for (int i = 1; i < t.size() - 1; i++) {
-      if (t.isControl(i)) {
+      if (t.isReserved(i)) {
         int[] e = expected.get(found++);
         int[] g = {t.start(i), t.end(i), t.id(i)};
         if (!Arrays.equals(e, g)) {
-          throw new AssertionError("trusted control token " + (found - 1) + " is " + Arrays.toString(g) + ", expected "
+          throw new AssertionError("trusted reserved token " + (found - 1) + " is " + Arrays.toString(g) + ", expected "
               + Arrays.toString(e));
         }
       }
     }
     if (found != expected.size() || found <= 100) {
-      throw new AssertionError("trusted found " + found + " control tokens, the scan " + expected.size());
+      throw new AssertionError("trusted found " + found + " reserved tokens, the scan " + expected.size());
     }
-    counts.add("exact control spellings among 1 MiB of look-alikes, found in trusted mode", found);
+    counts.add("exact reserved spellings among 1 MiB of look-alikes, found in trusted mode", found);
     return found;
   }
 

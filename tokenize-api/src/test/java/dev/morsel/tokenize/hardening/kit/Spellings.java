@@ -4,7 +4,7 @@ import dev.morsel.tokenize.Template;
 import java.util.List;
 
 /**
- * The control-token spellings of the hardening tests, our own invention (a ferry's boarding
+ * The reserved-token spellings of the hardening tests, our own invention (a ferry's boarding
  * announcements): each starts with {@code "{~"} and ends with {@code "~}"}, so no two overlap or
  * contain each other. Their fullwidth forms (U+FF5B, U+FF5E, U+FF5D and fullwidth letters) become
  * these spellings under NFKC, and {@link #FINAL_CALL} holds "fi", which the ligature U+FB01 becomes.
@@ -18,7 +18,7 @@ public final class Spellings {
   public static final String DISEMBARK = "{~disembark~}";
   /** Framing marker between the texts of a pair. */
   public static final String GANGWAY = "{~gangway~}";
-  /** A control token that only trusted text may hold. */
+  /** A reserved token that only trusted text may hold. */
   public static final String FINAL_CALL = "{~final-call~}";
 
   /** All four, in id order (ids 0..3 of a segmenter that reserves them first). */

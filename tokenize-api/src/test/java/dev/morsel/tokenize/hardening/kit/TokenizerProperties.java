@@ -17,16 +17,16 @@ import java.util.SplittableRandom;
  *   <li><b>offsets</b>: the rules of {@link Tokens} (monotone, inside the text, never inside a
  *       surrogate pair), checked by the test-kit's {@link OffsetInvariants}; span conversion to code
  *       points and UTF-8 succeeds.
- *   <li><b>bytes inside span</b>: the decoded bytes of every content token (not control, not the
+ *   <li><b>bytes inside span</b>: the decoded bytes of every content token (not reserved, not the
  *       unknown token) occur, contiguously, in the UTF-8 of the normalization of the token's own
  *       original span: an offset that points at the wrong characters fails this.
  *   <li><b>warm</b>: encoding the same text again on the same (now warm) instance gives the same
  *       result; <b>variants</b>: every variant of the subject (cache off, tiny cache, saved and
  *       loaded, ...) gives the same result.
- *   <li><b>round trip</b>: decoding without control tokens gives the normalized text, always for a
+ *   <li><b>round trip</b>: decoding without reserved tokens gives the normalized text, always for a
  *       lossless scheme, otherwise whenever the result holds no unknown token; strict decoding of
  *       such a result does not throw.
- *   <li><b>untrusted text</b>: no token but the framing markers is a control token.
+ *   <li><b>untrusted text</b>: no token but the framing markers is a reserved token.
  *   <li><b>lenient decode</b>: any id sequence decodes without an exception under
  *       {@link Decoding#REPLACE}; a {@link StreamDecoder} fed the same ids one at a time gives the
  *       same text.
@@ -42,7 +42,7 @@ public final class TokenizerProperties {
   public static final String VARIANT = "same ids in variant: ";
   public static final String ROUND_TRIP = "round trip to the normalized text";
   public static final String ROUND_TRIP_SKIPPED = "round trip not applicable (unknown token)";
-  public static final String NO_CONTROL = "untrusted text gives no control token";
+  public static final String NO_RESERVED = "untrusted text gives no reserved token";
   public static final String LENIENT_DECODE = "lenient decode of random ids never throws";
   public static final String STREAM_DECODE = "stream decode equals batch decode";
 
@@ -65,13 +65,13 @@ public final class TokenizerProperties {
     }
     counts.add(OFFSETS);
 
-    // bytes inside span, untrusted text gives no control token
+    // bytes inside span, untrusted text gives no reserved token
     int unknown = tk.unknownId();
     boolean hasUnknown = false;
     for (int i = 0; i < t.size(); i++) {
       boolean frame = (t.flags(i) & Tokens.FRAME) != 0;
-      if (!frame && (t.isControl(i) || tk.controlTokens().isControl(t.id(i)))) {
-        fail(subject + " " + NO_CONTROL, seed, text, "token " + i + " is control id " + t.id(i) + " in " + t);
+      if (!frame && (t.isReserved(i) || tk.reservedTokens().isReserved(t.id(i)))) {
+        fail(subject + " " + NO_RESERVED, seed, text, "token " + i + " is reserved id " + t.id(i) + " in " + t);
       }
       if (frame || t.id(i) == unknown) {
         hasUnknown |= t.id(i) == unknown;
@@ -90,7 +90,7 @@ public final class TokenizerProperties {
             + HardText.escape(span, 200) + "\" (normalized bytes " + hex(spanBytes) + ")");
       }
     }
-    counts.add(NO_CONTROL);
+    counts.add(NO_RESERVED);
     counts.add(BYTES_IN_SPAN);
 
     // warm and variants
@@ -147,7 +147,7 @@ public final class TokenizerProperties {
         }
         streamed.append(sd.flush());
         if (!batch.contentEquals(streamed)) {
-          fail(subject + " " + STREAM_DECODE, seed, text, "ids " + Arrays.toString(seq) + " (dropControl=" + drop
+          fail(subject + " " + STREAM_DECODE, seed, text, "ids " + Arrays.toString(seq) + " (dropReserved=" + drop
               + "): batch \"" + HardText.escape(batch, 500) + "\", stream \"" + HardText.escape(streamed, 500) + "\"");
         }
       }

@@ -15,15 +15,15 @@ import java.util.List;
  * <pre>
  * BPEC  settings
  *   u32 layout version (1)
- *   u32 control count k (&lt;= {@link #MAX_CONTROLS})
- *   k x (u32 byte length, UTF-8 spelling)   control spellings in id order (ids 0..k-1)
+ *   u32 reserved count k (&lt;= {@link #MAX_RESERVED})
+ *   k x (u32 byte length, UTF-8 spelling)   reserved spellings in id order (ids 0..k-1)
  *   u32 cache size (entries, 0 = off, &lt;= {@link #MAX_CACHE_ENTRIES}); writers put the default here,
  *       since the cache is a runtime setting that changes no result and so must not change the fingerprint
  * BPEM  merges
  *   u32 merge count m (&lt;= {@link #MAX_MERGES})
  *   m x (u32 left id, u32 right id)           in rank order; merge r is id k+256+r
  * </pre>
- * The api also writes control spellings in its own section; this copy lets the segmenter stand alone.
+ * The api also writes reserved spellings in its own section; this copy lets the segmenter stand alone.
  */
 public final class BpeSections {
   /** Settings section tag. */
@@ -32,8 +32,8 @@ public final class BpeSections {
   public static final String MERGES = "BPEM";
   /** Layout version written in {@link #SETTINGS}. */
   public static final int VERSION = 1;
-  /** Most control tokens accepted when reading (reason: bounds the allocation before validation). */
-  public static final int MAX_CONTROLS = 1 << 16;
+  /** Most reserved tokens accepted when reading (reason: bounds the allocation before validation). */
+  public static final int MAX_RESERVED = 1 << 16;
   /** Most merges accepted (16 Mi ids: far beyond any useful vocabulary, well inside int ids). */
   public static final int MAX_MERGES = 1 << 24;
   /** Largest cache accepted, in entries (16 Mi slots = 64 MiB of references). */
@@ -46,7 +46,7 @@ public final class BpeSections {
     SectionWriter s = out.section(SETTINGS);
     s.putInt(VERSION);
     s.putInt(vocab.k);
-    for (String c : vocab.controls) {
+    for (String c : vocab.reserved) {
       s.putString(c);
     }
     s.putInt(cacheEntries);
@@ -82,17 +82,17 @@ public final class BpeSections {
     if (version != VERSION) {
       throw s.fail("layout version " + version + " is not supported (this reader knows " + VERSION + ")");
     }
-    int k = s.getCount("control tokens", MAX_CONTROLS, 4);
-    List<String> controls = new ArrayList<>(k);
+    int k = s.getCount("reserved tokens", MAX_RESERVED, 4);
+    List<String> reserved = new ArrayList<>(k);
     for (int i = 0; i < k; i++) {
-      String c = s.getString("control token " + i);
+      String c = s.getString("reserved token " + i);
       if (c.isEmpty()) {
-        throw new ModelFormatException(SETTINGS, "control token " + i + " has an empty spelling");
+        throw new ModelFormatException(SETTINGS, "reserved token " + i + " has an empty spelling");
       }
-      if (controls.contains(c)) {
-        throw new ModelFormatException(SETTINGS, "control token " + i + " repeats spelling '" + c + "'");
+      if (reserved.contains(c)) {
+        throw new ModelFormatException(SETTINGS, "reserved token " + i + " repeats spelling '" + c + "'");
       }
-      controls.add(c);
+      reserved.add(c);
     }
     int cache = s.getInt("cache size");
     if (cache < 0 || cache > MAX_CACHE_ENTRIES) {
@@ -108,7 +108,7 @@ public final class BpeSections {
       right[r] = m.getInt("merge " + r + " right");
     }
     m.expectEnd();
-    Vocab v = Vocab.build(controls, left, right,
+    Vocab v = Vocab.build(reserved, left, right,
         (index, msg) -> new ModelFormatException(MERGES, "entry " + index + ": " + msg));
     return new Read(v, cache);
   }

@@ -28,7 +28,7 @@ import java.util.concurrent.Future;
  * <p>Choice of the next merge: highest count; ties go to the pair whose concatenated bytes are
  * smallest in unsigned lexicographic order; remaining ties (same bytes) to the shorter left operand.
  * A pair is never chosen if its token would exceed {@code maxTokenBytes}, if its bytes are already a
- * token, or if its display spelling equals a control spelling; such pairs are set aside for good (their
+ * token, or if its display spelling equals a reserved spelling; such pairs are set aside for good (their
  * bytes never change). Learning stops at the merge budget, or when the best count is below
  * {@code minPairCount}, or when no pair is eligible.
  *
@@ -57,7 +57,7 @@ public final class MergeLearner {
   private final int maxMerges;
   private final long minPairCount;
   private final int maxTokenBytes;
-  private final Set<String> controls;
+  private final Set<String> reserved;
   private final TrainingListener listener;
 
   private final List<byte[]> tokenBytes = new ArrayList<>(); // by id - k
@@ -73,12 +73,12 @@ public final class MergeLearner {
   private int heapSize;
 
   /**
-   * @param k number of control tokens (byte b is id k+b)
+   * @param k number of reserved tokens (byte b is id k+b)
    * @param words UTF-8 of each distinct piece
    * @param weights count of each piece
    */
   public MergeLearner(int k, List<byte[]> words, long[] weights, int maxMerges, long minPairCount, int maxTokenBytes,
-      List<String> controls, TrainingListener listener) {
+      List<String> reserved, TrainingListener listener) {
     this.k = k;
     this.words = new int[words.size()][];
     this.lens = new int[words.size()];
@@ -95,7 +95,7 @@ public final class MergeLearner {
     this.maxMerges = maxMerges;
     this.minPairCount = minPairCount;
     this.maxTokenBytes = maxTokenBytes;
-    this.controls = Set.copyOf(controls);
+    this.reserved = Set.copyOf(reserved);
     this.listener = listener;
     counts.defaultReturnValue(0);
     for (int b = 0; b < 256; b++) {
@@ -149,7 +149,7 @@ public final class MergeLearner {
       byte[] merged = Arrays.copyOf(la, la.length + lb.length);
       System.arraycopy(lb, 0, merged, la.length, lb.length);
       if (known.contains(key(merged))
-          || (!controls.isEmpty() && controls.contains(ByteSpelling.display(merged, 0, merged.length)))) {
+          || (!reserved.isEmpty() && reserved.contains(ByteSpelling.display(merged, 0, merged.length)))) {
         continue;
       }
       int id = k + 256 + leftOut.size();

@@ -9,9 +9,9 @@ import java.util.List;
 /**
  * The immutable vocabulary of a byte-level BPE model.
  *
- * <p>Layout: control tokens {@code 0..k-1}; byte tokens {@code k..k+255} (byte value {@code b} is id
+ * <p>Layout: reserved tokens {@code 0..k-1}; byte tokens {@code k..k+255} (byte value {@code b} is id
  * {@code k+b}); merge of rank {@code r} is id {@code k+256+r}. A merge's operands are byte-level
- * tokens (never control ids) with ids below its own. Token byte strings are unique, so the display
+ * tokens (never reserved ids) with ids below its own. Token byte strings are unique, so the display
  * spelling (see {@link ByteSpelling}) is unique per id.
  */
 public final class Vocab {
@@ -28,7 +28,7 @@ public final class Vocab {
   }
 
   final int k;
-  final String[] controls;
+  final String[] reserved;
   final int[] left;
   final int[] right;
   final byte[] bytes;
@@ -51,10 +51,10 @@ public final class Vocab {
   final String[] display;
   final Object2IntOpenHashMap<String> displayIds;
 
-  private Vocab(String[] controls, int[] left, int[] right, byte[] bytes, int[] offsets, Long2IntOpenHashMap ranks,
+  private Vocab(String[] reserved, int[] left, int[] right, byte[] bytes, int[] offsets, Long2IntOpenHashMap ranks,
       String[] display, Object2IntOpenHashMap<String> displayIds) {
-    this.k = controls.length;
-    this.controls = controls;
+    this.k = reserved.length;
+    this.reserved = reserved;
     this.left = left;
     this.right = right;
     this.bytes = bytes;
@@ -102,20 +102,20 @@ public final class Vocab {
   }
 
   /**
-   * Validates and builds. Controls are assumed valid (checked by {@code ControlTokens}); merges are
+   * Validates and builds. Reserved spellings are assumed valid (checked by {@code ReservedTokens}); merges are
    * checked here: operands are existing byte-level ids below the merge's own id, no pair twice, no
-   * token's bytes twice, no display equal to a control spelling, lengths within the limits.
+   * token's bytes twice, no display equal to a reserved spelling, lengths within the limits.
    */
-  public static Vocab build(List<String> controlList, int[] left, int[] right, Failure fail) {
-    String[] controls = controlList.toArray(new String[0]);
-    int k = controls.length;
+  public static Vocab build(List<String> reservedList, int[] left, int[] right, Failure fail) {
+    String[] reserved = reservedList.toArray(new String[0]);
+    int k = reserved.length;
     int m = left.length;
     int size = k + 256 + m;
     int[] offsets = new int[size + 1];
     long total = 0;
     byte[][] ctl = new byte[k][];
     for (int i = 0; i < k; i++) {
-      ctl[i] = controls[i].getBytes(StandardCharsets.UTF_8);
+      ctl[i] = reserved[i].getBytes(StandardCharsets.UTF_8);
       total += ctl[i].length;
     }
     total += 256;
@@ -176,29 +176,29 @@ public final class Vocab {
     Object2IntOpenHashMap<String> ids = new Object2IntOpenHashMap<>(size);
     ids.defaultReturnValue(-1);
     for (int i = 0; i < k; i++) {
-      display[i] = controls[i];
-      ids.put(controls[i], i);
+      display[i] = reserved[i];
+      ids.put(reserved[i], i);
     }
     for (int id = k; id < size; id++) {
       display[id] = ByteSpelling.display(bytes, offsets[id], len[id]);
       int prev = ids.putIfAbsent(display[id], id);
       if (prev != -1) {
         int r = id - k - 256;
-        throw fail.at(Math.max(r, 0), (prev < k ? "token " + id + " is spelled like control token " + prev
+        throw fail.at(Math.max(r, 0), (prev < k ? "token " + id + " is spelled like reserved token " + prev
             : "merge " + r + " makes token '" + display[id] + "', already token " + prev) + ": token bytes must be unique");
       }
     }
-    return new Vocab(controls, left.clone(), right.clone(), bytes, offsets, ranks, display, ids);
+    return new Vocab(reserved, left.clone(), right.clone(), bytes, offsets, ranks, display, ids);
   }
 
-  /** Number of control tokens. */
-  public int controlCount() {
+  /** Number of reserved tokens. */
+  public int reservedCount() {
     return k;
   }
 
-  /** Control spellings in id order. */
-  public List<String> controls() {
-    return List.of(controls);
+  /** Reserved spellings in id order. */
+  public List<String> reserved() {
+    return List.of(reserved);
   }
 
   /** Number of merges. */
@@ -256,7 +256,7 @@ public final class Vocab {
     return displayIds.getInt(spelling);
   }
 
-  /** A copy of token {@code id}'s bytes (a control token's spelling as UTF-8). */
+  /** A copy of token {@code id}'s bytes (a reserved token's spelling as UTF-8). */
   public byte[] tokenBytes(int id) {
     return Arrays.copyOfRange(bytes, offsets[id], offsets[id + 1]);
   }

@@ -42,7 +42,7 @@ public final class EncodeFunction implements UDF1<String, Object> {
   /**
    * @param model the broadcast bytes of the model file
    * @param fingerprint the fingerprint the caller declared for the bytes
-   * @param trusted whether control-token spellings in the text become control tokens
+   * @param trusted whether reserved-token spellings in the text become reserved tokens
    * @param offsets whether to return starts and ends as well as ids
    */
   public EncodeFunction(Broadcast<byte[]> model, String fingerprint, boolean trusted, boolean offsets) {

@@ -33,7 +33,7 @@ public final class Training {
   private final double shrinkFactor;
   private final int emIterations;
   private final boolean rawBytes;
-  private final List<String> controls;
+  private final List<String> reserved;
   private final String unknown;
   private final int threads;
   private final int seedTableLimit;
@@ -42,7 +42,7 @@ public final class Training {
 
   /** All settings already validated by the public builder. */
   public Training(int vocabularySize, int seedFactor, int maxTokenLength, double shrinkFactor, int emIterations,
-      boolean rawBytes, List<String> controls, String unknown, int threads, int seedTableLimit,
+      boolean rawBytes, List<String> reserved, String unknown, int threads, int seedTableLimit,
       int maxPieceLength, TrainingListener listener) {
     this.vocabularySize = vocabularySize;
     this.seedFactor = seedFactor;
@@ -50,7 +50,7 @@ public final class Training {
     this.shrinkFactor = shrinkFactor;
     this.emIterations = emIterations;
     this.rawBytes = rawBytes;
-    this.controls = List.copyOf(controls);
+    this.reserved = List.copyOf(reserved);
     this.unknown = unknown;
     this.threads = threads;
     this.seedTableLimit = seedTableLimit;
@@ -89,23 +89,23 @@ public final class Training {
     }
     String[] corpus = corpusList.toArray(new String[0]);
     weights = Arrays.copyOf(weights, corpus.length);
-    int reservedIds = controls.size() + (rawBytes ? 256 : 0) + 1;
+    int reservedIds = reserved.size() + (rawBytes ? 256 : 0) + 1;
     long required = (long) reservedIds + alphabet.size();
     if (vocabularySize < required) {
       throw new IllegalArgumentException("vocabularySize=" + vocabularySize + " is smaller than the " + required
-          + " ids required: " + controls.size() + " control tokens" + (rawBytes ? ", 256 byte tokens" : "")
+          + " ids required: " + reserved.size() + " reserved tokens" + (rawBytes ? ", 256 byte tokens" : "")
           + ", 1 unknown token and an alphabet of " + alphabet.size() + " characters");
     }
     int target = vocabularySize - reservedIds;
-    Set<String> reserved = new HashSet<>(controls);
-    reserved.add(unknown);
+    Set<String> taken = new HashSet<>(reserved);
+    taken.add(unknown);
     if (rawBytes) {
       for (int b = 0; b < 256; b++) {
-        reserved.add(UnigramSegmenter.byteSpelling(b));
+        taken.add(UnigramSegmenter.byteSpelling(b));
       }
     }
     int maxMulti = (int) Math.min(Integer.MAX_VALUE - 8, (long) seedFactor * target);
-    SeedCounter.Seeds seeds = SeedCounter.seed(corpus, weights, maxTokenLength, maxMulti, seedTableLimit, reserved,
+    SeedCounter.Seeds seeds = SeedCounter.seed(corpus, weights, maxTokenLength, maxMulti, seedTableLimit, taken,
         listener);
     String[] vocab = seeds.tokens();
     double[] logp = seeds.logp();
@@ -163,7 +163,7 @@ public final class Training {
       pieces.add(fv[order[i]]);
       scores[i] = fl[order[i]];
     }
-    return UnigramSegmenter.create(controls, rawBytes, unknown, pieces, scores);
+    return UnigramSegmenter.create(reserved, rawBytes, unknown, pieces, scores);
   }
 
   /** Indices of the tokens kept (in their current order): all single characters, then the highest losses. */

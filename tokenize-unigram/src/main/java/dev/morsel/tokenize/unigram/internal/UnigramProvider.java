@@ -14,15 +14,15 @@ import dev.morsel.tokenize.unigram.UnigramModel;
  * UNST  u32 format version (1)
  *       u8  byte fallback (0 or 1)
  *       str unknown-token spelling          (str = u32 byte length + UTF-8)
- *       u32 control-token count k, then k × str
+ *       u32 reserved-token count k, then k × str
  * UNVO  u32 piece count m, then m × (str piece, f64 log-probability)
  * </pre>
  *
  * Errors are {@link ModelFormatException}s naming the section and the entry index.
  */
 public final class UnigramProvider implements SegmenterProvider {
-  /** Largest control-token count accepted (reason: a forged count must not drive allocation). */
-  private static final int MAX_CONTROLS = 1 << 16;
+  /** Largest reserved-token count accepted (reason: a forged count must not drive allocation). */
+  private static final int MAX_RESERVED = 1 << 16;
   /** Smallest encoded piece entry: a u32 length and an f64 (bytes); content is checked per entry. */
   private static final int MIN_PIECE_BYTES = 4 + 8;
 
@@ -46,10 +46,10 @@ public final class UnigramProvider implements SegmenterProvider {
       throw st.fail("byte fallback flag " + flag + " is not 0 or 1");
     }
     String unknown = st.getString("unknown token");
-    int k = st.getCount("control tokens", MAX_CONTROLS, 4);
-    String[] controls = new String[k];
+    int k = st.getCount("reserved tokens", MAX_RESERVED, 4);
+    String[] reserved = new String[k];
     for (int i = 0; i < k; i++) {
-      controls[i] = st.getString("control token " + i);
+      reserved[i] = st.getString("reserved token " + i);
     }
     st.expectEnd();
 
@@ -62,7 +62,7 @@ public final class UnigramProvider implements SegmenterProvider {
       scores[i] = vo.getDouble("score of piece " + i);
     }
     vo.expectEnd();
-    return new UnigramSegmenter(controls, flag == 1, unknown, pieces, scores, (what, index, message) -> {
+    return new UnigramSegmenter(reserved, flag == 1, unknown, pieces, scores, (what, index, message) -> {
       String tag = what.equals("piece") ? UnigramSegmenter.PIECES : UnigramSegmenter.SETTINGS;
       return new ModelFormatException(tag, what + " " + index + ": " + message);
     });

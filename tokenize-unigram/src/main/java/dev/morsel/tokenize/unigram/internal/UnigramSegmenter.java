@@ -37,7 +37,7 @@ import java.util.random.RandomGenerator;
 public final class UnigramSegmenter implements UnigramModel {
   // ------------------------------------------------------------------ configuration
 
-  /** Model-file section holding settings and control tokens. */
+  /** Model-file section holding settings and reserved tokens. */
   static final String SETTINGS = "UNST";
   /** Model-file section holding pieces and scores. */
   static final String PIECES = "UNVO";
@@ -59,13 +59,13 @@ public final class UnigramSegmenter implements UnigramModel {
   private final PieceTrie trie;
   /** Pieces that are their own Viterbi path: one probe instead of a Viterbi pass (see wholePieces). */
   private final PieceTable whole;
-  private final int controlCount;
+  private final int reservedCount;
   private final boolean rawBytes;
   private final int byteBase;
   private final int unknownId;
   private final int firstPiece;
   private final double unknownScore;
-  private final String[] controls;
+  private final String[] reserved;
   private final String[] pieces;
   private final double[] pieceScores;
   private final ThreadLocal<Scratch> scratch = ThreadLocal.withInitial(Scratch::new);
@@ -81,27 +81,27 @@ public final class UnigramSegmenter implements UnigramModel {
       new IllegalArgumentException(what + " " + index + ": " + message);
 
   /** See {@link UnigramModel#of}. */
-  public static UnigramSegmenter create(List<String> controlTokens, boolean rawBytes, String unknownToken,
+  public static UnigramSegmenter create(List<String> reservedTokens, boolean rawBytes, String unknownToken,
       List<String> pieces, double[] scores) {
-    Objects.requireNonNull(controlTokens, "controlTokens");
+    Objects.requireNonNull(reservedTokens, "reservedTokens");
     Objects.requireNonNull(unknownToken, "unknownToken");
     Objects.requireNonNull(pieces, "pieces");
     Objects.requireNonNull(scores, "scores");
     if (pieces.size() != scores.length) {
       throw new IllegalArgumentException(pieces.size() + " pieces but " + scores.length + " scores");
     }
-    return new UnigramSegmenter(controlTokens.toArray(new String[0]), rawBytes, unknownToken,
+    return new UnigramSegmenter(reservedTokens.toArray(new String[0]), rawBytes, unknownToken,
         pieces.toArray(new String[0]), scores.clone(), ARGUMENT);
   }
 
-  UnigramSegmenter(String[] controls, boolean rawBytes, String unknown, String[] pieces, double[] scores,
+  UnigramSegmenter(String[] reserved, boolean rawBytes, String unknown, String[] pieces, double[] scores,
       Failure fail) {
-    int k = controls.length;
+    int k = reserved.length;
     int total = k + (rawBytes ? 256 : 0) + 1 + pieces.length;
-    this.controls = controls;
+    this.reserved = reserved;
     this.pieces = pieces;
     this.pieceScores = scores;
-    this.controlCount = k;
+    this.reservedCount = k;
     this.rawBytes = rawBytes;
     this.byteBase = rawBytes ? k : -1;
     this.unknownId = k + (rawBytes ? 256 : 0);
@@ -113,11 +113,11 @@ public final class UnigramSegmenter implements UnigramModel {
     ids.defaultReturnValue(-1);
     Arrays.fill(score, Double.NaN);
     for (int i = 0; i < k; i++) {
-      String c = controls[i];
+      String c = reserved[i];
       if (c == null || c.isEmpty()) {
-        throw fail.at("control token", i, "is " + (c == null ? "null" : "empty"));
+        throw fail.at("reserved token", i, "is " + (c == null ? "null" : "empty"));
       }
-      put(i, c, c.getBytes(StandardCharsets.UTF_8), "control token", i, fail);
+      put(i, c, c.getBytes(StandardCharsets.UTF_8), "reserved token", i, fail);
     }
     if (rawBytes) {
       for (int b = 0; b < 256; b++) {
@@ -247,8 +247,8 @@ public final class UnigramSegmenter implements UnigramModel {
   }
 
   @Override
-  public int controlCount() {
-    return controlCount;
+  public int reservedCount() {
+    return reservedCount;
   }
 
   @Override
@@ -280,8 +280,8 @@ public final class UnigramSegmenter implements UnigramModel {
   @Override
   public void write(ModelWriter out) {
     SectionWriter st = out.section(SETTINGS);
-    st.putInt(FORMAT_VERSION).putByte(rawBytes ? 1 : 0).putString(spelling[unknownId]).putInt(controlCount);
-    for (String c : controls) {
+    st.putInt(FORMAT_VERSION).putByte(rawBytes ? 1 : 0).putString(spelling[unknownId]).putInt(reservedCount);
+    for (String c : reserved) {
       st.putString(c);
     }
     SectionWriter vo = out.section(PIECES);
@@ -510,9 +510,9 @@ public final class UnigramSegmenter implements UnigramModel {
     return pieceScores.clone();
   }
 
-  /** Control tokens. */
-  String[] controls() {
-    return controls.clone();
+  /** Reserved tokens. */
+  String[] reserved() {
+    return reserved.clone();
   }
 
   /**

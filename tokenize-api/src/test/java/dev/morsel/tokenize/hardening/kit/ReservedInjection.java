@@ -1,6 +1,6 @@
 package dev.morsel.tokenize.hardening.kit;
 
-import dev.morsel.tokenize.ControlTokens;
+import dev.morsel.tokenize.ReservedTokens;
 import dev.morsel.tokenize.Tokenizer;
 import dev.morsel.tokenize.Tokens;
 import dev.morsel.tokenize.Trust;
@@ -11,26 +11,26 @@ import java.util.Locale;
 import java.util.SplittableRandom;
 
 /**
- * Control-token injection checks for a tokenizer whose control tokens are {@link Spellings#ALL}
- * framed by {@link Spellings#template()}. Untrusted text never yields a control id, however it
- * spells a control token: exactly, in fullwidth compatibility characters that NFKC maps onto the
+ * Reserved-token injection checks for a tokenizer whose reserved tokens are {@link Spellings#ALL}
+ * framed by {@link Spellings#template()}. Untrusted text never yields a reserved id, however it
+ * spells a reserved token: exactly, in fullwidth compatibility characters that NFKC maps onto the
  * spelling (UAX #15; UnicodeData.txt {@code <wide>} decompositions), in capitals that case folding
  * maps onto it, with the ligature U+FB01 for "fi" (an NFKC {@code <compat>} decomposition), with a
  * default-ignorable character (U+00AD, U+200D) inside that NFKC_Casefold removes, or cut into
- * prefixes. Trusted text yields a control id exactly where the original text holds the exact
+ * prefixes. Trusted text yields a reserved id exactly where the original text holds the exact
  * spelling, found by an independent leftmost scan ({@link #exactOccurrences}), and nowhere else.
  */
-public final class ControlInjection {
+public final class ReservedInjection {
   /** Count names. */
-  public static final String UNTRUSTED = "untrusted text yields no control id";
-  public static final String TRUSTED = "trusted text yields control ids exactly at exact spellings";
+  public static final String UNTRUSTED = "untrusted text yields no reserved id";
+  public static final String TRUSTED = "trusted text yields reserved ids exactly at exact spellings";
   public static final String FOUND = "exact spellings found in trusted text";
   public static final String LOOK_ALIKES = "look-alikes checked alone and beside the spelling";
 
   private final Counts counts;
 
   /** Checks that count into {@code counts}. */
-  public ControlInjection(Counts counts) {
+  public ReservedInjection(Counts counts) {
     this.counts = counts;
   }
 
@@ -53,13 +53,13 @@ public final class ControlInjection {
   }
 
   /** Leftmost exact occurrences as {start, end, id}, written from the rule "no spelling overlaps another" alone. */
-  public static List<int[]> exactOccurrences(String text, ControlTokens controls) {
+  public static List<int[]> exactOccurrences(String text, ReservedTokens reserved) {
     List<int[]> out = new ArrayList<>();
     int at = 0;
     while (true) {
       int best = -1;
       String found = null;
-      for (String s : controls.spellings()) {
+      for (String s : reserved.spellings()) {
         int i = text.indexOf(s, at);
         if (i >= 0 && (best < 0 || i < best)) {
           best = i;
@@ -69,7 +69,7 @@ public final class ControlInjection {
       if (found == null) {
         return out;
       }
-      out.add(new int[] {best, best + found.length(), controls.id(found)});
+      out.add(new int[] {best, best + found.length(), reserved.id(found)});
       at = best + found.length();
     }
   }
@@ -96,8 +96,8 @@ public final class ControlInjection {
 
   /** {@code cases} seeded {@link #mixed} texts, each {@link #check}ed. */
   public void generated(Tokenizer tk, long baseSeed, int cases) {
-    if (!Spellings.ALL.equals(tk.controlTokens().spellings())) {
-      throw new AssertionError("control tokens " + tk.controlTokens().spellings() + ", expected " + Spellings.ALL);
+    if (!Spellings.ALL.equals(tk.reservedTokens().spellings())) {
+      throw new AssertionError("reserved tokens " + tk.reservedTokens().spellings() + ", expected " + Spellings.ALL);
     }
     for (long seed : Seeds.cases(baseSeed, cases)) {
       check(tk, seed, mixed(new SplittableRandom(seed)));
@@ -116,37 +116,37 @@ public final class ControlInjection {
     }
   }
 
-  /** Untrusted: only the framing markers are control; trusted: control ids exactly at the exact spellings. */
+  /** Untrusted: only the framing markers are reserved tokens; trusted: reserved ids exactly at the exact spellings. */
   public void check(Tokenizer tk, long seed, String text) {
-    ControlTokens controls = tk.controlTokens();
+    ReservedTokens reserved = tk.reservedTokens();
     String form = tk.pipeline().normalization().spec();
     Tokens u = tk.encode(text, Trust.UNTRUSTED);
     for (int i = 0; i < u.size(); i++) {
       boolean frame = i == 0 || i == u.size() - 1;
-      if (!frame && (controls.isControl(u.id(i)) || u.isControl(i))) {
+      if (!frame && (reserved.isReserved(u.id(i)) || u.isReserved(i))) {
         throw new AssertionError(HardText.replay(form + " untrusted", seed, text) + ": token " + i
-            + " is control id " + u.id(i));
+            + " is reserved id " + u.id(i));
       }
     }
-    if (u.id(0) != controls.id(Spellings.EMBARK) || u.id(u.size() - 1) != controls.id(Spellings.DISEMBARK)) {
+    if (u.id(0) != reserved.id(Spellings.EMBARK) || u.id(u.size() - 1) != reserved.id(Spellings.DISEMBARK)) {
       throw new AssertionError(HardText.replay(form + " framing", seed, text) + ": " + u);
     }
     counts.add(UNTRUSTED);
     Tokens t = tk.encode(text, Trust.TRUSTED);
-    List<int[]> expected = exactOccurrences(text, controls);
+    List<int[]> expected = exactOccurrences(text, reserved);
     List<int[]> got = new ArrayList<>();
     for (int i = 1; i < t.size() - 1; i++) {
-      if (t.isControl(i) || controls.isControl(t.id(i))) {
+      if (t.isReserved(i) || reserved.isReserved(t.id(i))) {
         got.add(new int[] {t.start(i), t.end(i), t.id(i)});
       }
     }
     if (got.size() != expected.size()) {
-      throw new AssertionError(HardText.replay(form + " trusted control tokens", seed, text) + ": " + got.size()
-          + " control tokens, the exact spelling occurs " + expected.size() + " times");
+      throw new AssertionError(HardText.replay(form + " trusted reserved tokens", seed, text) + ": " + got.size()
+          + " reserved tokens, the exact spelling occurs " + expected.size() + " times");
     }
     for (int k = 0; k < got.size(); k++) {
       if (!Arrays.equals(got.get(k), expected.get(k))) {
-        throw new AssertionError(HardText.replay(form + " trusted control tokens", seed, text) + ": control token "
+        throw new AssertionError(HardText.replay(form + " trusted reserved tokens", seed, text) + ": reserved token "
             + k + " is " + Arrays.toString(got.get(k)) + ", expected " + Arrays.toString(expected.get(k)));
       }
     }

@@ -14,16 +14,16 @@ import org.junit.jupiter.params.provider.Arguments;
 import org.junit.jupiter.params.provider.MethodSource;
 
 /**
- * Untrusted text never yields a control id, however it spells a control token; trusted text yields
- * one exactly at the exact spellings ({@link ControlInjection} lists the look-alikes and their
+ * Untrusted text never yields a reserved id, however it spells a reserved token; trusted text yields
+ * one exactly at the exact spellings ({@link ReservedInjection} lists the look-alikes and their
  * sources), for each segmenter of this module and each normalization form.
  */
 @TestInstance(TestInstance.Lifecycle.PER_CLASS)
-class ControlTokenInjectionTest {
+class ReservedTokenInjectionTest {
   static final int CASES = 1_000;
 
-  private final Counts counts = new Counts("control-token injection");
-  private final ControlInjection injection = new ControlInjection(counts);
+  private final Counts counts = new Counts("reserved-token injection");
+  private final ReservedInjection injection = new ReservedInjection(counts);
 
   Stream<Arguments> subjects() {
     List<Arguments> out = new ArrayList<>();
@@ -51,8 +51,8 @@ class ControlTokenInjectionTest {
   void report() {
     counts.print();
     if (!Seeds.replaying()) {
-      assertTrue(counts.get(ControlInjection.UNTRUSTED) >= 10L * CASES);
-      assertTrue(counts.get(ControlInjection.FOUND) > 1000);
+      assertTrue(counts.get(ReservedInjection.UNTRUSTED) >= 10L * CASES);
+      assertTrue(counts.get(ReservedInjection.FOUND) > 1000);
     }
   }
 }

@@ -10,17 +10,17 @@ import org.junit.jupiter.params.ParameterizedTest;
 import org.junit.jupiter.params.provider.FieldSource;
 
 /**
- * Untrusted text never yields a control id from the unigram tokenizer, however it spells a control
- * token; trusted text yields one exactly at the exact spellings ({@link ControlInjection} lists the
+ * Untrusted text never yields a reserved id from the unigram tokenizer, however it spells a reserved
+ * token; trusted text yields one exactly at the exact spellings ({@link ReservedInjection} lists the
  * look-alikes and their sources), under every normalization form.
  */
 @TestInstance(TestInstance.Lifecycle.PER_CLASS)
-class ControlTokenInjectionTest {
+class ReservedTokenInjectionTest {
   static final int CASES = 1_000;
   static final java.util.List<String> FORMS = PropertySweep.FORMS;
 
-  private final Counts counts = new Counts("control-token injection");
-  private final ControlInjection injection = new ControlInjection(counts);
+  private final Counts counts = new Counts("reserved-token injection");
+  private final ReservedInjection injection = new ReservedInjection(counts);
 
   @ParameterizedTest(name = "unigram {0}")
   @FieldSource("FORMS")
@@ -38,8 +38,8 @@ class ControlTokenInjectionTest {
   void report() {
     counts.print();
     if (!Seeds.replaying()) {
-      assertTrue(counts.get(ControlInjection.UNTRUSTED) >= 5L * CASES);
-      assertTrue(counts.get(ControlInjection.FOUND) > 500);
+      assertTrue(counts.get(ReservedInjection.UNTRUSTED) >= 5L * CASES);
+      assertTrue(counts.get(ReservedInjection.FOUND) > 500);
     }
   }
 }

@@ -10,7 +10,7 @@ import java.util.Map;
 import java.util.Objects;
 
 /**
- * The control tokens of a model: spellings chosen by the user, each bound to a vocabulary id.
+ * The reserved tokens of a model: spellings chosen by the user, each bound to a vocabulary id.
  * Morsel ships no default spellings. Immutable and thread-safe.
  *
  * <p>Matching happens in the <em>original</em> text, before normalization, and only for text the
@@ -21,11 +21,11 @@ import java.util.Objects;
  *
  * @since 0.1.0
  */
-public final class ControlTokens {
+public final class ReservedTokens {
   /** Longest allowed spelling, in UTF-16 units (bounds the matcher's work per position). */
   public static final int MAX_SPELLING_LENGTH = 256;
 
-  private static final ControlTokens NONE = new ControlTokens(new LinkedHashMap<>());
+  private static final ReservedTokens NONE = new ReservedTokens(new LinkedHashMap<>());
 
   private final Map<String, Integer> byspelling; // insertion order
   private final Object2IntOpenHashMap<String> ids = new Object2IntOpenHashMap<>();
@@ -33,7 +33,7 @@ public final class ControlTokens {
   private final Node root = new Node();
   private final boolean[] firstChar = new boolean[65536];
 
-  private ControlTokens(Map<String, Integer> map) {
+  private ReservedTokens(Map<String, Integer> map) {
     this.byspelling = Collections.unmodifiableMap(new LinkedHashMap<>(map));
     ids.defaultReturnValue(-1);
     for (Map.Entry<String, Integer> e : map.entrySet()) {
@@ -49,8 +49,8 @@ public final class ControlTokens {
     }
   }
 
-  /** No control tokens. */
-  public static ControlTokens none() {
+  /** No reserved tokens. */
+  public static ReservedTokens none() {
     return NONE;
   }
 
@@ -59,7 +59,7 @@ public final class ControlTokens {
     return new Builder();
   }
 
-  /** Number of control tokens. */
+  /** Number of reserved tokens. */
   public int size() {
     return byspelling.size();
   }
@@ -79,8 +79,8 @@ public final class ControlTokens {
     return spellings.get(id);
   }
 
-  /** Whether {@code id} is a control token. */
-  public boolean isControl(int id) {
+  /** Whether {@code id} is a reserved token. */
+  public boolean isReserved(int id) {
     return spellings.containsKey(id);
   }
 
@@ -90,7 +90,7 @@ public final class ControlTokens {
   }
 
   /**
-   * Finds the first control token in {@code text[from, to)}. Returns its start, or -1 if none; on a
+   * Finds the first reserved token in {@code text[from, to)}. Returns its start, or -1 if none; on a
    * match {@code out[0]} receives the id and {@code out[1]} the end.
    */
   public int find(CharSequence text, int from, int to, int[] out) {
@@ -116,7 +116,7 @@ public final class ControlTokens {
 
   @Override
   public boolean equals(Object o) {
-    return o instanceof ControlTokens && byspelling.equals(((ControlTokens) o).byspelling);
+    return o instanceof ReservedTokens && byspelling.equals(((ReservedTokens) o).byspelling);
   }
 
   @Override
@@ -126,7 +126,7 @@ public final class ControlTokens {
 
   @Override
   public String toString() {
-    return "ControlTokens" + byspelling;
+    return "ReservedTokens" + byspelling;
   }
 
   // ------------------------------------------------------------------ internals
@@ -169,7 +169,7 @@ public final class ControlTokens {
     private Builder() {}
 
     /**
-     * Registers {@code spelling} as control token {@code id}.
+     * Registers {@code spelling} as reserved token {@code id}.
      *
      * @throws IllegalArgumentException for an empty or over-long spelling, one with a lone surrogate,
      *     a spelling or id registered twice, or a negative id
@@ -177,10 +177,10 @@ public final class ControlTokens {
     public Builder add(String spelling, int id) {
       Objects.requireNonNull(spelling, "spelling");
       if (spelling.isEmpty()) {
-        throw new IllegalArgumentException("control token spelling is empty");
+        throw new IllegalArgumentException("reserved token spelling is empty");
       }
       if (spelling.length() > MAX_SPELLING_LENGTH) {
-        throw new IllegalArgumentException("control token spelling is " + spelling.length()
+        throw new IllegalArgumentException("reserved token spelling is " + spelling.length()
             + " chars long; the limit is MAX_SPELLING_LENGTH=" + MAX_SPELLING_LENGTH);
       }
       for (int i = 0; i < spelling.length(); i++) {
@@ -188,29 +188,29 @@ public final class ControlTokens {
         if (Character.isSurrogate(c) && !(Character.isHighSurrogate(c) && i + 1 < spelling.length()
             && Character.isLowSurrogate(spelling.charAt(i + 1)))) {
           if (!(Character.isLowSurrogate(c) && i > 0 && Character.isHighSurrogate(spelling.charAt(i - 1)))) {
-            throw new IllegalArgumentException("control token '" + spelling + "' has a lone surrogate at index " + i);
+            throw new IllegalArgumentException("reserved token '" + spelling + "' has a lone surrogate at index " + i);
           }
         }
       }
       if (id < 0) {
-        throw new IllegalArgumentException("control token '" + spelling + "' has negative id " + id);
+        throw new IllegalArgumentException("reserved token '" + spelling + "' has negative id " + id);
       }
       if (map.containsKey(spelling)) {
-        throw new IllegalArgumentException("control token '" + spelling + "' registered twice");
+        throw new IllegalArgumentException("reserved token '" + spelling + "' registered twice");
       }
       if (map.containsValue(id)) {
-        throw new IllegalArgumentException("control token id " + id + " registered twice ('" + spelling + "')");
+        throw new IllegalArgumentException("reserved token id " + id + " registered twice ('" + spelling + "')");
       }
       map.put(spelling, id);
       return this;
     }
 
     /**
-     * The control tokens.
+     * The reserved tokens.
      *
      * @throws IllegalArgumentException if one spelling contains or overlaps another, naming both
      */
-    public ControlTokens build() {
+    public ReservedTokens build() {
       List<String> all = new ArrayList<>(map.keySet());
       for (String a : all) {
         for (String b : all) {
@@ -218,18 +218,18 @@ public final class ControlTokens {
             continue;
           }
           if (a.contains(b)) {
-            throw new IllegalArgumentException("control token '" + a + "' contains control token '" + b
+            throw new IllegalArgumentException("reserved token '" + a + "' contains reserved token '" + b
                 + "': matching would be ambiguous");
           }
           for (int k = 1; k < Math.min(a.length(), b.length()); k++) {
             if (a.regionMatches(a.length() - k, b, 0, k)) {
-              throw new IllegalArgumentException("control tokens '" + a + "' and '" + b + "' overlap (the end of the"
+              throw new IllegalArgumentException("reserved tokens '" + a + "' and '" + b + "' overlap (the end of the"
                   + " first is the start of the second): matching would be ambiguous");
             }
           }
         }
       }
-      return map.isEmpty() ? NONE : new ControlTokens(map);
+      return map.isEmpty() ? NONE : new ReservedTokens(map);
     }
   }
 }
