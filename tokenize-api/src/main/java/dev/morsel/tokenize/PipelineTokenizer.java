@@ -219,7 +219,7 @@ final class PipelineTokenizer implements Tokenizer {
     List<Tokens> out = new ArrayList<>();
     for (int start = 0; ; start += stride) {
       int end = Math.min(n, start + size);
-      Tokens.Builder b = new Tokens.Builder(end - start + template.singleOverhead());
+      Tokens.Builder b = new Tokens.Builder(end - start + template.markers(1));
       int first = start < n ? all.start(start) : text.length();
       frame(b, beginIds, start == 0 ? 0 : first, 0);
       for (int i = start; i < end; i++) {

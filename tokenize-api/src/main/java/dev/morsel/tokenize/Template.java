@@ -57,14 +57,21 @@ public final class Template {
     return end;
   }
 
-  /** Number of markers framing a single text. */
-  public int singleOverhead() {
-    return begin.size() + end.size();
-  }
-
-  /** Number of markers framing a pair. */
-  public int pairOverhead() {
-    return begin.size() + separator.size() + end.size();
+  /**
+   * Number of markers that frame {@code segments} texts: {@code begin + end} for one text,
+   * {@code begin + separator + end} for two.
+   *
+   * @param segments 1 or 2
+   * @throws IllegalArgumentException if {@code segments} is neither 1 nor 2
+   */
+  public int markers(int segments) {
+    if (segments == 1) {
+      return begin.size() + end.size();
+    }
+    if (segments == 2) {
+      return begin.size() + separator.size() + end.size();
+    }
+    throw new IllegalArgumentException("a template frames 1 or 2 texts, got segments=" + segments);
   }
 
   @Override

@@ -29,12 +29,12 @@ public interface Tokenizer {
   /** Encodes text, matching reserved tokens only if {@code trust} is {@link Trust#TRUSTED}. */
   Tokens encode(CharSequence text, Trust trust);
 
-  /** Encodes a pair of untrusted texts (segments 0 and 1), framed by the template's pair form. */
+  /** Encodes two untrusted texts (segments 0 and 1), framed as {@code begin first separator second end}. */
   default Tokens encodePair(CharSequence first, CharSequence second) {
     return encodePair(first, second, Trust.UNTRUSTED);
   }
 
-  /** Encodes a pair of texts (segments 0 and 1), framed by the template's pair form. */
+  /** Encodes two texts (segments 0 and 1), framed as {@code begin first separator second end}. */
   Tokens encodePair(CharSequence first, CharSequence second, Trust trust);
 
   /** Encodes untrusted texts in parallel on the common pool; results in input order. */

@@ -151,7 +151,10 @@ public final class Tokens {
     return out;
   }
 
-  /** 1 for every token that is not padding, 0 for padding: the usual attention mask. */
+  /**
+   * One int per token: 1 where the token came from the text or its framing, 0 where {@link #pad}
+   * added it. A model that must not read padding can multiply by this array.
+   */
   public int[] nonPaddingMask() {
     int[] out = new int[flags.length];
     for (int i = 0; i < out.length; i++) {
@@ -257,9 +260,11 @@ public final class Tokens {
 
   /**
    * Shortens the result to at most {@code maxLength} tokens, keeping framing markers. Content tokens
-   * are removed per {@code truncation}: for a pair, from the longer segment first (ties: the second
-   * segment), from the end or the start as the truncation says. Returns {@code this} if nothing needs
-   * removing.
+   * are removed per {@code truncation}: for a pair, {@link Truncation.Strategy#LONGER_YIELDS} takes one
+   * token at a time from whichever segment currently holds more content tokens (on a tie, from the
+   * second segment), {@link Truncation.Strategy#FIRST_YIELDS} and {@link Truncation.Strategy#SECOND_YIELDS}
+   * take them all from one segment; tokens go from the end or the start as the truncation says.
+   * Returns {@code this} if nothing needs removing.
    *
    * @throws IllegalArgumentException if {@code maxLength} is smaller than the number of framing markers
    */
@@ -284,7 +289,7 @@ public final class Tokens {
     int budget = maxLength - framed;
     int keep0;
     int keep1;
-    if (truncation.strategy() == Truncation.Strategy.LONGEST_FIRST) {
+    if (truncation.strategy() == Truncation.Strategy.LONGER_YIELDS) {
       keep0 = perSegment[0];
       keep1 = perSegment[1];
       while (keep0 + keep1 > budget) {
@@ -294,7 +299,7 @@ public final class Tokens {
           keep0--;
         }
       }
-    } else if (truncation.strategy() == Truncation.Strategy.FIRST_ONLY) {
+    } else if (truncation.strategy() == Truncation.Strategy.FIRST_YIELDS) {
       keep1 = perSegment[1];
       keep0 = budget - keep1;
       if (keep0 < 0) {
@@ -362,8 +367,12 @@ public final class Tokens {
     return new Tokens(ni, ns, ne, ng, nf);
   }
 
-  /** Pads every result to the length of the longest in the list (see {@link #pad}). */
-  public static List<Tokens> padToLongest(List<Tokens> batch, int padId, Side side) {
+  /**
+   * Pads a batch to one length: every member is padded (see {@link #pad}) to the size of the batch's
+   * longest member, so all results have equal size. The longest member itself comes back unchanged;
+   * an empty batch gives an empty list.
+   */
+  public static List<Tokens> padBatch(List<Tokens> batch, int padId, Side side) {
     int longest = 0;
     for (Tokens t : batch) {
       longest = Math.max(longest, t.size());

@@ -9,20 +9,24 @@ import java.util.Objects;
  */
 public final class Truncation {
   /**
-   * Which text of a pair loses tokens.
+   * Which text of a pair yields (gives up) tokens when the result is too long. For one text
+   * every strategy removes from that text.
    *
    * @since 0.1.0
    */
   public enum Strategy {
-    /** Remove one token at a time from whichever text is currently longer (ties: the second). */
-    LONGEST_FIRST,
-    /** Remove only from the first text. */
-    FIRST_ONLY,
-    /** Remove only from the second text. */
-    SECOND_ONLY
+    /**
+     * The longer text yields: one token at a time is removed from whichever text currently holds
+     * more content tokens; when both hold the same number, the second text yields that token.
+     */
+    LONGER_YIELDS,
+    /** The first text yields every removed token; the second is kept whole. */
+    FIRST_YIELDS,
+    /** The second text yields every removed token; the first is kept whole. */
+    SECOND_YIELDS
   }
 
-  private static final Truncation DEFAULT = new Truncation(Strategy.LONGEST_FIRST, Side.END);
+  private static final Truncation DEFAULT = new Truncation(Strategy.LONGER_YIELDS, Side.END);
 
   private final Strategy strategy;
   private final Side side;
@@ -32,8 +36,8 @@ public final class Truncation {
     this.side = Objects.requireNonNull(side, "side");
   }
 
-  /** Longest first, removing from the end: the default. */
-  public static Truncation longestFirst() {
+  /** The longer text yields, removing from the end: the default. */
+  public static Truncation longerYields() {
     return DEFAULT;
   }
 
@@ -47,7 +51,7 @@ public final class Truncation {
     return new Truncation(strategy, side);
   }
 
-  /** Which text loses tokens. */
+  /** Which text yields tokens. */
   public Strategy strategy() {
     return strategy;
   }

@@ -208,31 +208,50 @@ class TokenizerTest {
     assertEquals(OPEN + "Deck B" + JOIN + "Kai 4" + CLOSE, t.decode(pair.ids()));
     assertEquals("Deck BKai 4", t.decode(pair.ids(), true, Decoding.REPLACE));
   }
+  @Test
+  void templateCountsItsMarkersForOneOrTwoTexts() {
+    Template tm = Template.of(List.of(OPEN, JOIN), List.of(JOIN), List.of(CLOSE));
+    Tokenizer t = tokenizer(Normalization.of(Normalization.Form.NFC)).withTemplate(tm);
+    Tokens bare = tokenizer(Normalization.of(Normalization.Form.NFC)).encode("Deck B");
+    Tokens bare2 = tokenizer(Normalization.of(Normalization.Form.NFC)).encode("Kai 4");
+    // an independent count: framed size minus unframed size
+    assertEquals(3, tm.markers(1));
+    assertEquals(t.encode("Deck B").size() - bare.size(), tm.markers(1));
+    assertEquals(4, tm.markers(2));
+    assertEquals(t.encodePair("Deck B", "Kai 4").size() - bare.size() - bare2.size(), tm.markers(2));
+    assertEquals(0, Template.none().markers(1));
+    assertEquals(0, Template.none().markers(2));
+    for (int bad : new int[] {0, 3, -1}) {
+      IllegalArgumentException e = assertThrows(IllegalArgumentException.class, () -> tm.markers(bad));
+      assertTrue(e.getMessage().contains("segments=" + bad), e.getMessage());
+    }
+  }
+
 
   @Test
   void truncationKeepsMarkersAndTakesFromTheLongerTextFirst() {
     Tokenizer t = framed();
     Tokens pair = t.encodePair("abcdefgh", "xyz");   // 1 + 8 + 1 + 3 + 1 = 14
-    Tokens cut = pair.truncate(10, Truncation.longestFirst());
+    Tokens cut = pair.truncate(10, Truncation.longerYields());
     assertEquals(10, cut.size());
     assertEquals(OPEN + "abcd" + JOIN + "xyz" + CLOSE, t.decode(cut.ids()));
-    Tokens cut2 = pair.truncate(8, Truncation.longestFirst());
+    Tokens cut2 = pair.truncate(8, Truncation.longerYields());
     // budget 5: the first text shrinks 8 -> 3, then the tie goes to the second text, 3 -> 2
     assertEquals(OPEN + "abc" + JOIN + "xy" + CLOSE, t.decode(cut2.ids()));
-    Tokens fromStart = pair.truncate(10, Truncation.longestFirst().from(Side.START));
+    Tokens fromStart = pair.truncate(10, Truncation.longerYields().from(Side.START));
     assertEquals(OPEN + "efgh" + JOIN + "xyz" + CLOSE, t.decode(fromStart.ids()));
-    Tokens second = pair.truncate(12, Truncation.of(Truncation.Strategy.SECOND_ONLY, Side.END));
+    Tokens second = pair.truncate(12, Truncation.of(Truncation.Strategy.SECOND_YIELDS, Side.END));
     assertEquals(OPEN + "abcdefgh" + JOIN + "x" + CLOSE, t.decode(second.ids()));
-    assertThrows(IllegalArgumentException.class, () -> pair.truncate(2, Truncation.longestFirst()));
+    assertThrows(IllegalArgumentException.class, () -> pair.truncate(2, Truncation.longerYields()));
     assertThrows(IllegalArgumentException.class,
-        () -> pair.truncate(9, Truncation.of(Truncation.Strategy.SECOND_ONLY, Side.END)));
-    assertEquals(pair, pair.truncate(14, Truncation.longestFirst()));
+        () -> pair.truncate(9, Truncation.of(Truncation.Strategy.SECOND_YIELDS, Side.END)));
+    assertEquals(pair, pair.truncate(14, Truncation.longerYields()));
   }
 
   @Test
   void paddingToLongestMasksPadding() {
     Tokenizer t = framed();
-    List<Tokens> batch = Tokens.padToLongest(t.encodeAll(List.of("a", "abc", "")), 0, Side.END);
+    List<Tokens> batch = Tokens.padBatch(t.encodeAll(List.of("a", "abc", "")), 0, Side.END);
     for (Tokens x : batch) {
       assertEquals(5, x.size());
     }

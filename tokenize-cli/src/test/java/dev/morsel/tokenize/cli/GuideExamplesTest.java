@@ -238,11 +238,11 @@ class GuideExamplesTest {
     String complaint = "The MS Tern left Brisholm forty minutes late, the café was closed, and nobody "
         + "at the pier could tell us whether the bus to Little Tarrow would wait for the ferry.";
     Tokens all = tokenizer.encode(complaint);
-    Tokens head = all.truncate(16, Truncation.longestFirst());                   // keep the first 16
-    Tokens tail = all.truncate(16, Truncation.longestFirst().from(Side.START));  // keep the last 16
+    Tokens head = all.truncate(16, Truncation.longerYields());                   // keep the first 16
+    Tokens tail = all.truncate(16, Truncation.longerYields().from(Side.START));  // keep the last 16
 
     int slack = tokenizer.reservedTokens().id("⟦slack⟧");
-    List<Tokens> batch = Tokens.padToLongest(List.of(head, tokenizer.encode("Cabin 12?")), slack, Side.END);
+    List<Tokens> batch = Tokens.padBatch(List.of(head, tokenizer.encode("Cabin 12?")), slack, Side.END);
     int[] mask = batch.get(1).nonPaddingMask();                                   // 1 = content, 0 = padding
 
     List<Tokens> windows = tokenizer.encodeWindows(complaint, 16, 12);           // 4 tokens of overlap

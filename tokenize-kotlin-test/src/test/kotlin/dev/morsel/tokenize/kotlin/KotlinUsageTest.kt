@@ -56,7 +56,7 @@ class KotlinUsageTest {
     val pieces = (0 until tokens.size()).map { i -> text.substring(tokens.start(i), tokens.end(i)) }
 
     val slack = tokenizer.reservedTokens().id("⟦slack⟧")
-    val batch = Tokens.padToLongest(tokenizer.encodeAll(listOf(text, "Cabin 12?")), slack, Side.END)
+    val batch = Tokens.padBatch(tokenizer.encodeAll(listOf(text, "Cabin 12?")), slack, Side.END)
     val masks = batch.map { it.nonPaddingMask() }
 
     val back = tokenizer.decode(tokens.ids())

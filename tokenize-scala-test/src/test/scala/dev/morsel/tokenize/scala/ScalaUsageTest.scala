@@ -50,7 +50,7 @@ class ScalaUsageTest {
 
     val slack = tokenizer.reservedTokens().id("⟦slack⟧")
     val encoded = tokenizer.encodeAll(Seq(text, "Cabin 12?").asJava)
-    val batch = Tokens.padToLongest(encoded, slack, Side.END).asScala.toSeq
+    val batch = Tokens.padBatch(encoded, slack, Side.END).asScala.toSeq
     val masks = batch.map(_.nonPaddingMask())
 
     val back = tokenizer.decode(tokens.ids())
