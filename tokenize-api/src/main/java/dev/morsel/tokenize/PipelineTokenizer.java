@@ -207,17 +207,17 @@ final class PipelineTokenizer implements Tokenizer {
   }
 
   @Override
-  public List<Tokens> encodeWindows(CharSequence text, int size, int stride) {
+  public List<Tokens> encodeWindows(CharSequence text, int size, int step) {
     limits.checkText(text, "text");
-    if (size < 1 || stride < 1 || stride > size) {
-      throw new IllegalArgumentException("windows need 0 < stride <= size, got size=" + size + ", stride=" + stride);
+    if (size < 1 || step < 1 || step > size) {
+      throw new IllegalArgumentException("windows need 0 < step <= size, got size=" + size + ", step=" + step);
     }
     Scratch s = scratch();
     content(s, text, Trust.UNTRUSTED, 0);
     Tokens all = s.builder.build();
     int n = all.size();
     List<Tokens> out = new ArrayList<>();
-    for (int start = 0; ; start += stride) {
+    for (int start = 0; ; start += step) {
       int end = Math.min(n, start + size);
       Tokens.Builder b = new Tokens.Builder(end - start + template.markers(1));
       int first = start < n ? all.start(start) : text.length();

@@ -44,13 +44,22 @@ public interface Tokenizer {
   List<Tokens> encodeAll(List<? extends CharSequence> texts, Trust trust, Executor executor);
 
   /**
-   * Encodes a long untrusted text as overlapping windows of at most {@code size} content tokens,
-   * each window starting {@code stride} content tokens after the previous one, each framed by the
-   * template. Offsets still point into {@code text}.
+   * Encodes a long untrusted text as windows of at most {@code size} content tokens, each framed by
+   * the template. {@code step} is the number of content tokens from one window's start to the next
+   * window's start, so consecutive windows share {@code size - step} tokens ({@code step == size}:
+   * no overlap). Window {@code w} holds content tokens {@code [w * step, min(w * step + size, n))}
+   * of the text's {@code n}; the last window is the first one that reaches token {@code n}. A text
+   * with no content tokens gives one window holding only the markers. Offsets still point into
+   * {@code text}.
    *
-   * @throws IllegalArgumentException unless {@code 0 < stride <= size}
+   * <p>Worked example: 10 content tokens, {@code size = 4}, {@code step = 3} give three windows,
+   * tokens {@code [0, 4)}, {@code [3, 7)} and {@code [6, 10)}; neighbours share 1 token.
+   *
+   * @param size most content tokens per window
+   * @param step content tokens from one window's start to the next
+   * @throws IllegalArgumentException unless {@code 0 < step <= size}
    */
-  List<Tokens> encodeWindows(CharSequence text, int size, int stride);
+  List<Tokens> encodeWindows(CharSequence text, int size, int step);
 
   /**
    * Explains, for people, how {@code text} is encoded: the normalized text, each piece, and the

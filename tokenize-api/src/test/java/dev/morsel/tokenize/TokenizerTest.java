@@ -208,6 +208,7 @@ class TokenizerTest {
     assertEquals(OPEN + "Deck B" + JOIN + "Kai 4" + CLOSE, t.decode(pair.ids()));
     assertEquals("Deck BKai 4", t.decode(pair.ids(), true, Decoding.REPLACE));
   }
+
   @Test
   void templateCountsItsMarkersForOneOrTwoTexts() {
     Template tm = Template.of(List.of(OPEN, JOIN), List.of(JOIN), List.of(CLOSE));
@@ -226,7 +227,6 @@ class TokenizerTest {
       assertTrue(e.getMessage().contains("segments=" + bad), e.getMessage());
     }
   }
-
 
   @Test
   void truncationKeepsMarkersAndTakesFromTheLongerTextFirst() {
@@ -264,7 +264,7 @@ class TokenizerTest {
   }
 
   @Test
-  void windowsOverlapByStrideAndKeepOffsets() {
+  void windowsStartStepTokensApartAndKeepOffsets() {
     Tokenizer t = framed();
     String text = "Ferry 7 leaves Pier 2 at 06:40";
     Tokens whole = tokenizer(Normalization.of(Normalization.Form.NFC)).encode(text);
@@ -287,6 +287,31 @@ class TokenizerTest {
     assertEquals(whole.id(n - 1), last.id(last.size() - 2), "the last window reaches the end");
     assertThrows(IllegalArgumentException.class, () -> t.encodeWindows(text, 4, 5));
     assertThrows(IllegalArgumentException.class, () -> t.encodeWindows(text, 4, 0));
+  }
+
+  /** The worked example of {@link Tokenizer#encodeWindows}: 10 content tokens, size 4, step 3. */
+  @Test
+  void windowsWorkedExampleFromTheJavadoc() {
+    Tokenizer t = framed();
+    String letters = "TernSkerry"; // ASCII, one byte token per letter: 10 content tokens
+    Tokens whole = tokenizer(Normalization.of(Normalization.Form.NFC)).encode(letters);
+    assertEquals(10, whole.size(), "the example needs exactly 10 content tokens");
+    List<Tokens> windows = t.encodeWindows(letters, 4, 3);
+    assertEquals(3, windows.size());
+    int[][] expected = {{0, 4}, {3, 7}, {6, 10}};
+    for (int w = 0; w < 3; w++) {
+      Tokens win = windows.get(w);
+      assertEquals(4 + 2, win.size(), "window " + w + ": 4 content tokens and 2 markers");
+      assertEquals(Tokens.FRAME, win.flags(0) & Tokens.FRAME, "window " + w + " opens with a marker");
+      assertEquals(Tokens.FRAME, win.flags(win.size() - 1) & Tokens.FRAME, "window " + w + " closes with a marker");
+      assertEquals(expected[w][0], win.start(1), "window " + w + " starts at content token " + expected[w][0]);
+      assertEquals(expected[w][1], win.end(win.size() - 2), "window " + w + " ends at content token " + expected[w][1]);
+      assertEquals(letters.substring(expected[w][0], expected[w][1]),
+          letters.substring(win.start(1), win.end(win.size() - 2)));
+    }
+    // neighbours share size - step = 1 token
+    assertEquals(windows.get(0).id(4), windows.get(1).id(1));
+    assertEquals(windows.get(1).id(4), windows.get(2).id(1));
   }
 
   // ------------------------------------------------------------------ decoding

@@ -245,7 +245,7 @@ class GuideExamplesTest {
     List<Tokens> batch = Tokens.padBatch(List.of(head, tokenizer.encode("Cabin 12?")), slack, Side.END);
     int[] mask = batch.get(1).nonPaddingMask();                                   // 1 = content, 0 = padding
 
-    List<Tokens> windows = tokenizer.encodeWindows(complaint, 16, 12);           // 4 tokens of overlap
+    List<Tokens> windows = tokenizer.encodeWindows(complaint, 16, 12);           // step 12: neighbours share 4
     // @end region="lengths"
     assertEquals(16, head.size());
     assertEquals(16, tail.size());
