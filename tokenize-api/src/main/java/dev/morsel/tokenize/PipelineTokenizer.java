@@ -295,7 +295,7 @@ final class PipelineTokenizer implements Tokenizer {
 
   @Override
   public StreamDecoder streamDecoder(boolean dropControl, Decoding decoding) {
-    return new Utf8Decoding.Stream(this, dropControl, Objects.requireNonNull(decoding, "decoding"));
+    return new GraphemeStream(new Utf8Decoding.Stream(this, dropControl, Objects.requireNonNull(decoding, "decoding")));
   }
 
   // ------------------------------------------------------------------ vocabulary
