@@ -236,6 +236,67 @@ final class PipelineTokenizer implements Tokenizer {
   }
 
   @Override
+  public int count(CharSequence text, Trust trust) {
+    limits.checkText(text, "text");
+    Objects.requireNonNull(trust, "trust");
+    Scratch s = scratch();
+    s.counting = true;
+    s.counted = 0;
+    try {
+      content(s, text, trust, 0);
+    } finally {
+      s.counting = false;
+    }
+    return beginIds.length + s.builder.size + s.counted + endIds.length;
+  }
+
+  @Override
+  public int cutToFit(CharSequence text, int budget, Trust trust) {
+    limits.checkText(text, "text");
+    Objects.requireNonNull(trust, "trust");
+    int markers = beginIds.length + endIds.length;
+    if (budget < markers) {
+      throw new IllegalArgumentException("budget=" + budget + " is smaller than the " + markers
+          + " framing markers of one text");
+    }
+    Scratch s = scratch();
+    content(s, text, trust, 0);
+    Tokens.Builder b = s.builder;
+    int n = b.size;
+    int k = budget - markers;
+    if (k >= n) {
+      return text.length();
+    }
+    // copies: the counts below reuse this thread's scratch
+    int[] starts = Arrays.copyOf(b.starts, n);
+    int[] ends = Arrays.copyOf(b.ends, n);
+    k = boundaryAtOrBefore(k, starts, ends);
+    // A prefix usually encodes to exactly the first k tokens, but a splitting rule that looks past
+    // the cut (the last space of a run joins the next word) can segment its last piece differently:
+    // verify, and move back one token boundary at a time (after 32 misses, by doubling steps, so the
+    // work stays O(n log n) even for rules that never agree).
+    int misses = 0;
+    while (k > 0) {
+      int cut = starts[k];
+      if (count(text.subSequence(0, cut), trust) <= budget) {
+        return cut;
+      }
+      misses++;
+      k = boundaryAtOrBefore(Math.max(0, k - (misses <= 32 ? 1 : 1 << Math.min(30, misses - 32))), starts, ends);
+    }
+    int cut = starts[0];
+    return cut == 0 || count(text.subSequence(0, cut), trust) <= budget ? cut : 0;
+  }
+
+  /** The largest token index {@code <= k} where no two tokens share a source span across the cut. */
+  private static int boundaryAtOrBefore(int k, int[] starts, int[] ends) {
+    while (k > 0 && starts[k] < ends[k - 1]) {
+      k--;
+    }
+    return k;
+  }
+
+  @Override
   public List<String> explain(CharSequence text) {
     limits.checkText(text, "text");
     NormalizedText norm = pipeline.normalization().apply(text, 0, text.length());
@@ -295,7 +356,7 @@ final class PipelineTokenizer implements Tokenizer {
 
   @Override
   public StreamDecoder streamDecoder(boolean dropReserved, Decoding decoding) {
-    return new Utf8Decoding.Stream(this, dropReserved, Objects.requireNonNull(decoding, "decoding"));
+    return new GraphemeStream(new Utf8Decoding.Stream(this, dropReserved, Objects.requireNonNull(decoding, "decoding")));
   }
 
   // ------------------------------------------------------------------ vocabulary
@@ -433,8 +494,14 @@ final class PipelineTokenizer implements Tokenizer {
     NormalizedText norm;
     String normalized;
     int segment;
+    boolean counting; // count() only: tokens are counted, not mapped or stored
+    int counted;
 
     final TokenSink tokenSink = (id, start, end) -> {
+      if (counting) {
+        counted++;
+        return;
+      }
       NormalizedText n = norm;
       builder.add(id, n.spanStart(start), n.spanEnd(end), segment, 0);
     };

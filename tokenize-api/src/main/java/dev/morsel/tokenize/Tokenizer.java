@@ -68,6 +68,44 @@ public interface Tokenizer {
    */
   java.util.List<String> explain(CharSequence text);
 
+  // ------------------------------------------------------------------ token budgets
+
+  /**
+   * The number of tokens {@link #encode(CharSequence)} gives for untrusted {@code text}, framing
+   * markers included, without building a result: no offsets are mapped and no arrays are returned.
+   */
+  default int count(CharSequence text) {
+    return count(text, Trust.UNTRUSTED);
+  }
+
+  /** The number of tokens {@link #encode(CharSequence, Trust)} gives, framing markers included. */
+  int count(CharSequence text, Trust trust);
+
+  /**
+   * The length of the longest prefix of untrusted {@code text} (in UTF-16 units of the original
+   * text, so {@code text.subSequence(0, cutToFit(text, budget))} is that prefix) that ends on a token
+   * boundary of {@code encode(text)} within its first {@code budget} tokens and whose own encoding,
+   * framing markers included, has at most {@code budget} tokens. A cut never separates tokens that
+   * share one source chunk (the {@code f} and {@code i} of {@code ﬁ} under NFKC, the bytes of one
+   * character), and text that yields no token right before the next token stays in the prefix. The
+   * prefix normally encodes to exactly the first tokens of the whole encoding; where a splitting rule
+   * looks past the cut (the last space of a run joins the next word) its last piece may segment
+   * differently, and the cut then moves back until the prefix fits. Costs about two encodes.
+   *
+   * <p>Example: a model input framed by two markers and limited to 512 tokens sees exactly the
+   * first {@code cutToFit(text, 512)} characters of the caller's text, so a caller can show which
+   * part of a document the model read.
+   *
+   * @throws IllegalArgumentException if {@code budget} is smaller than the number of framing markers
+   *     for one text
+   */
+  default int cutToFit(CharSequence text, int budget) {
+    return cutToFit(text, budget, Trust.UNTRUSTED);
+  }
+
+  /** {@link #cutToFit(CharSequence, int)} with reserved-token matching as {@code trust} says. */
+  int cutToFit(CharSequence text, int budget, Trust trust);
+
   // ------------------------------------------------------------------ decode
 
   /** Decodes ids to text, keeping reserved tokens' spellings; ill-formed UTF-8 becomes U+FFFD. */

@@ -281,7 +281,7 @@ class GuideExamplesTest {
     StreamDecoder stream = tokenizer.streamDecoder(true, dev.morsel.tokenize.Decoding.REPLACE);
     StringBuilder shown = new StringBuilder();
     for (int id : encoded.get(1).ids()) {          // ids arriving one at a time, e.g. from a model
-      shown.append(stream.accept(id));             // only whole characters, never half an emoji
+      shown.append(stream.accept(id));             // only whole grapheme clusters, never half an emoji
     }
     shown.append(stream.flush());
     // @end region="batch"
