@@ -14,8 +14,8 @@ import org.junit.jupiter.api.Test;
  * {@code META-INF/services} file names the same providers for the class path.
  */
 class ModuleDescriptorTest {
-  private static final Set<String> PUBLIC_PACKAGES = Set.of("dev.morsel.tokenize.bpe", "dev.morsel.tokenize.wordpiece");
-  private static final Set<String> PROVIDERS = Set.of("dev.morsel.tokenize.bpe.internal.BpeProvider", "dev.morsel.tokenize.wordpiece.internal.WordPieceProvider");
+  private static final Set<String> PUBLIC_PACKAGES = Set.of("dev.morsel.tokenize.bpe");
+  private static final Set<String> PROVIDERS = Set.of("dev.morsel.tokenize.bpe.internal.BpeProvider");
 
   @Test
   void exportsExactlyThePublicPackagesToEveryone() {
@@ -31,6 +31,6 @@ class ModuleDescriptorTest {
   void providesTheSegmentersOnTheModulePathAndTheClassPathAlike() {
     ModuleChecks.assertProvidesSegmenters(PROVIDERS);
     // on the class path (how these tests run) the api's loader finds them by kind
-    assertTrue(Tokenizers.kinds().containsAll(Set.of("bpe", "wordpiece")), "kinds found: " + Tokenizers.kinds());
+    assertTrue(Tokenizers.kinds().containsAll(Set.of("bpe")), "kinds found: " + Tokenizers.kinds());
   }
 }
