@@ -27,7 +27,7 @@ public final class Pipeline {
 
   /** NFC normalization and Morsel's rule-based splitting: changes no character's meaning. */
   public static Pipeline defaults() {
-    return new Pipeline(Normalization.of(Normalization.Form.NFC), Splitting.rules());
+    return new Pipeline(Normalization.of(Normalization.Form.NFC), Splitting.runs());
   }
 
   /** The normalization step. */

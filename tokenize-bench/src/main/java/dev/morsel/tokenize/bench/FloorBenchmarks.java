@@ -47,7 +47,7 @@ public class FloorBenchmarks {
   public void setup() {
     bodies = Corpus.bodies();
     nfkc = Normalization.of(Normalization.Form.NFKC);
-    rules = Splitting.rules();
+    rules = Splitting.runs();
     counter = PieceCounter.builder().pipeline(Pipeline.of(Normalization.none(), rules)).threads(1).build();
   }
 

@@ -44,7 +44,7 @@ public final class Models {
 
   /** Normalization off, rule-based splitting. */
   public static Pipeline pipeline() {
-    return Pipeline.of(Normalization.none(), Splitting.rules());
+    return Pipeline.of(Normalization.none(), Splitting.runs());
   }
 
   /** The same pipeline with splitting off: the adversarial inputs stay one piece. */

@@ -69,12 +69,12 @@ final class Models {
     dev.morsel.tokenize.spi.Segmenter s = segmenter(kind);
     dev.morsel.tokenize.ControlTokens controls = kind == Kind.BPE ? Trained.BPE.controlTokens()
         : Trained.WORDPIECE.controlTokens();
-    return Tokenizers.of(Pipeline.of(Normalization.parse(form), Splitting.rules()), s, controls, Spellings.template());
+    return Tokenizers.of(Pipeline.of(Normalization.parse(form), Splitting.runs()), s, controls, Spellings.template());
   }
 
   /** Same as {@link #tokenizer} over a given segmenter instance of the kind. */
   static Tokenizer tokenizer(Kind kind, String form, dev.morsel.tokenize.spi.Segmenter s) {
-    return Tokenizers.of(Pipeline.of(Normalization.parse(form), Splitting.rules()), s, tokenizer(kind, form)
+    return Tokenizers.of(Pipeline.of(Normalization.parse(form), Splitting.runs()), s, tokenizer(kind, form)
         .controlTokens(), Spellings.template());
   }
 

@@ -78,7 +78,7 @@ class SparkPieceCounterTest {
   static Stream<Pipeline> pipelines() {
     return Stream.of(
         Pipeline.of(Normalization.parse("nfkc+casefold+collapse-spaces"), Splitting.words()),
-        Pipeline.of(Normalization.parse("nfd+remove-marks+drop-controls"), Splitting.rules(2)),
+        Pipeline.of(Normalization.parse("nfd+remove-marks+drop-controls"), Splitting.runs(Splitting.Space.NEXT, 2)),
         Pipeline.of(Normalization.none(), Splitting.whitespace()));
   }
 
