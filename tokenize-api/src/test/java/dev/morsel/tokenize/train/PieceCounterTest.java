@@ -120,7 +120,7 @@ class PieceCounterTest {
   }
 
   @Test
-  void rulesCountsDoNotDependOnThreadsWithoutPruning() {
+  void classRunCountsDoNotDependOnThreadsWithoutPruning() {
     List<String> bodies = Europarl.bodies().subList(0, 2_000);
     PieceCounts one = counter(Splitting.runs(), 1).count(bodies);
     PieceCounts two = counter(Splitting.runs(), 2).count(bodies);

@@ -40,16 +40,17 @@ import java.util.Map;
  * UTF-8 bytes of the normalized text per token, the number of held-out lines whose round trip
  * {@code decode(encode(x)) == normalize(x)} fails, and the training seconds.
  *
- * <p>Run from the repository root (about 12 minutes on 2 shared cores with the default schemes):
+ * <p>Run from the repository root (about 6 minutes on 2 shared cores with the default schemes;
+ * unigram adds about 75 s per candidate on Europarl, so it is left out by default):
  * <pre>
  * ./mvnw -B -ntp -q -pl tokenize-bench -am package -DskipTests
- * java -cp tokenize-bench/target/morsel-bench.jar dev.morsel.tokenize.bench.SplittingStudy \
- *     [schemes, default bpe,wordpiece,unigram]
+ * java -Xmx3g -cp tokenize-bench/target/morsel-bench.jar dev.morsel.tokenize.bench.SplittingStudy \
+ *     [schemes, default bpe,wordpiece]
  * </pre>
  * System properties: {@code morsel.study.europarlSize} (default 8000) and
- * {@code morsel.study.demoSize} (default 1000) are the vocabulary sizes; {@code morsel.study.demo}
- * is the demo directory (default
- * {@code tokenize-cli/src/main/resources/dev/morsel/tokenize/cli/demo}).
+ * {@code morsel.study.demoSize} (default 1000) are the vocabulary sizes; {@code morsel.study.corpora}
+ * picks corpora (default {@code europarl,demo}); {@code morsel.study.demo} is the demo directory
+ * (default {@code tokenize-cli/src/main/resources/dev/morsel/tokenize/cli/demo}).
  */
 public final class SplittingStudy {
   private static final int HOLD_OUT_EVERY = 10;
@@ -71,16 +72,21 @@ public final class SplittingStudy {
 
   /** Runs the study. */
   public static void main(String[] args) {
-    List<String> schemes = List.of((args.length > 0 ? args[0] : "bpe,wordpiece,unigram").split(","));
+    List<String> schemes = List.of((args.length > 0 ? args[0] : "bpe,wordpiece").split(","));
+    List<String> corpora = List.of(System.getProperty("morsel.study.corpora", "europarl,demo").split(","));
     int europarlSize = Integer.getInteger("morsel.study.europarlSize", 8000);
     int demoSize = Integer.getInteger("morsel.study.demoSize", 1000);
     Path demoDir = Paths.get(System.getProperty("morsel.study.demo",
         "tokenize-cli/src/main/resources/dev/morsel/tokenize/cli/demo"));
     long t0 = System.nanoTime();
-    Map<String, List<String>> europarl = new LinkedHashMap<>();
-    europarl.put("europarl", Corpus.bodies());
-    study("Europarl sample (" + Corpus.bodies().size() + " lines)", europarl, europarlSize, schemes);
-    study("demo passenger messages", demo(demoDir), demoSize, schemes);
+    if (corpora.contains("europarl")) {
+      Map<String, List<String>> europarl = new LinkedHashMap<>();
+      europarl.put("europarl", Corpus.bodies());
+      study("Europarl sample (" + Corpus.bodies().size() + " lines)", europarl, europarlSize, schemes);
+    }
+    if (corpora.contains("demo")) {
+      study("demo passenger messages", demo(demoDir), demoSize, schemes);
+    }
     System.out.printf(Locale.ROOT, "%nstudy took %.0f s%n", (System.nanoTime() - t0) / 1e9);
   }
 
