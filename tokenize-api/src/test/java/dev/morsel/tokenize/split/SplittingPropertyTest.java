@@ -139,7 +139,7 @@ class SplittingPropertyTest {
   @MethodSource("runsSeeds")
   void runsDigitGroupsIdeographsAndSpaces(Splitting.Space space, int digitGroup, long seed) {
     Splitting s = Splitting.runs(space, digitGroup);
-    int maxDigits = digitGroup == Splitting.WHOLE_DIGIT_RUNS ? Integer.MAX_VALUE : digitGroup;
+    int longestGroup = digitGroup == Splitting.WHOLE_DIGIT_RUNS ? Integer.MAX_VALUE : digitGroup;
     SplittableRandom r = new SplittableRandom(seed);
     for (int n = 0; n < CASES_PER_MODE; n++) {
       String text = randomText(r, ALPHABET, 40);
@@ -148,7 +148,7 @@ class SplittingPropertyTest {
       for (int[] p : pieces) {
         String piece = text.substring(p[0], p[1]);
         long digits = piece.codePoints().filter(Character::isDigit).count();
-        assertTrue(digits <= maxDigits, () -> "digit group '" + escape(piece) + "' too long: " + where);
+        assertTrue(digits <= longestGroup, () -> "digit group '" + escape(piece) + "' too long: " + where);
         boolean hasIdeograph = piece.codePoints().anyMatch(SplittingPropertyTest::isIdeograph);
         if (hasIdeograph) {
           String rest = withoutLentSpace(space, piece);
