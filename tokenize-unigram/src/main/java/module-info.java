@@ -4,7 +4,8 @@
  * a package that is not exported.
  */
 module dev.morsel.tokenize.unigram {
-  requires transitive dev.morsel.tokenize; // our public types expose Segmenter, PieceCounts, TokenSink
+  requires transitive dev.morsel.tokenize; // our public types expose Segmenter, TokenSink
+  requires transitive dev.morsel.tokenize.train; // and PieceCounts
   requires it.unimi.dsi.fastutil.core;
 
   exports dev.morsel.tokenize.unigram;

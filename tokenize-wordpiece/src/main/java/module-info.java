@@ -5,6 +5,7 @@
  */
 module dev.morsel.tokenize.wordpiece {
   requires transitive dev.morsel.tokenize;
+  requires transitive dev.morsel.tokenize.train;
   requires it.unimi.dsi.fastutil.core;
 
   exports dev.morsel.tokenize.wordpiece;

@@ -32,7 +32,6 @@ class ModuleDescriptorTest {
       "dev.morsel.tokenize.normalize",
       "dev.morsel.tokenize.split",
       "dev.morsel.tokenize.format",
-      "dev.morsel.tokenize.train",
       "dev.morsel.tokenize.spi");
 
   @Test

@@ -82,7 +82,7 @@ public final class ModuleChecks {
 
   /**
    * The module {@code provides} the segmenter SPI with exactly {@code providers}, re-exports only the
-   * api, and its {@code META-INF/services} file (for the class path) names the same providers.
+   * api and the training module, and its {@code META-INF/services} file (for the class path) names the same providers.
    */
   public static void assertProvidesSegmenters(Set<String> providers) {
     ModuleDescriptor d = descriptor();
@@ -91,10 +91,10 @@ public final class ModuleChecks {
       provides.put(p.service(), new TreeSet<>(p.providers()));
     }
     assertEquals(Map.of(SPI, new TreeSet<>(providers)), provides);
-    assertEquals(Set.of("dev.morsel.tokenize"), d.requires().stream()
+    assertEquals(Set.of("dev.morsel.tokenize", "dev.morsel.tokenize.train"), d.requires().stream()
         .filter(r -> r.modifiers().contains(ModuleDescriptor.Requires.Modifier.TRANSITIVE))
         .map(ModuleDescriptor.Requires::name).collect(Collectors.toSet()),
-        "only the api is re-exported to users");
+        "only the api and the training module are re-exported to users");
     Path services = CLASSES.resolve("META-INF/services/" + SPI);
     try {
       Set<String> listed = Arrays.stream(Files.readString(services, StandardCharsets.UTF_8).split("\n"))
