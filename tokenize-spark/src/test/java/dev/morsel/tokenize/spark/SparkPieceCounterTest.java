@@ -90,6 +90,7 @@ class SparkPieceCounterTest {
     PieceCounts single = PieceCounter.builder().pipeline(pipeline).threads(1).build().count(texts);
     PieceCounts spark = SparkPieceCounter.builder().pipeline(pipeline).build().count(LocalSpark.strings(texts));
     assertEquals(single.size(), spark.size(), pipeline.toString());
+    assertEquals(pipeline, spark.pipeline(), "the counts record the pipeline they were counted with");
     assertEquals(single, spark, pipeline.toString());
   }
 
@@ -115,9 +116,9 @@ class SparkPieceCounterTest {
         start = end;
       }
     }
-    PieceCounts spark = SparkPieceCounter.builder().pipeline(Pipeline.of(Normalization.none(), Splitting.whitespace()))
-        .build().count(LocalSpark.strings(texts));
-    assertEquals(PieceCounts.of(oracle), spark);
+    Pipeline none = Pipeline.of(Normalization.none(), Splitting.whitespace());
+    PieceCounts spark = SparkPieceCounter.builder().pipeline(none).build().count(LocalSpark.strings(texts));
+    assertEquals(PieceCounts.of(none, oracle), spark);
   }
 
   @Test

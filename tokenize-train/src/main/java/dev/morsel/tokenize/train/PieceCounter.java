@@ -23,7 +23,8 @@ import java.util.stream.Stream;
 /**
  * Counts pieces for training: normalizes and splits texts exactly as encoding does
  * ({@code pipeline.normalization().apply(text).text()}, then {@code pipeline.splitting()}), in
- * parallel, within a memory budget. Immutable and thread-safe; each call is independent.
+ * parallel, within a memory budget. The counts record the pipeline ({@link PieceCounts#pipeline()}),
+ * so the tokenizer a learner makes from them encodes with it. Immutable and thread-safe; each call is independent.
  *
  * <h2>Parallelism and determinism</h2>
  * Texts are read in order by the calling thread and dealt out in fixed batches of
@@ -166,7 +167,7 @@ public final class PieceCounter {
     }
     merged.pruneIfOver();
     listener.progress("count", done, total, detail(merged));
-    return new CountReport(toCounts(merged.map), done, merged.droppedPieces, merged.droppedOccurrences);
+    return new CountReport(toCounts(p, merged.map), done, merged.droppedPieces, merged.droppedOccurrences);
   }
 
   private long runInline(Iterator<? extends CharSequence> texts, Worker worker, long total) {
@@ -269,7 +270,7 @@ public final class PieceCounter {
     return pieces == 0 ? "" : "pruned: dropped " + pieces + " pieces so far";
   }
 
-  private static PieceCounts toCounts(Object2LongOpenHashMap<String> map) {
+  private static PieceCounts toCounts(Pipeline pipeline, Object2LongOpenHashMap<String> map) {
     String[] pieces = new String[map.size()];
     long[] counts = new long[pieces.length];
     int i = 0;
@@ -278,7 +279,7 @@ public final class PieceCounter {
       pieces[i] = e.getKey();
       counts[i++] = e.getLongValue();
     }
-    return PieceCounts.of(pieces, counts);
+    return PieceCounts.of(pipeline, pieces, counts);
   }
 
   /** One worker's counts; used by one thread at a time. */

@@ -1,26 +1,34 @@
 package dev.morsel.tokenize.train;
 
+import dev.morsel.tokenize.Pipeline;
 import java.util.Arrays;
 import java.util.Map;
 import java.util.Objects;
 import java.util.function.ObjLongConsumer;
 
 /**
- * Training input shared by every trainer: each distinct piece (a unit produced by normalization and
- * splitting) with how often it occurred. Immutable and thread-safe; pieces are held in code-point
- * lexicographic order (the order of {@link String#compareTo}), which makes iteration — and so every
- * trainer that iterates — deterministic.
+ * Training input shared by every learner: each distinct piece (a unit produced by normalization and
+ * splitting) with how often it occurred, and the {@link #pipeline() pipeline} that produced the
+ * pieces. Immutable and thread-safe; pieces are held in code-point lexicographic order (the order of
+ * {@link String#compareTo}), which makes iteration — and so every learner that iterates —
+ * deterministic.
+ *
+ * <p>The pipeline travels with the counts so that a learned tokenizer encodes with the normalization
+ * and splitting its vocabulary was learned from: a learner binds its result to {@link #pipeline()},
+ * and counts of two pipelines do not {@link #plus add up}. {@link PieceCounter} records the pipeline
+ * it counted with; counts made by hand name theirs, or are taken to come from
+ * {@link Pipeline#defaults()}.
  *
  * @since 0.1.0
  */
 public final class PieceCounts {
-  private static final PieceCounts EMPTY = new PieceCounts(new String[0], new long[0]);
-
+  private final Pipeline pipeline;
   private final String[] pieces;
   private final long[] counts;
   private final long total;
 
-  private PieceCounts(String[] pieces, long[] counts) {
+  private PieceCounts(Pipeline pipeline, String[] pieces, long[] counts) {
+    this.pipeline = pipeline;
     this.pieces = pieces;
     this.counts = counts;
     long t = 0;
@@ -30,18 +38,39 @@ public final class PieceCounts {
     this.total = t;
   }
 
-  /** No pieces. */
+  /** No pieces, from {@link Pipeline#defaults()}. */
   public static PieceCounts empty() {
-    return EMPTY;
+    return empty(Pipeline.defaults());
   }
 
   /**
-   * Counts from a map. Pieces with count 0 are dropped.
+   * No pieces, from {@code pipeline}.
+   *
+   * @since 0.1.0
+   */
+  public static PieceCounts empty(Pipeline pipeline) {
+    return new PieceCounts(Objects.requireNonNull(pipeline, "pipeline"), new String[0], new long[0]);
+  }
+
+  /**
+   * Counts from a map, of pieces made by {@link Pipeline#defaults()}. Pieces with count 0 are dropped.
    *
    * @throws IllegalArgumentException for a null or empty piece or a negative count, naming the piece
    * @throws ArithmeticException if the total overflows a long
    */
   public static PieceCounts of(Map<String, ? extends Number> counts) {
+    return of(Pipeline.defaults(), counts);
+  }
+
+  /**
+   * Counts from a map, of pieces made by {@code pipeline}. Pieces with count 0 are dropped.
+   *
+   * @throws IllegalArgumentException for a null or empty piece or a negative count, naming the piece
+   * @throws ArithmeticException if the total overflows a long
+   * @since 0.1.0
+   */
+  public static PieceCounts of(Pipeline pipeline, Map<String, ? extends Number> counts) {
+    Objects.requireNonNull(pipeline, "pipeline");
     Objects.requireNonNull(counts, "counts");
     String[] keys = new String[counts.size()];
     int n = 0;
@@ -64,15 +93,29 @@ public final class PieceCounts {
     for (int i = 0; i < n; i++) {
       values[i] = counts.get(keys[i]).longValue();
     }
-    return new PieceCounts(keys, values);
+    return new PieceCounts(pipeline, keys, values);
   }
 
   /**
-   * Counts from parallel arrays (copied); pieces must be distinct.
+   * Counts from parallel arrays (copied), of pieces made by {@link Pipeline#defaults()}; pieces must
+   * be distinct.
    *
    * @throws IllegalArgumentException for lengths that differ, a null/empty/duplicate piece or a negative count
    */
   public static PieceCounts of(String[] pieces, long[] counts) {
+    return of(Pipeline.defaults(), pieces, counts);
+  }
+
+  /**
+   * Counts from parallel arrays (copied), of pieces made by {@code pipeline}; pieces must be distinct.
+   *
+   * @throws IllegalArgumentException for lengths that differ, a null/empty/duplicate piece or a negative count
+   * @since 0.1.0
+   */
+  public static PieceCounts of(Pipeline pipeline, String[] pieces, long[] counts) {
+    Objects.requireNonNull(pipeline, "pipeline");
+    Objects.requireNonNull(pieces, "pieces");
+    Objects.requireNonNull(counts, "counts");
     if (pieces.length != counts.length) {
       throw new IllegalArgumentException("pieces (" + pieces.length + ") and counts (" + counts.length + ") differ in length");
     }
@@ -101,7 +144,17 @@ public final class PieceCounts {
         n++;
       }
     }
-    return new PieceCounts(Arrays.copyOf(p, n), Arrays.copyOf(c, n));
+    return new PieceCounts(pipeline, Arrays.copyOf(p, n), Arrays.copyOf(c, n));
+  }
+
+  /**
+   * The normalization and splitting that produced these pieces; a tokenizer learned from them
+   * encodes with it.
+   *
+   * @since 0.1.0
+   */
+  public Pipeline pipeline() {
+    return pipeline;
   }
 
   /** Number of distinct pieces. */
@@ -162,11 +215,20 @@ public final class PieceCounts {
         c[k++] = counts[i];
       }
     }
-    return new PieceCounts(p, c);
+    return new PieceCounts(pipeline, p, c);
   }
 
-  /** The sum of this and {@code other}, piece by piece. */
+  /**
+   * The sum of this and {@code other}, piece by piece.
+   *
+   * @throws IllegalArgumentException if {@code other} was counted with another pipeline, naming both
+   */
   public PieceCounts plus(PieceCounts other) {
+    Objects.requireNonNull(other, "other");
+    if (!pipeline.equals(other.pipeline)) {
+      throw new IllegalArgumentException("cannot add piece counts of two pipelines: " + describe(pipeline)
+          + " and " + describe(other.pipeline));
+    }
     String[] p = new String[pieces.length + other.pieces.length];
     long[] c = new long[p.length];
     int i = 0;
@@ -185,22 +247,33 @@ public final class PieceCounts {
         c[n++] = Math.addExact(counts[i++], other.counts[j++]);
       }
     }
-    return new PieceCounts(Arrays.copyOf(p, n), Arrays.copyOf(c, n));
+    return new PieceCounts(pipeline, Arrays.copyOf(p, n), Arrays.copyOf(c, n));
   }
 
+  /**
+   * A pipeline as its two spec strings, {@code normalization 'nfc', splitting 'runs:…'}, for messages
+   * that must name a pipeline.
+   *
+   * @since 0.1.0
+   */
+  public static String describe(Pipeline pipeline) {
+    return "normalization '" + pipeline.normalization().spec() + "', splitting '" + pipeline.splitting().spec() + "'";
+  }
+
+  /** Equal when the pipelines, the pieces and their counts are equal. */
   @Override
   public boolean equals(Object o) {
-    return o instanceof PieceCounts && Arrays.equals(pieces, ((PieceCounts) o).pieces)
-        && Arrays.equals(counts, ((PieceCounts) o).counts);
+    return o instanceof PieceCounts && pipeline.equals(((PieceCounts) o).pipeline)
+        && Arrays.equals(pieces, ((PieceCounts) o).pieces) && Arrays.equals(counts, ((PieceCounts) o).counts);
   }
 
   @Override
   public int hashCode() {
-    return Arrays.hashCode(pieces) * 31 + Arrays.hashCode(counts);
+    return (pipeline.hashCode() * 31 + Arrays.hashCode(pieces)) * 31 + Arrays.hashCode(counts);
   }
 
   @Override
   public String toString() {
-    return "PieceCounts[" + pieces.length + " pieces, total " + total + "]";
+    return "PieceCounts[" + pieces.length + " pieces, total " + total + ", " + describe(pipeline) + "]";
   }
 }

@@ -102,7 +102,7 @@ class PieceCounterTest {
   @ValueSource(longs = {11, 12, 13})
   void whitespaceCountsEqualNaiveCounter(long seed) {
     List<String> texts = randomTexts(seed, 3_000, 60);
-    PieceCounts want = PieceCounts.of(naiveWhitespace(texts));
+    PieceCounts want = PieceCounts.of(noNormalization(Splitting.whitespace()), naiveWhitespace(texts));
     for (int threads : new int[] {1, 2, 3}) {
       assertEquals(want, counter(Splitting.whitespace(), threads).count(texts), "seed " + seed + " threads " + threads);
     }
@@ -113,7 +113,7 @@ class PieceCounterTest {
   @ValueSource(longs = {21, 22})
   void wholeTextCountsEqualNaiveCounter(long seed) {
     List<String> texts = randomTexts(seed, 2_000, 4); // short texts repeat often
-    PieceCounts want = PieceCounts.of(naiveWhole(texts));
+    PieceCounts want = PieceCounts.of(noNormalization(Splitting.none()), naiveWhole(texts));
     assertTrue(want.size() < texts.size(), "some texts repeat");
     assertEquals(want, counter(Splitting.none(), 1).count(texts));
     assertEquals(want, counter(Splitting.none(), 2).count(texts));
@@ -194,7 +194,7 @@ class PieceCounterTest {
       out.write(joined.getBytes(StandardCharsets.UTF_8));
     }
     PieceCounter c = counter(Splitting.whitespace(), 2);
-    PieceCounts want = PieceCounts.of(naiveWhitespace(lines));
+    PieceCounts want = PieceCounts.of(noNormalization(Splitting.whitespace()), naiveWhitespace(lines));
     assertEquals(want, c.countFiles(List.of(plain)));
     assertEquals(want, c.countFiles(List.of(gz)));
     assertEquals(want.plus(want), c.countFiles(List.of(plain, gz)));
@@ -235,5 +235,34 @@ class PieceCounterTest {
     assertTrue(m.getMessage().contains("maxDistinctPieces=0"), m.getMessage());
     assertEquals(PieceCounter.DEFAULT_MAX_DISTINCT_PIECES, PieceCounter.builder().build().maxDistinctPieces());
     assertNotEquals(0, PieceCounter.builder().build().threads());
+  }
+
+  /** The counts record the pipeline they were counted with, for files, iterables and streams. */
+  @Test
+  void countsRecordTheirPipeline() {
+    Pipeline folded = Pipeline.of(Normalization.parse("nfkc+casefold"), Splitting.whitespace());
+    List<String> texts = List.of("Harrowmere FERRY", "ﬁrst sailing");
+    PieceCounts counts = PieceCounter.builder().pipeline(folded).threads(2).build().count(texts);
+    assertEquals(folded, counts.pipeline());
+    assertEquals(1, counts.count("ferry"), "casefolded: " + counts);
+    assertEquals(1, counts.count("first"), "NFKC expands the ligature: " + counts);
+    assertEquals(folded, PieceCounter.builder().pipeline(folded).build().count(texts.stream()).pipeline());
+    assertEquals(Pipeline.defaults(), PieceCounter.builder().build().count(texts).pipeline());
+    assertEquals(folded, counts.withMinCount(2).pipeline());
+    assertEquals(folded, counts.plus(counts).pipeline());
+  }
+
+  /** Counts of two pipelines never add up silently: the message names both. */
+  @Test
+  void countsOfTwoPipelinesDoNotAddUp() {
+    Pipeline folded = Pipeline.of(Normalization.parse("nfkc+casefold"), Splitting.whitespace());
+    PieceCounts a = PieceCounts.of(folded, Map.of("ferry", 2));
+    PieceCounts b = PieceCounts.of(Map.of("ferry", 3));
+    IllegalArgumentException e = assertThrows(IllegalArgumentException.class, () -> a.plus(b));
+    assertTrue(e.getMessage().contains("'nfkc+casefold'") && e.getMessage().contains("'" + Pipeline.defaults().normalization().spec() + "'")
+        && e.getMessage().contains("'whitespace'") && e.getMessage().contains("'" + Pipeline.defaults().splitting().spec() + "'"),
+        e.getMessage());
+    assertNotEquals(a, PieceCounts.of(Map.of("ferry", 2)), "equal pieces of two pipelines are different counts");
+    assertEquals(PieceCounts.of(folded, Map.of("ferry", 4)), a.plus(a));
   }
 }
