@@ -11,4 +11,5 @@ module dev.morsel.tokenize.bpe {
   exports dev.morsel.tokenize.bpe;
 
   provides dev.morsel.tokenize.spi.SegmenterProvider with dev.morsel.tokenize.bpe.internal.BpeProvider;
+  provides dev.morsel.tokenize.train.LearnerProvider with dev.morsel.tokenize.bpe.internal.BpeLearnerProvider;
 }

@@ -11,4 +11,5 @@ module dev.morsel.tokenize.unigram {
   exports dev.morsel.tokenize.unigram;
 
   provides dev.morsel.tokenize.spi.SegmenterProvider with dev.morsel.tokenize.unigram.internal.UnigramProvider;
+  provides dev.morsel.tokenize.train.LearnerProvider with dev.morsel.tokenize.unigram.internal.UnigramLearnerProvider;
 }

@@ -11,4 +11,5 @@ module dev.morsel.tokenize.wordpiece {
   exports dev.morsel.tokenize.wordpiece;
 
   provides dev.morsel.tokenize.spi.SegmenterProvider with dev.morsel.tokenize.wordpiece.internal.WordPieceProvider;
+  provides dev.morsel.tokenize.train.LearnerProvider with dev.morsel.tokenize.wordpiece.internal.WordPieceLearnerProvider;
 }
