@@ -79,7 +79,7 @@ final class DemoCommand implements Callable<Integer> {
       long s0 = System.nanoTime();
       Tokenizer t;
       try (Progress progress = Progress.onTerminal()) {
-        t = Schemes.train(scheme, counts, pipeline, vocabularySize, List.of(), threads, progress);
+        t = Schemes.train(scheme, counts, vocabularySize, List.of(), threads, progress);
       }
       Path model = out.resolve(scheme + ".morsel");
       t.save(model);

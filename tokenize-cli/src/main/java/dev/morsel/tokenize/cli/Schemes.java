@@ -1,60 +1,50 @@
 package dev.morsel.tokenize.cli;
 
-import dev.morsel.tokenize.ReservedTokens;
-import dev.morsel.tokenize.Pipeline;
-import dev.morsel.tokenize.Template;
 import dev.morsel.tokenize.Tokenizer;
-import dev.morsel.tokenize.Tokenizers;
-import dev.morsel.tokenize.bpe.BpeSegmenter;
-import dev.morsel.tokenize.bpe.BpeLearner;
+import dev.morsel.tokenize.train.Learner;
+import dev.morsel.tokenize.train.LearnerOptions;
+import dev.morsel.tokenize.train.LearnerSettings;
+import dev.morsel.tokenize.train.Learners;
 import dev.morsel.tokenize.train.PieceCounts;
-import dev.morsel.tokenize.unigram.UnigramModel;
-import dev.morsel.tokenize.unigram.UnigramLearner;
-import dev.morsel.tokenize.wordpiece.WordPieceSegmenter;
-import dev.morsel.tokenize.wordpiece.WordPieceLearner;
 import dev.morsel.tokenize.train.TrainingListener;
 import java.util.List;
 
-/** Trains a tokenizer of a named scheme from piece counts: the one place that knows every trainer. */
+/**
+ * Trains a tokenizer of a named scheme from piece counts through the learner service interface
+ * ({@link Learners}): the tool knows no scheme by name, it lists and builds whatever segmenter
+ * modules are on its class path. Learner errors become usage errors naming the option.
+ */
 final class Schemes {
-  /** The scheme names, in the order reports list them. */
-  static final List<String> NAMES = List.of("bpe", "wordpiece", "unigram");
+  /** The scheme names found, in the order reports list them. */
+  static final List<String> NAMES = Learners.schemes();
 
   private Schemes() {}
 
   static void check(String scheme) {
     if (!NAMES.contains(scheme)) {
-      throw new Morsel.UsageException("unknown scheme '" + scheme + "'; choose one of " + NAMES);
+      throw new Morsel.UsageException("unknown scheme '" + scheme + "'; choose one of " + String.join(", ", NAMES));
     }
   }
 
-  /** Trains {@code scheme} to {@code vocabularySize} ids (reserved tokens included). */
-  static Tokenizer train(String scheme, PieceCounts counts, Pipeline pipeline, int vocabularySize, List<String> reserved,
-      int threads, TrainingListener listener) {
+  /**
+   * A learner of {@code scheme} to {@code vocabularySize} ids (reserved tokens included) with the
+   * scheme's {@code name=value} options, every setting checked now, before any counting.
+   */
+  static Learner learner(String scheme, int vocabularySize, List<String> reserved, List<String> options, int threads,
+      TrainingListener listener) {
     check(scheme);
-    switch (scheme) {
-      case "bpe": {
-        BpeSegmenter s = BpeLearner.builder().vocabularySize(vocabularySize).reservedTokens(reserved).threads(threads)
-            .listener(listener).build().train(counts);
-        return Tokenizers.of(pipeline, s, s.reservedTokens(), Template.none());
-      }
-      case "wordpiece": {
-        WordPieceSegmenter s = WordPieceLearner.builder().vocabularySize(vocabularySize).reservedTokens(reserved)
-            .listener(listener).build().train(counts);
-        return Tokenizers.of(pipeline, s, s.reservedTokens(), Template.none());
-      }
-      case "unigram": {
-        UnigramModel s = UnigramLearner.builder().vocabularySize(vocabularySize).reservedTokens(reserved).rawBytes(true)
-            .threads(threads).listener(listener).build().train(counts);
-        return Tokenizers.of(pipeline, s, s.reservedTokens(), Template.none());
-      }
-      default:
-        throw new Morsel.UsageException("unknown scheme '" + scheme + "'");
+    try {
+      LearnerSettings settings = LearnerSettings.of(vocabularySize).withReservedTokens(reserved).withThreads(threads)
+          .withListener(listener);
+      return Learners.learner(scheme, settings, LearnerOptions.parse(options));
+    } catch (IllegalArgumentException | NullPointerException e) {
+      throw new Morsel.UsageException(e.getMessage());
     }
   }
 
-  /** The reserved tokens of a trained tokenizer, for reports. */
-  static ReservedTokens reserved(Tokenizer t) {
-    return t.reservedTokens();
+  /** Trains {@code scheme} to {@code vocabularySize} ids with its default options. */
+  static Tokenizer train(String scheme, PieceCounts counts, int vocabularySize, List<String> reserved, int threads,
+      TrainingListener listener) {
+    return learner(scheme, vocabularySize, reserved, List.of(), threads, listener).train(counts);
   }
 }

@@ -81,7 +81,7 @@ final class Sweep {
       for (int size : sizes) {
         listener.progress("sweep", step, steps, scheme + " " + size);
         long t0 = System.nanoTime();
-        Tokenizer t = Schemes.train(scheme, counts, pipeline, size, List.of(), threads, TrainingListener.NONE);
+        Tokenizer t = Schemes.train(scheme, counts, size, List.of(), threads, TrainingListener.NONE);
         double trainSeconds = (System.nanoTime() - t0) / 1e9;
         double mbps = throughput(t, allHeld);
         boolean[] usedAll = new boolean[t.vocabularySize()];

@@ -5,6 +5,7 @@ import dev.morsel.tokenize.Tokenizer;
 import dev.morsel.tokenize.normalize.Normalization;
 import dev.morsel.tokenize.split.Splitting;
 import dev.morsel.tokenize.train.PieceCounter;
+import dev.morsel.tokenize.train.Learner;
 import dev.morsel.tokenize.train.PieceCounts;
 import java.io.BufferedReader;
 import java.io.InputStreamReader;
@@ -34,8 +35,14 @@ final class TrainCommand implements Callable<Integer> {
   @Parameters(paramLabel = "CORPUS", description = "Files, folders, globs, or - for standard input (default).")
   List<String> corpus = new ArrayList<>();
 
-  @Option(names = "--scheme", defaultValue = "bpe", description = "bpe, wordpiece or unigram (default: ${DEFAULT-VALUE}).")
+  @Option(names = "--scheme", defaultValue = "bpe",
+      description = "A scheme on the class path: ${COMPLETION-CANDIDATES} (default: ${DEFAULT-VALUE}; options: morsel schemes).",
+      completionCandidates = SchemesCommand.Names.class)
   String scheme;
+
+  @Option(names = "--option", paramLabel = "NAME=VALUE",
+      description = "A scheme option, for example min-pair-count=3 (repeatable; morsel schemes lists them with their defaults).")
+  List<String> options = new ArrayList<>();
 
   @Option(names = "--vocab-size", defaultValue = "8000", description = "Vocabulary size, reserved tokens included (default: ${DEFAULT-VALUE}).")
   int vocabularySize;
@@ -73,11 +80,12 @@ final class TrainCommand implements Callable<Integer> {
     long t0 = System.nanoTime();
     PieceCounts counts;
     try (Progress progress = Progress.onTerminal()) {
+      Learner learner = Schemes.learner(scheme, vocabularySize, reserved, options, threads, progress); // checked before counting
       PieceCounter counter = PieceCounter.builder().pipeline(pipeline).threads(threads).maxDistinctPieces(maxPieces)
           .listener(progress).build();
       counts = count(counter, corpus);
       long t1 = System.nanoTime();
-      Tokenizer t = Schemes.train(scheme, counts, pipeline, vocabularySize, reserved, threads, progress);
+      Tokenizer t = learner.train(counts);
       progress.close();
       Path parent = out.toAbsolutePath().getParent();
       if (parent != null) {

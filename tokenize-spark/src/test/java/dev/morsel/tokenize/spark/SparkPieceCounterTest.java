@@ -1,5 +1,6 @@
 package dev.morsel.tokenize.spark;
 
+import static org.junit.jupiter.api.Assertions.assertArrayEquals;
 import static org.junit.jupiter.api.Assertions.assertEquals;
 import static org.junit.jupiter.api.Assertions.assertFalse;
 import static org.junit.jupiter.api.Assertions.assertThrows;
@@ -209,9 +210,26 @@ class SparkPieceCounterTest {
   void aModelTrainedFromSparkCountsHasTheSingleJvmFingerprint(String scheme) {
     Pipeline p = Pipeline.defaults();
     // pieces seen once are left out on both sides (as a trainer's minimum count would) to keep training short
-    Tokenizer fromSpark = TestModels.train(scheme, sparkAll.counts().withMinCount(2), p, 800, List.of(TestModels.DOCK));
-    Tokenizer fromSingle = TestModels.train(scheme, singleAll.withMinCount(2), p, 800, List.of(TestModels.DOCK));
+    Tokenizer fromSpark = TestModels.train(scheme, sparkAll.counts().withMinCount(2), 800, List.of(TestModels.DOCK));
+    Tokenizer fromSingle = TestModels.train(scheme, singleAll.withMinCount(2), 800, List.of(TestModels.DOCK));
     assertEquals(fromSingle.fingerprint(), fromSpark.fingerprint(), scheme);
+    assertEquals(p, fromSpark.pipeline());
+  }
+
+  /**
+   * Counts from Spark carry the pipeline they were counted with, so the tokenizer learned from them
+   * encodes through it: here NFKC with case folding, never the default NFC.
+   */
+  @ParameterizedTest
+  @MethodSource("dev.morsel.tokenize.spark.TestModels#schemes")
+  void aTokenizerLearnedFromSparkCountsEncodesWithTheirPipeline(String scheme) {
+    Pipeline folded = Pipeline.of(Normalization.parse("nfkc+casefold"), Splitting.runs());
+    PieceCounts counts = SparkPieceCounter.builder().pipeline(folded).minCount(2).build()
+        .count(LocalSpark.strings(Europarl.bodies().subList(0, SUBSET)));
+    assertEquals(folded, counts.pipeline());
+    Tokenizer t = TestModels.train(scheme, counts, 800, List.of());
+    assertEquals(folded, t.pipeline(), scheme);
+    assertArrayEquals(t.encode("the ferry").ids(), t.encode("THE \uff26ERRY").ids(), "folded and NFKC-mapped as counted");
   }
 
   @Test
