@@ -3,6 +3,7 @@
  * normalization, splitting, reserved tokens, framing, and the model file container.
  * Segmenters plug in through {@link dev.morsel.tokenize.spi.SegmenterProvider}.
  */
+@SuppressWarnings("module") // the segmenter modules named in the qualified export are compiled after this one
 module dev.morsel.tokenize {
   requires transitive com.ibm.icu;
   requires it.unimi.dsi.fastutil.core;
@@ -12,6 +13,8 @@ module dev.morsel.tokenize {
   exports dev.morsel.tokenize.split;
   exports dev.morsel.tokenize.format;
   exports dev.morsel.tokenize.spi;
+  // helpers the segmenter modules share; not API, so exported to them alone
+  exports dev.morsel.tokenize.internal to dev.morsel.tokenize.bpe, dev.morsel.tokenize.wordpiece, dev.morsel.tokenize.unigram;
 
   uses dev.morsel.tokenize.spi.SegmenterProvider;
 }

@@ -41,9 +41,17 @@ public final class Tokenizers {
     return of(Pipeline.defaults(), segmenter);
   }
 
-  /** A tokenizer with the given pipeline, the segmenter's own reserved tokens and no framing. */
+  /**
+   * A tokenizer with the given pipeline, the segmenter's own reserved tokens ({@link
+   * Segmenter#reservedSpellings()} at ids {@code 0..k-1}) and no framing.
+   */
   public static Tokenizer of(Pipeline pipeline, Segmenter segmenter) {
-    return of(pipeline, segmenter, segmenter.reservedTokens(), Template.none());
+    List<String> spellings = segmenter.reservedSpellings();
+    ReservedTokens.Builder b = ReservedTokens.builder();
+    for (int i = 0; i < spellings.size(); i++) {
+      b.add(spellings.get(i), i);
+    }
+    return of(pipeline, segmenter, b.build(), Template.none());
   }
 
   /** Loads a model file, validating it fully before building anything. */

@@ -3,6 +3,7 @@ package dev.morsel.tokenize.modules;
 import static org.junit.jupiter.api.Assertions.assertEquals;
 
 import dev.morsel.tokenize.testkit.ModuleChecks;
+import dev.morsel.tokenize.testkit.PackageGraph;
 import java.lang.module.ModuleDescriptor;
 import java.util.Set;
 import java.util.TreeSet;
@@ -33,5 +34,13 @@ class ModuleDescriptorTest {
         .filter(r -> r.modifiers().contains(ModuleDescriptor.Requires.Modifier.TRANSITIVE))
         .map(ModuleDescriptor.Requires::name).collect(Collectors.toCollection(TreeSet::new));
     assertEquals(Set.of("dev.morsel.tokenize"), transitive);
+  }
+
+  /** No package cycle, and other modules' classes only from the packages they export to this one ({@link PackageGraph}). */
+  @Test
+  void packagesFormNoCycleAndUseOnlyExportedPackages() {
+    PackageGraph g = PackageGraph.ofModuleUnderTest();
+    g.assertNoPackageCycles();
+    g.assertUsesOnlyExportedPackages("dev.morsel.tokenize.train");
   }
 }

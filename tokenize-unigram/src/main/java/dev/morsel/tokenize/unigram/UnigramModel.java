@@ -81,8 +81,16 @@ public interface UnigramModel extends Segmenter {
     return out;
   }
 
-  /** The reserved tokens: ids {@code 0..reservedCount()-1} bound to their spellings. */
   @Override
+  default List<String> reservedSpellings() {
+    List<String> out = new java.util.ArrayList<>(reservedCount());
+    for (int i = 0; i < reservedCount(); i++) {
+      out.add(token(i));
+    }
+    return out;
+  }
+
+  /** The reserved tokens: ids {@code 0..reservedCount()-1} bound to their spellings. */
   default dev.morsel.tokenize.ReservedTokens reservedTokens() {
     dev.morsel.tokenize.ReservedTokens.Builder b = dev.morsel.tokenize.ReservedTokens.builder();
     for (int i = 0; i < reservedCount(); i++) {

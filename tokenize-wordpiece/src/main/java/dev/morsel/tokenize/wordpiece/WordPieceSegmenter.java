@@ -1,6 +1,6 @@
 package dev.morsel.tokenize.wordpiece;
 
-import dev.morsel.tokenize.spi.PieceTable;
+import dev.morsel.tokenize.internal.PieceTable;
 import dev.morsel.tokenize.format.ModelFormatException;
 import dev.morsel.tokenize.format.ModelSections;
 import dev.morsel.tokenize.format.ModelWriter;
@@ -290,8 +290,12 @@ public final class WordPieceSegmenter implements Segmenter {
     return reservedCount;
   }
 
-  /** The reserved tokens: ids {@code 0..reservedCount-1} bound to their spellings, for assembling a tokenizer. */
   @Override
+  public List<String> reservedSpellings() {
+    return List.of(spellings).subList(0, reservedCount);
+  }
+
+  /** The reserved tokens: ids {@code 0..reservedCount-1} bound to their spellings, for assembling a tokenizer. */
   public dev.morsel.tokenize.ReservedTokens reservedTokens() {
     dev.morsel.tokenize.ReservedTokens.Builder b = dev.morsel.tokenize.ReservedTokens.builder();
     for (int i = 0; i < reservedCount; i++) {

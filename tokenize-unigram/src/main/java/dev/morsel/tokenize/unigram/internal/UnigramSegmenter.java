@@ -3,7 +3,7 @@ package dev.morsel.tokenize.unigram.internal;
 import dev.morsel.tokenize.format.ModelWriter;
 import dev.morsel.tokenize.format.SectionWriter;
 import dev.morsel.tokenize.spi.ByteSink;
-import dev.morsel.tokenize.spi.PieceTable;
+import dev.morsel.tokenize.internal.PieceTable;
 import dev.morsel.tokenize.spi.TokenSink;
 import dev.morsel.tokenize.unigram.Segmentation;
 import dev.morsel.tokenize.unigram.UnigramModel;

@@ -1,4 +1,4 @@
-package dev.morsel.tokenize.spi;
+package dev.morsel.tokenize.internal;
 
 /**
  * A read-only table from whole pieces (strings of at most {@link #MAX_CHARS} UTF-16 units) to the one

@@ -1,4 +1,4 @@
-package dev.morsel.tokenize.spi;
+package dev.morsel.tokenize.internal;
 
 import static org.junit.jupiter.api.Assertions.assertEquals;
 
