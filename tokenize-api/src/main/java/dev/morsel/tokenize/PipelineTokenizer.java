@@ -4,6 +4,7 @@ import dev.morsel.tokenize.format.ModelFile;
 import dev.morsel.tokenize.format.ModelWriter;
 import dev.morsel.tokenize.format.SectionWriter;
 import dev.morsel.tokenize.normalize.NormalizedText;
+import dev.morsel.tokenize.spi.PieceSegmentation;
 import dev.morsel.tokenize.spi.Segmenter;
 import dev.morsel.tokenize.spi.TokenSink;
 import dev.morsel.tokenize.split.PieceSink;
@@ -233,6 +234,24 @@ final class PipelineTokenizer implements Tokenizer {
       }
     }
     return out;
+  }
+
+  /** Like {@link #encode(CharSequence, Trust)}, each piece segmented by {@code how}. */
+  Tokens encodeWith(CharSequence text, Trust trust, PieceSegmentation how) {
+    limits.checkText(text, "text");
+    Objects.requireNonNull(trust, "trust");
+    Objects.requireNonNull(how, "how");
+    Scratch s = scratch();
+    s.how = how;
+    try {
+      Tokens.Builder b = s.builder;
+      frame(b, beginIds, 0, 0);
+      content(s, text, trust, 0);
+      frame(b, endIds, text.length(), 0);
+      return b.build();
+    } finally {
+      s.how = null;
+    }
   }
 
   @Override
@@ -496,6 +515,7 @@ final class PipelineTokenizer implements Tokenizer {
     int segment;
     boolean counting; // count() only: tokens are counted, not mapped or stored
     int counted;
+    PieceSegmentation how; // encodeWith() only: segments each piece instead of the segmenter
 
     final TokenSink tokenSink = (id, start, end) -> {
       if (counting) {
@@ -511,7 +531,12 @@ final class PipelineTokenizer implements Tokenizer {
         NormalizedText n = norm;
         limits.throwPieceTooLong(end - start, n.spanStart(start), n.spanEnd(end));
       }
-      segmenter.segment(normalized, start, end, tokenSink);
+      PieceSegmentation h = how;
+      if (h == null) {
+        segmenter.segment(normalized, start, end, tokenSink);
+      } else {
+        h.segment(segmenter, normalized, start, end, tokenSink);
+      }
     };
 
   }

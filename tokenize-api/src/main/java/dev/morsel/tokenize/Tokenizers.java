@@ -5,6 +5,7 @@ import dev.morsel.tokenize.format.ModelFormatException;
 import dev.morsel.tokenize.format.ModelSections;
 import dev.morsel.tokenize.format.SectionReader;
 import dev.morsel.tokenize.normalize.Normalization;
+import dev.morsel.tokenize.spi.PieceSegmentation;
 import dev.morsel.tokenize.spi.Segmenter;
 import dev.morsel.tokenize.spi.SegmenterProvider;
 import dev.morsel.tokenize.split.Splitting;
@@ -14,6 +15,7 @@ import java.util.ArrayList;
 import java.util.Collections;
 import java.util.List;
 import java.util.Map;
+import java.util.Objects;
 import java.util.ServiceLoader;
 import java.util.Set;
 import java.util.TreeMap;
@@ -98,6 +100,35 @@ public final class Tokenizers {
       providers = p;
     }
     return p;
+  }
+
+  /**
+   * The segmenter of a tokenizer made by this class (for a segmenter module's own extra features, or
+   * to assemble it with another pipeline on purpose).
+   *
+   * @throws IllegalArgumentException if {@code tokenizer} was not made by this class
+   */
+  public static Segmenter segmenterOf(Tokenizer tokenizer) {
+    return pipelineTokenizer(tokenizer).segmenter();
+  }
+
+  /**
+   * Encodes {@code text} like {@link Tokenizer#encode(CharSequence, Trust)} — reserved-token scan,
+   * normalization, splitting, framing, offsets into the original text — but with every piece
+   * segmented by {@code how} instead of the segmenter's own {@link Segmenter#segment}. The hook for a
+   * segmenter module's extra ways of encoding a loaded tokenizer (sampling, n-best lists).
+   *
+   * @throws IllegalArgumentException if {@code tokenizer} was not made by this class
+   */
+  public static Tokens encodeWith(Tokenizer tokenizer, CharSequence text, Trust trust, PieceSegmentation how) {
+    return pipelineTokenizer(tokenizer).encodeWith(text, trust, how);
+  }
+
+  private static PipelineTokenizer pipelineTokenizer(Tokenizer tokenizer) {
+    if (!(Objects.requireNonNull(tokenizer, "tokenizer") instanceof PipelineTokenizer)) {
+      throw new IllegalArgumentException("not a tokenizer made by Tokenizers: " + tokenizer.getClass().getName());
+    }
+    return (PipelineTokenizer) tokenizer;
   }
 
   /**

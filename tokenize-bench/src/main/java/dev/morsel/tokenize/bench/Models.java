@@ -13,7 +13,6 @@ import dev.morsel.tokenize.train.LearnerSettings;
 import dev.morsel.tokenize.train.Learners;
 import dev.morsel.tokenize.train.PieceCounter;
 import dev.morsel.tokenize.train.PieceCounts;
-import dev.morsel.tokenize.unigram.UnigramModel;
 import dev.morsel.tokenize.wordpiece.WordPieceSegmenter;
 import java.io.IOException;
 import java.io.UncheckedIOException;
@@ -111,9 +110,9 @@ public final class Models {
     });
   }
 
-  /** The 32k unigram segmenter itself. */
-  public static UnigramModel unigramSegmenter() {
-    return (UnigramModel) Tokenizers.segmenterOf(ModelFile.read(unigramFile()));
+  /** The 32k unigram tokenizer. */
+  public static Tokenizer unigram() {
+    return Tokenizers.load(unigramFile());
   }
 
   /** The sum of the heap memory pools' peak usage since the JVM started, in bytes. */

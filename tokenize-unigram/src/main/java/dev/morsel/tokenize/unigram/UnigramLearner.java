@@ -1,24 +1,30 @@
 package dev.morsel.tokenize.unigram;
 
+import dev.morsel.tokenize.Tokenizer;
+import dev.morsel.tokenize.train.Learner;
 import dev.morsel.tokenize.train.PieceCounts;
 import dev.morsel.tokenize.train.TrainingListener;
 import dev.morsel.tokenize.unigram.internal.Training;
+import dev.morsel.tokenize.unigram.internal.UnigramSegmenter;
 import java.util.List;
 import java.util.Objects;
 
 /**
- * Trains a {@link UnigramModel} from piece counts [1, section 3.2]: a seed vocabulary of frequent
+ * Learns a unigram language model [1, section 3.2] from piece counts: a seed vocabulary of frequent
  * substrings, then rounds of EM [2] and likelihood-based pruning until the vocabulary size is
- * reached. Immutable and thread-safe; {@link #train} may run concurrently.
+ * reached. Immutable and thread-safe; {@link #train} may run concurrently and returns a tokenizer
+ * bound to the pipeline of the counts. {@link Unigram} reaches the model's n-best lists and sampling
+ * from that tokenizer, or from one loaded from a model file.
  *
  * <p>Deterministic: there are no random choices; rankings break ties by score, then by token
  * string; EM adds partial sums in a fixed order, so the result does not depend on the thread count.
  * Pieces holding an unpaired surrogate, and pieces longer than {@code maxPieceLength} (default
- * {@value #DEFAULT_MAX_PIECE_LENGTH} UTF-16 units), are not learned from. Progress is reported to the listener
- * under the stages {@code "seed"}, {@code "em"} and {@code "prune"}.
+ * {@value #DEFAULT_MAX_PIECE_LENGTH} UTF-16 units), are not learned from. Progress is reported to the
+ * listener under the stages {@code "seed"}, {@code "em"} and {@code "prune"}.
  *
  * <pre>{@code
- * UnigramModel model = UnigramLearner.builder().vocabularySize(4000).rawBytes(true).build().train(counts);
+ * Tokenizer unigram = UnigramLearner.builder().vocabularySize(4000).build().train(counts);
+ * List<Segmentation> best = Unigram.nBest(unigram, "Harrowmere ferry", 4);
  * }</pre>
  *
  * <p>References: [1] Kudo (2018), "Subword Regularization", ACL 2018. [2] Dempster, Laird, Rubin
@@ -26,17 +32,18 @@ import java.util.Objects;
  *
  * @since 0.1.0
  */
-public final class UnigramLearner {
-  /**
-   * Default of {@link Builder#maxPieceLength}, in UTF-16 units (reason: far above any word of prose;
-   * a longer piece is a run without breaks, whose every substring the seed stage would count).
-   */
-  public static final int DEFAULT_MAX_PIECE_LENGTH = 4096;
+public final class UnigramLearner implements Learner {
+  /** Default {@code vocabularySize}, in ids. */
+  public static final int DEFAULT_VOCABULARY_SIZE = Training.DEFAULT_VOCABULARY_SIZE;
+  /** Default {@code maxPieceLength}, in UTF-16 units (far above any word of prose). */
+  public static final int DEFAULT_MAX_PIECE_LENGTH = Training.DEFAULT_MAX_PIECE_LENGTH;
+  /** Default spelling of the unknown token. */
+  public static final String DEFAULT_UNKNOWN_TOKEN = UnigramSegmenter.DEFAULT_UNKNOWN;
 
-  private final Builder b;
+  private final Training training;
 
-  private UnigramLearner(Builder b) {
-    this.b = b.copy();
+  private UnigramLearner(Training training) {
+    this.training = training;
   }
 
   /** A builder with the documented defaults. */
@@ -44,61 +51,58 @@ public final class UnigramLearner {
     return new Builder();
   }
 
-  /**
-   * Trains on {@code counts}, weighted by count.
-   *
-   * @throws IllegalArgumentException if {@code counts} is empty or no piece is left to learn from
-   *     (all longer than {@code maxPieceLength} or holding an unpaired surrogate), if
-   *     {@code vocabularySize} is smaller than the reserved ids plus the alphabet (every distinct
-   *     character of the pieces), or if a substring's count summed over the pieces overflows a long
-   */
-  public UnigramModel train(PieceCounts counts) {
-    Objects.requireNonNull(counts, "counts");
-    return new Training(b.vocabularySize, b.seedFactor, b.maxTokenLength, b.shrinkFactor, b.emIterations,
-        b.rawBytes, b.reservedTokens, b.unknownToken, b.threads, b.seedTableLimit, b.maxPieceLength, b.listener).train(counts);
+  @Override
+  public String scheme() {
+    return Unigram.KIND;
   }
 
   /**
-   * Settings for a {@link UnigramLearner}. Not thread-safe.
+   * Learns from {@code counts}, weighted by count; the tokenizer encodes with {@link
+   * PieceCounts#pipeline()} and holds the reserved tokens at ids {@code 0..k-1}.
+   *
+   * @throws IllegalArgumentException if {@code counts} is empty or no piece is left to learn from
+   *     (below {@code minCount}, longer than {@code maxPieceLength} or holding an unpaired
+   *     surrogate), if {@code vocabularySize} is smaller than the reserved ids plus the alphabet
+   *     (every distinct character of the pieces), or if a substring's count summed over the pieces
+   *     overflows a long
+   */
+  @Override
+  public Tokenizer train(PieceCounts counts) {
+    return training.train(counts);
+  }
+
+  /**
+   * Settings for a {@link UnigramLearner}; every setting is checked at {@link #build()}. Not
+   * thread-safe.
    *
    * @since 0.1.0
    */
   public static final class Builder {
-    private int vocabularySize = 8000;
-    private int seedFactor = 8;
-    private int maxTokenLength = 16;
-    private double shrinkFactor = 0.75;
-    private int emIterations = 2;
-    private boolean rawBytes;
+    private int vocabularySize = DEFAULT_VOCABULARY_SIZE;
+    private long minCount = 1;
+    private int seedFactor = Training.DEFAULT_SEED_FACTOR;
+    private int maxTokenLength = Training.DEFAULT_MAX_TOKEN_LENGTH;
+    private double shrinkFactor = Training.DEFAULT_SHRINK_FACTOR;
+    private int emIterations = Training.DEFAULT_EM_ITERATIONS;
+    private boolean rawBytes = Training.DEFAULT_RAW_BYTES;
     private List<String> reservedTokens = List.of();
-    private String unknownToken = UnigramModel.DEFAULT_UNKNOWN;
-    private int threads = Math.max(1, Runtime.getRuntime().availableProcessors());
-    private int seedTableLimit = 1_000_000;
+    private String unknownToken = DEFAULT_UNKNOWN_TOKEN;
+    private int threads = Math.max(1, Math.min(Training.MAX_THREADS, Runtime.getRuntime().availableProcessors()));
+    private int seedTableLimit = Training.DEFAULT_SEED_TABLE_LIMIT;
     private int maxPieceLength = DEFAULT_MAX_PIECE_LENGTH;
     private TrainingListener listener = TrainingListener.NONE;
 
     private Builder() {}
 
-    private Builder copy() {
-      Builder c = new Builder();
-      c.vocabularySize = vocabularySize;
-      c.seedFactor = seedFactor;
-      c.maxTokenLength = maxTokenLength;
-      c.shrinkFactor = shrinkFactor;
-      c.emIterations = emIterations;
-      c.rawBytes = rawBytes;
-      c.reservedTokens = reservedTokens;
-      c.unknownToken = unknownToken;
-      c.threads = threads;
-      c.seedTableLimit = seedTableLimit;
-      c.maxPieceLength = maxPieceLength;
-      c.listener = listener;
-      return c;
+    /** Total ids of the learned model (reserved, byte and unknown tokens and pieces). Default 8000. */
+    public Builder vocabularySize(int size) {
+      this.vocabularySize = size;
+      return this;
     }
 
-    /** Total ids of the trained model (reserved, byte and unknown tokens and pieces). Default 8000. */
-    public Builder vocabularySize(int size) {
-      this.vocabularySize = check("vocabularySize", size, 1, Integer.MAX_VALUE - 8);
+    /** Pieces counted fewer times are not learned from (at least 1). Default 1. */
+    public Builder minCount(long count) {
+      this.minCount = count;
       return this;
     }
 
@@ -107,64 +111,55 @@ public final class UnigramLearner {
      * multi-character substrings, so pruning has room to choose. Default 8, range 1..1000.
      */
     public Builder seedFactor(int factor) {
-      this.seedFactor = check("seedFactor", factor, 1, 1000);
+      this.seedFactor = factor;
       return this;
     }
 
     /** Longest token learned, in code points. Default 16, range 1..64. */
     public Builder maxTokenLength(int length) {
-      this.maxTokenLength = check("maxTokenLength", length, 1, 64);
+      this.maxTokenLength = length;
       return this;
     }
 
     /** Fraction of the vocabulary kept by each pruning round [1]. Default 0.75, range (0, 1). */
     public Builder shrinkFactor(double factor) {
-      if (!(factor > 0 && factor < 1)) {
-        throw new IllegalArgumentException("shrinkFactor=" + factor + " is outside (0, 1)");
-      }
       this.shrinkFactor = factor;
       return this;
     }
 
     /** EM iterations before each pruning round and at the end. Default 2, range 1..100. */
     public Builder emIterations(int iterations) {
-      this.emIterations = check("emIterations", iterations, 1, 100);
+      this.emIterations = iterations;
       return this;
     }
 
     /**
      * Whether the model gets 256 byte tokens so a character outside the vocabulary encodes as its
-     * UTF-8 bytes instead of the unknown token. Default off.
+     * UTF-8 bytes instead of the unknown token. Default on: no text is lost.
      */
     public Builder rawBytes(boolean on) {
       this.rawBytes = on;
       return this;
     }
 
-    /** Reserved tokens, given ids {@code 0..k-1}, distinct and non-empty. Default none. */
+    /**
+     * Reserved token spellings, given ids {@code 0..k-1} in this order; checked at {@link #build()}
+     * by the rules of {@link dev.morsel.tokenize.ReservedTokens.Builder}. Default none.
+     */
     public Builder reservedTokens(List<String> tokens) {
-      List<String> copy = List.copyOf(tokens);
-      for (int i = 0; i < copy.size(); i++) {
-        if (copy.get(i).isEmpty() || copy.indexOf(copy.get(i)) != i) {
-          throw new IllegalArgumentException("reserved token " + i + " '" + copy.get(i) + "' is empty or repeated");
-        }
-      }
-      this.reservedTokens = copy;
+      this.reservedTokens = Objects.requireNonNull(tokens, "reservedTokens");
       return this;
     }
 
-    /** Spelling of the unknown token. Default {@link UnigramModel#DEFAULT_UNKNOWN}. */
+    /** Spelling of the unknown token. Default {@link #DEFAULT_UNKNOWN_TOKEN}. */
     public Builder unknownToken(String spelling) {
-      if (spelling == null || spelling.isEmpty()) {
-        throw new IllegalArgumentException("unknownToken must be a non-empty string");
-      }
       this.unknownToken = spelling;
       return this;
     }
 
     /** Threads for the E-step. Default: available processors; range 1..256. */
     public Builder threads(int threads) {
-      this.threads = check("threads", threads, 1, 256);
+      this.threads = threads;
       return this;
     }
 
@@ -173,7 +168,7 @@ public final class UnigramLearner {
      * entry). Default 1,000,000, range 1,000..100,000,000.
      */
     public Builder seedTableLimit(int entries) {
-      this.seedTableLimit = check("seedTableLimit", entries, 1000, 100_000_000);
+      this.seedTableLimit = entries;
       return this;
     }
 
@@ -182,7 +177,7 @@ public final class UnigramLearner {
      * of training. Default {@value UnigramLearner#DEFAULT_MAX_PIECE_LENGTH}, range 1..2^26.
      */
     public Builder maxPieceLength(int length) {
-      this.maxPieceLength = check("maxPieceLength", length, 1, 1 << 26);
+      this.maxPieceLength = length;
       return this;
     }
 
@@ -192,16 +187,16 @@ public final class UnigramLearner {
       return this;
     }
 
-    /** The trainer. */
+    /**
+     * The learner.
+     *
+     * @throws IllegalArgumentException naming the setting that is out of range, or the reserved token
+     *     (by index) that breaks a rule or equals the unknown token's spelling
+     * @throws NullPointerException naming a reserved token (by index) or the unknown token that is null
+     */
     public UnigramLearner build() {
-      return new UnigramLearner(this);
-    }
-
-    private static int check(String name, int v, int min, int max) {
-      if (v < min || v > max) {
-        throw new IllegalArgumentException(name + "=" + v + " is outside [" + min + ", " + max + "]");
-      }
-      return v;
+      return new UnigramLearner(new Training(vocabularySize, seedFactor, maxTokenLength, shrinkFactor, emIterations,
+          rawBytes, reservedTokens, unknownToken, threads, seedTableLimit, maxPieceLength, minCount, listener));
     }
   }
 }

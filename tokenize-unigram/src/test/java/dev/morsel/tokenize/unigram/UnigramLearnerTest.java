@@ -1,5 +1,6 @@
 package dev.morsel.tokenize.unigram;
 
+import dev.morsel.tokenize.unigram.internal.UnigramSegmenter;
 import static org.junit.jupiter.api.Assertions.assertArrayEquals;
 import static org.junit.jupiter.api.Assertions.assertEquals;
 import static org.junit.jupiter.api.Assertions.assertThrows;
@@ -36,14 +37,14 @@ class UnigramLearnerTest {
   }
 
   private static UnigramLearner.Builder small() {
-    return UnigramLearner.builder().vocabularySize(120).seedFactor(4).maxTokenLength(10);
+    return UnigramLearner.builder().vocabularySize(120).seedFactor(4).maxTokenLength(10).rawBytes(false);
   }
 
   @Test
   void resultDoesNotDependOnTheThreadCount() {
     PieceCounts c = corpus(11, 400);
-    UnigramModel one = small().threads(1).build().train(c);
-    UnigramModel two = small().threads(3).build().train(c);
+    UnigramSegmenter one = UnigramSegmenter.of(small().threads(1).build().train(c));
+    UnigramSegmenter two = UnigramSegmenter.of(small().threads(3).build().train(c));
     assertEquals(one.vocabularySize(), two.vocabularySize());
     for (int id = 0; id < one.vocabularySize(); id++) {
       assertEquals(one.token(id), two.token(id), "id " + id);
@@ -53,7 +54,7 @@ class UnigramLearnerTest {
 
   @Test
   void reachesTheVocabularySizeAndLearnsFrequentWords() {
-    UnigramModel m = small().reservedTokens(List.of("\u00a7aboard")).build().train(corpus(3, 500));
+    UnigramSegmenter m = UnigramSegmenter.of(small().reservedTokens(List.of("\u00a7aboard")).build().train(corpus(3, 500)));
     assertEquals(120, m.vocabularySize());
     assertEquals(0, m.id("\u00a7aboard"));
     assertEquals(1, m.unknownId());
@@ -75,7 +76,7 @@ class UnigramLearnerTest {
 
   @Test
   void segmentsTrainingTextIntoFewTokens() {
-    UnigramModel m = small().vocabularySize(300).build().train(corpus(5, 600));
+    UnigramSegmenter m = UnigramSegmenter.of(small().vocabularySize(300).build().train(corpus(5, 600)));
     String text = " ferry";
     List<Integer> ids = new ArrayList<>();
     m.segment(text, 0, text.length(), (id, s, e) -> ids.add(id));
@@ -86,25 +87,28 @@ class UnigramLearnerTest {
   void badInputIsRejected() {
     assertThrows(IllegalArgumentException.class, () -> small().build().train(PieceCounts.empty()));
     IllegalArgumentException e = assertThrows(IllegalArgumentException.class,
-        () -> UnigramLearner.builder().vocabularySize(10).build().train(corpus(1, 50)));
+        () -> UnigramLearner.builder().vocabularySize(10).rawBytes(false).build().train(corpus(1, 50)));
     assertTrue(e.getMessage().contains("vocabularySize=10") && e.getMessage().contains("alphabet"), e.getMessage());
     e = assertThrows(IllegalArgumentException.class,
-        () -> UnigramLearner.builder().vocabularySize(200).rawBytes(true).build().train(corpus(1, 50)));
-    assertTrue(e.getMessage().contains("256 byte tokens"), e.getMessage());
-    assertThrows(IllegalArgumentException.class, () -> UnigramLearner.builder().shrinkFactor(1.0));
-    assertThrows(IllegalArgumentException.class, () -> UnigramLearner.builder().shrinkFactor(0));
-    assertThrows(IllegalArgumentException.class, () -> UnigramLearner.builder().vocabularySize(0));
-    assertThrows(IllegalArgumentException.class, () -> UnigramLearner.builder().maxTokenLength(0));
-    assertThrows(IllegalArgumentException.class, () -> UnigramLearner.builder().emIterations(0));
-    assertThrows(IllegalArgumentException.class, () -> UnigramLearner.builder().threads(0));
-    assertThrows(IllegalArgumentException.class, () -> UnigramLearner.builder().reservedTokens(List.of("a", "a")));
-    assertThrows(IllegalArgumentException.class, () -> UnigramLearner.builder().unknownToken(""));
+        () -> UnigramLearner.builder().vocabularySize(200).rawBytes(true).build());
+    assertTrue(e.getMessage().contains("256 byte tokens"), "refused when built, before any learning: " + e.getMessage());
+    e = assertThrows(IllegalArgumentException.class,
+        () -> UnigramLearner.builder().vocabularySize(262).build().train(corpus(1, 50)));
+    assertTrue(e.getMessage().contains("256 byte tokens") && e.getMessage().contains("alphabet"), e.getMessage());
+    assertThrows(IllegalArgumentException.class, () -> UnigramLearner.builder().shrinkFactor(1.0).build());
+    assertThrows(IllegalArgumentException.class, () -> UnigramLearner.builder().shrinkFactor(0).build());
+    assertThrows(IllegalArgumentException.class, () -> UnigramLearner.builder().vocabularySize(0).build());
+    assertThrows(IllegalArgumentException.class, () -> UnigramLearner.builder().maxTokenLength(0).build());
+    assertThrows(IllegalArgumentException.class, () -> UnigramLearner.builder().emIterations(0).build());
+    assertThrows(IllegalArgumentException.class, () -> UnigramLearner.builder().threads(0).build());
+    assertThrows(IllegalArgumentException.class, () -> UnigramLearner.builder().reservedTokens(List.of("a", "a")).build());
+    assertThrows(IllegalArgumentException.class, () -> UnigramLearner.builder().unknownToken("").build());
   }
 
   @Test
   void rawBytesModelHasByteTokensAfterReservedTokens() {
-    UnigramModel m = small().vocabularySize(400).rawBytes(true).reservedTokens(List.of("\u00a7a", "\u00a7b"))
-        .build().train(corpus(8, 200));
+    UnigramSegmenter m = UnigramSegmenter.of(small().vocabularySize(400).rawBytes(true)
+        .reservedTokens(List.of("\u00a7a", "\u00a7b")).build().train(corpus(8, 200)));
     assertEquals(400, m.vocabularySize());
     assertEquals(2, m.firstByteId());
     assertEquals(2 + 256, m.unknownId());
@@ -116,7 +120,7 @@ class UnigramLearnerTest {
 
   @Test
   void seedTableLimitBoundsMemoryAndStillTrains() {
-    UnigramModel m = small().seedTableLimit(1000).build().train(corpus(4, 300));
+    UnigramSegmenter m = UnigramSegmenter.of(small().seedTableLimit(1000).build().train(corpus(4, 300)));
     assertEquals(120, m.vocabularySize());
   }
 }

@@ -1,14 +1,18 @@
 package dev.morsel.tokenize.unigram.internal;
 
+import dev.morsel.tokenize.Tokenizer;
+import dev.morsel.tokenize.Tokenizers;
+import dev.morsel.tokenize.train.Learner;
+import dev.morsel.tokenize.train.LearnerSettings;
 import dev.morsel.tokenize.train.PieceCounts;
 import dev.morsel.tokenize.train.TrainingListener;
-import dev.morsel.tokenize.unigram.UnigramModel;
 import it.unimi.dsi.fastutil.ints.IntArrays;
 import it.unimi.dsi.fastutil.ints.IntOpenHashSet;
 import java.util.ArrayList;
 import java.util.Arrays;
 import java.util.HashSet;
 import java.util.List;
+import java.util.Objects;
 import java.util.Set;
 import java.util.concurrent.ExecutorService;
 import java.util.concurrent.Executors;
@@ -24,9 +28,34 @@ import java.util.concurrent.Executors;
  * highest loss are kept, {@code shrinkFactor} of the vocabulary per round; single characters always
  * stay so every piece stays covered.
  *
+ * <p>Every setting is checked when the training is made (so by {@code UnigramLearner.Builder.build()}
+ * and by the learner provider alike), each refusal naming the setting.
+ *
  * <p>References: [1] Kudo (2018), "Subword Regularization", ACL 2018.
  */
-public final class Training {
+public final class Training implements Learner {
+  /** Default vocabulary size, in ids. */
+  public static final int DEFAULT_VOCABULARY_SIZE = 8000;
+  /** Default seed factor: a plain multiple of the pieces wanted. */
+  public static final int DEFAULT_SEED_FACTOR = 8;
+  /** Default longest token, in code points. */
+  public static final int DEFAULT_MAX_TOKEN_LENGTH = 16;
+  /** Default share of the vocabulary each pruning round keeps. */
+  public static final double DEFAULT_SHRINK_FACTOR = 0.75;
+  /** Default EM iterations per round. */
+  public static final int DEFAULT_EM_ITERATIONS = 2;
+  /** Default: characters outside the vocabulary become their UTF-8 bytes, never the unknown token. */
+  public static final boolean DEFAULT_RAW_BYTES = true;
+  /** Default seed table entries (about 100 bytes each). */
+  public static final int DEFAULT_SEED_TABLE_LIMIT = 1_000_000;
+  /**
+   * Default longest piece learned from, in UTF-16 units (reason: far above any word of prose; a
+   * longer piece is a run without breaks, whose every substring the seed stage would count).
+   */
+  public static final int DEFAULT_MAX_PIECE_LENGTH = 4096;
+  /** Most threads of the E-step. */
+  public static final int MAX_THREADS = 256;
+
   private final int vocabularySize;
   private final int seedFactor;
   private final int maxTokenLength;
@@ -38,28 +67,94 @@ public final class Training {
   private final int threads;
   private final int seedTableLimit;
   private final int maxPieceLength;
+  private final long minCount;
   private final TrainingListener listener;
 
-  /** All settings already validated by the public builder. */
+  /**
+   * A training with every setting checked.
+   *
+   * @throws IllegalArgumentException naming the setting that is out of range, or the reserved token
+   *     (by index) that is invalid or equals the unknown token's spelling
+   * @throws NullPointerException if a reserved token, the unknown token or the listener is null
+   */
   public Training(int vocabularySize, int seedFactor, int maxTokenLength, double shrinkFactor, int emIterations,
       boolean rawBytes, List<String> reserved, String unknown, int threads, int seedTableLimit,
-      int maxPieceLength, TrainingListener listener) {
-    this.vocabularySize = vocabularySize;
-    this.seedFactor = seedFactor;
-    this.maxTokenLength = maxTokenLength;
+      int maxPieceLength, long minCount, TrainingListener listener) {
+    this.vocabularySize = check("vocabularySize", vocabularySize, 1, Integer.MAX_VALUE - 8);
+    this.seedFactor = check("seedFactor", seedFactor, 1, 1000);
+    this.maxTokenLength = check("maxTokenLength", maxTokenLength, 1, 64);
+    if (!(shrinkFactor > 0 && shrinkFactor < 1)) {
+      throw new IllegalArgumentException("shrinkFactor=" + shrinkFactor + " is outside (0, 1)");
+    }
     this.shrinkFactor = shrinkFactor;
-    this.emIterations = emIterations;
+    this.emIterations = check("emIterations", emIterations, 1, 100);
     this.rawBytes = rawBytes;
-    this.reserved = List.copyOf(reserved);
+    this.reserved = LearnerSettings.checkReserved(reserved);
+    Objects.requireNonNull(unknown, "unknownToken");
+    if (unknown.isEmpty() || unknown.length() > UnigramSegmenter.MAX_PIECE_LENGTH
+        || UnigramSegmenter.unpairedSurrogate(unknown) >= 0) {
+      throw new IllegalArgumentException("unknownToken '" + unknown + "' must be 1.." + UnigramSegmenter.MAX_PIECE_LENGTH
+          + " chars of well-formed UTF-16");
+    }
+    int clash = this.reserved.indexOf(unknown);
+    if (clash >= 0) {
+      throw new IllegalArgumentException("reservedTokens[" + clash + "] '" + unknown + "' equals the unknownToken spelling");
+    }
+    if (rawBytes) {
+      for (int i = 0; i < this.reserved.size(); i++) {
+        for (int b = 0; b < 256; b++) {
+          if (this.reserved.get(i).equals(UnigramSegmenter.byteSpelling(b))) {
+            throw new IllegalArgumentException("reservedTokens[" + i + "] '" + this.reserved.get(i)
+                + "' is the spelling of byte token " + b + " (rawBytes is on)");
+          }
+        }
+      }
+    }
     this.unknown = unknown;
-    this.threads = threads;
-    this.seedTableLimit = seedTableLimit;
-    this.maxPieceLength = maxPieceLength;
-    this.listener = listener;
+    this.threads = check("threads", threads, 1, MAX_THREADS);
+    this.seedTableLimit = check("seedTableLimit", seedTableLimit, 1000, 100_000_000);
+    this.maxPieceLength = check("maxPieceLength", maxPieceLength, 1, 1 << 26);
+    if (minCount < 1) {
+      throw new IllegalArgumentException("minCount=" + minCount + " must be at least 1");
+    }
+    this.minCount = minCount;
+    this.listener = Objects.requireNonNull(listener, "listener");
+    long floor = (long) this.reserved.size() + (rawBytes ? 256 : 0) + 2;
+    if (vocabularySize < floor) {
+      throw new IllegalArgumentException("vocabularySize=" + vocabularySize + " is below " + floor + " ("
+          + this.reserved.size() + " reserved tokens" + (rawBytes ? ", 256 byte tokens" : "")
+          + ", the unknown token and at least one piece)");
+    }
   }
 
-  /** Trains on {@code counts}. */
-  public UnigramModel train(PieceCounts counts) {
+  private static int check(String name, int v, int min, int max) {
+    if (v < min || v > max) {
+      throw new IllegalArgumentException(name + "=" + v + " is outside [" + min + ", " + max + "]");
+    }
+    return v;
+  }
+
+  @Override
+  public String scheme() {
+    return UnigramSegmenter.KIND;
+  }
+
+  /** Learns from {@code counts}; the tokenizer encodes with their pipeline. */
+  @Override
+  public Tokenizer train(PieceCounts counts) {
+    return Tokenizers.of(Objects.requireNonNull(counts, "counts").pipeline(), segmenter(counts));
+  }
+
+  /** Learns the segmenter alone from {@code counts}. */
+  public UnigramSegmenter segmenter(PieceCounts counts) {
+    Objects.requireNonNull(counts, "counts");
+    if (minCount > 1 && !counts.isEmpty()) {
+      PieceCounts kept = counts.withMinCount(minCount);
+      if (kept.isEmpty()) {
+        throw new IllegalArgumentException("no piece has a count >= minCount=" + minCount);
+      }
+      counts = kept;
+    }
     if (counts.isEmpty()) {
       throw new IllegalArgumentException("piece counts are empty; training needs at least one piece");
     }

@@ -1,18 +1,13 @@
 package dev.morsel.tokenize.unigram.internal;
 
-import dev.morsel.tokenize.Tokenizer;
-import dev.morsel.tokenize.Tokenizers;
 import dev.morsel.tokenize.train.Learner;
 import dev.morsel.tokenize.train.LearnerOption;
 import dev.morsel.tokenize.train.LearnerOptions;
 import dev.morsel.tokenize.train.LearnerProvider;
 import dev.morsel.tokenize.train.LearnerSettings;
-import dev.morsel.tokenize.train.PieceCounts;
-import dev.morsel.tokenize.unigram.UnigramLearner;
-import dev.morsel.tokenize.unigram.UnigramModel;
 import java.util.List;
 
-/** Makes {@link UnigramLearner}s by scheme name; registered for {@link java.util.ServiceLoader}. */
+/** Makes unigram learners by scheme name; registered for {@link java.util.ServiceLoader}. */
 public final class UnigramLearnerProvider implements LearnerProvider {
   static final String RAW_BYTES = "raw-bytes";
   static final String UNKNOWN_TOKEN = "unknown-token";
@@ -24,14 +19,19 @@ public final class UnigramLearnerProvider implements LearnerProvider {
   static final String MAX_PIECE_LENGTH = "max-piece-length";
 
   private static final List<LearnerOption> OPTIONS = List.of(
-      LearnerOption.of(RAW_BYTES, "true", "characters outside the vocabulary become their UTF-8 bytes, not the unknown token"),
-      LearnerOption.of(UNKNOWN_TOKEN, UnigramModel.DEFAULT_UNKNOWN, "the spelling of the unknown token"),
-      LearnerOption.of(CANDIDATE_MULTIPLE, "8", "seed candidates as a multiple of the pieces wanted (1..1000)"),
-      LearnerOption.of(MAX_TOKEN_CODE_POINTS, "16", "longest token learned, in code points (1..64)"),
-      LearnerOption.of(KEEP_SHARE, "0.75", "share of the vocabulary each pruning round keeps, in (0, 1)"),
-      LearnerOption.of(EM_PASSES, "2", "EM passes before each pruning round (1..100)"),
-      LearnerOption.of(SEED_TABLE_LIMIT, "1000000", "entries of the seed substring table before rare ones are dropped"),
-      LearnerOption.of(MAX_PIECE_LENGTH, Integer.toString(UnigramLearner.DEFAULT_MAX_PIECE_LENGTH),
+      LearnerOption.of(RAW_BYTES, Boolean.toString(Training.DEFAULT_RAW_BYTES),
+          "characters outside the vocabulary become their UTF-8 bytes, not the unknown token"),
+      LearnerOption.of(UNKNOWN_TOKEN, UnigramSegmenter.DEFAULT_UNKNOWN, "the spelling of the unknown token"),
+      LearnerOption.of(CANDIDATE_MULTIPLE, Integer.toString(Training.DEFAULT_SEED_FACTOR),
+          "seed candidates as a multiple of the pieces wanted (1..1000)"),
+      LearnerOption.of(MAX_TOKEN_CODE_POINTS, Integer.toString(Training.DEFAULT_MAX_TOKEN_LENGTH),
+          "longest token learned, in code points (1..64)"),
+      LearnerOption.of(KEEP_SHARE, Double.toString(Training.DEFAULT_SHRINK_FACTOR),
+          "share of the vocabulary each pruning round keeps, in (0, 1)"),
+      LearnerOption.of(EM_PASSES, Integer.toString(Training.DEFAULT_EM_ITERATIONS), "EM passes before each pruning round (1..100)"),
+      LearnerOption.of(SEED_TABLE_LIMIT, Integer.toString(Training.DEFAULT_SEED_TABLE_LIMIT),
+          "entries of the seed substring table before rare ones are dropped"),
+      LearnerOption.of(MAX_PIECE_LENGTH, Integer.toString(Training.DEFAULT_MAX_PIECE_LENGTH),
           "pieces longer than this many UTF-16 units are left out of learning"));
 
   /** For {@link java.util.ServiceLoader}. */
@@ -39,7 +39,7 @@ public final class UnigramLearnerProvider implements LearnerProvider {
 
   @Override
   public String scheme() {
-    return UnigramModel.KIND;
+    return UnigramSegmenter.KIND;
   }
 
   @Override
@@ -54,40 +54,20 @@ public final class UnigramLearnerProvider implements LearnerProvider {
 
   @Override
   public Learner learner(LearnerSettings settings, LearnerOptions options) {
-    UnigramLearner learner;
+    boolean rawBytes = options.booleanValue(RAW_BYTES);
+    String unknown = options.string(UNKNOWN_TOKEN);
+    int candidates = options.intValue(CANDIDATE_MULTIPLE, 1, 1000);
+    int tokenLength = options.intValue(MAX_TOKEN_CODE_POINTS, 1, 64);
+    double keep = options.doubleValue(KEEP_SHARE, 0, 1, false);
+    int passes = options.intValue(EM_PASSES, 1, 100);
+    int seedTable = options.intValue(SEED_TABLE_LIMIT, 1000, 100_000_000);
+    int pieceLength = options.intValue(MAX_PIECE_LENGTH, 1, 1 << 26);
     try {
-      learner = UnigramLearner.builder()
-          .vocabularySize(settings.vocabularySize())
-          .reservedTokens(settings.reservedTokens())
-          .threads(Math.min(settings.threads(), 256))
-          .listener(settings.listener())
-          .rawBytes(options.booleanValue(RAW_BYTES))
-          .unknownToken(options.string(UNKNOWN_TOKEN))
-          .seedFactor(options.intValue(CANDIDATE_MULTIPLE, 1, 1000))
-          .maxTokenLength(options.intValue(MAX_TOKEN_CODE_POINTS, 1, 64))
-          .shrinkFactor(options.doubleValue(KEEP_SHARE, 0, 1, false))
-          .emIterations(options.intValue(EM_PASSES, 1, 100))
-          .seedTableLimit(options.intValue(SEED_TABLE_LIMIT, 1000, 100_000_000))
-          .maxPieceLength(options.intValue(MAX_PIECE_LENGTH, 1, 1 << 26))
-          .build();
+      return new Training(settings.vocabularySize(), candidates, tokenLength, keep, passes, rawBytes,
+          settings.reservedTokens(), unknown, Math.min(settings.threads(), Training.MAX_THREADS), seedTable, pieceLength,
+          settings.minCount(), settings.listener());
     } catch (IllegalArgumentException e) {
-      throw e.getMessage().startsWith(scheme()) ? e : new IllegalArgumentException(scheme() + ": " + e.getMessage(), e);
+      throw new IllegalArgumentException(scheme() + ": " + e.getMessage(), e);
     }
-    long minCount = settings.minCount();
-    return new Learner() {
-      @Override
-      public String scheme() {
-        return UnigramModel.KIND;
-      }
-
-      @Override
-      public Tokenizer train(PieceCounts counts) {
-        PieceCounts kept = minCount > 1 ? counts.withMinCount(minCount) : counts;
-        if (kept.isEmpty() && !counts.isEmpty()) {
-          throw new IllegalArgumentException("no piece has a count >= minCount=" + minCount);
-        }
-        return Tokenizers.of(counts.pipeline(), learner.train(kept));
-      }
-    };
   }
 }
