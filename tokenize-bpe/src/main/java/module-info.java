@@ -1,7 +1,9 @@
 /**
- * Morsel's byte-level BPE segmenter ({@link dev.morsel.tokenize.bpe.BpeLearner},
- * {@link dev.morsel.tokenize.bpe.BpeSegmenter}, kind {@code "bpe"}). Found by the api's loader under
- * its kind name.
+ * Morsel's byte-level BPE: {@link dev.morsel.tokenize.bpe.BpeLearner} learns a vocabulary into a
+ * tokenizer, {@link dev.morsel.tokenize.bpe.Bpe} reaches a BPE tokenizer's merges, cache and
+ * BPE-dropout. Models of kind {@code "bpe"} load through the api's loader; the learner is found by
+ * scheme name through {@link dev.morsel.tokenize.train.Learners}. Implementations live in a package
+ * that is not exported.
  */
 module dev.morsel.tokenize.bpe {
   requires transitive dev.morsel.tokenize;

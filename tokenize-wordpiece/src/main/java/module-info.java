@@ -1,7 +1,9 @@
 /**
- * Morsel's WordPiece segmenter ({@link dev.morsel.tokenize.wordpiece.WordPieceLearner},
- * {@link dev.morsel.tokenize.wordpiece.WordPieceSegmenter}, kind {@code "wordpiece"}): LinMaxMatch
- * encoding and a likelihood-merge trainer. Found by the api's loader under its kind name.
+ * Morsel's WordPiece: {@link dev.morsel.tokenize.wordpiece.WordPieceLearner} learns a vocabulary
+ * (likelihood-based merges) into a tokenizer that encodes with LinMaxMatch, and {@link
+ * dev.morsel.tokenize.wordpiece.WordPiece} reaches a WordPiece tokenizer's own features. Models of
+ * kind {@code "wordpiece"} load through the api's loader; the learner is found by scheme name through
+ * {@link dev.morsel.tokenize.train.Learners}. Implementations live in a package that is not exported.
  */
 module dev.morsel.tokenize.wordpiece {
   requires transitive dev.morsel.tokenize;

@@ -2,7 +2,7 @@ package dev.morsel.tokenize.bench;
 
 import dev.morsel.tokenize.Tokenizer;
 import dev.morsel.tokenize.Trust;
-import dev.morsel.tokenize.bpe.BpeSegmenter;
+import dev.morsel.tokenize.bpe.Bpe;
 import java.util.ArrayList;
 import java.util.List;
 import java.util.concurrent.ExecutorService;
@@ -55,11 +55,11 @@ public class BpeBenchmarks {
   @Setup
   public void setup() {
     bodies = Corpus.bodies();
-    BpeSegmenter s = Models.bpeSegmenter();
-    cached = Models.with(Models.pipeline(), s);
-    uncached = Models.with(Models.pipeline(), s.withCacheEntries(0));
-    unsplit = Models.with(Models.unsplit(), s);
-    textbook = new TextbookBpe(s);
+    Tokenizer bpe = Models.bpe();
+    cached = Models.with(Models.pipeline(), bpe);
+    uncached = Bpe.withCacheEntries(cached, 0);
+    unsplit = Models.with(Models.unsplit(), bpe);
+    textbook = new TextbookBpe(bpe);
     textbookPieces = pieces(Corpus.prefix(TEXTBOOK_BYTES));
     adversarial1m = Corpus.adversarial(1 << 20, 1);
     adversarial100k = Corpus.adversarial(100 << 10, 1);

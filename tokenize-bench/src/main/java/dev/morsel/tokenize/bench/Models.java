@@ -5,15 +5,12 @@ import dev.morsel.tokenize.Pipeline;
 import dev.morsel.tokenize.Template;
 import dev.morsel.tokenize.Tokenizer;
 import dev.morsel.tokenize.Tokenizers;
-import dev.morsel.tokenize.bpe.BpeSegmenter;
-import dev.morsel.tokenize.format.ModelFile;
 import dev.morsel.tokenize.normalize.Normalization;
 import dev.morsel.tokenize.split.Splitting;
 import dev.morsel.tokenize.train.LearnerSettings;
 import dev.morsel.tokenize.train.Learners;
 import dev.morsel.tokenize.train.PieceCounter;
 import dev.morsel.tokenize.train.PieceCounts;
-import dev.morsel.tokenize.wordpiece.WordPieceSegmenter;
 import java.io.IOException;
 import java.io.UncheckedIOException;
 import java.nio.file.Files;
@@ -77,10 +74,6 @@ public final class Models {
     return Tokenizers.load(bpeFile());
   }
 
-  /** The 32k BPE segmenter itself (for cache and textbook variants). */
-  public static BpeSegmenter bpeSegmenter() {
-    return BpeSegmenter.read(ModelFile.read(bpeFile()));
-  }
 
   /** The 30k WordPiece model file, trained on first use. */
   public static Path wordpieceFile() {
@@ -94,10 +87,6 @@ public final class Models {
     return Tokenizers.load(wordpieceFile());
   }
 
-  /** The 30k WordPiece segmenter itself. */
-  public static WordPieceSegmenter wordpieceSegmenter() {
-    return WordPieceSegmenter.read(ModelFile.read(wordpieceFile()));
-  }
 
   /** The 32k unigram model file (byte fallback on), trained on first use. */
   public static Path unigramFile() {
@@ -126,9 +115,9 @@ public final class Models {
     return sum;
   }
 
-  /** A tokenizer with the given pipeline and segmenter and no reserved tokens or framing. */
-  public static Tokenizer with(Pipeline p, dev.morsel.tokenize.spi.Segmenter s) {
-    return Tokenizers.of(p, s, ReservedTokens.none(), Template.none());
+  /** {@code t}'s model assembled with another pipeline, no reserved tokens and no framing. */
+  public static Tokenizer with(Pipeline p, Tokenizer t) {
+    return Tokenizers.of(p, Tokenizers.segmenterOf(t), ReservedTokens.none(), Template.none());
   }
 
   private static synchronized Path cached(String name, Supplier<Tokenizer> train) {

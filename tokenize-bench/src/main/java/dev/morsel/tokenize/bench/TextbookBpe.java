@@ -1,6 +1,7 @@
 package dev.morsel.tokenize.bench;
 
-import dev.morsel.tokenize.bpe.BpeSegmenter;
+import dev.morsel.tokenize.Tokenizer;
+import dev.morsel.tokenize.bpe.Bpe;
 import java.nio.charset.StandardCharsets;
 import java.util.ArrayList;
 import java.util.HashMap;
@@ -18,12 +19,13 @@ final class TextbookBpe {
   private final int firstByte;
   private final int firstMerge;
 
-  TextbookBpe(BpeSegmenter s) {
-    int reserved = s.reservedTokens().size();
+  TextbookBpe(Tokenizer bpe) {
+    int reserved = bpe.reservedTokens().size();
     firstByte = reserved;
     firstMerge = reserved + 256;
-    for (int r = 0; r < s.mergeCount(); r++) {
-      ranks.put(((long) s.mergeLeft(r) << 32) | s.mergeRight(r), r);
+    for (int r = 0; r < Bpe.mergeCount(bpe); r++) {
+      int[] m = Bpe.merge(bpe, r);
+      ranks.put(((long) m[0] << 32) | m[1], r);
     }
   }
 

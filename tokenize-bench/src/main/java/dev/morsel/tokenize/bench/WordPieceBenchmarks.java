@@ -1,8 +1,8 @@
 package dev.morsel.tokenize.bench;
 
 import dev.morsel.tokenize.Tokenizer;
-import dev.morsel.tokenize.wordpiece.WordPieceSegmenter;
-import dev.morsel.tokenize.wordpiece.WordPieceSettings;
+import dev.morsel.tokenize.wordpiece.WordPiece;
+import dev.morsel.tokenize.wordpiece.WordPieceLearner;
 import java.util.ArrayList;
 import java.util.HashSet;
 import java.util.List;
@@ -54,21 +54,21 @@ public class WordPieceBenchmarks {
   @Setup
   public void setup() {
     bodies = Corpus.bodies();
-    WordPieceSegmenter s = Models.wordpieceSegmenter();
-    trained = Models.with(Models.pipeline(), s);
-    WordPieceSettings wide = s.settings().withMaxPieceLength(WordPieceSettings.MAX_MAX_PIECE_LENGTH);
-    trainedUnsplit = Models.with(Models.unsplit(), WordPieceSegmenter.of(s.tokens(), s.reservedCount(), wide));
+    Tokenizer wordpiece = Models.wordpiece();
+    trained = Models.with(Models.pipeline(), wordpiece);
+    trainedUnsplit = Models.with(Models.unsplit(),
+        WordPiece.withMaxPieceLength(wordpiece, WordPieceLearner.MAX_MAX_PIECE_LENGTH));
     List<String> tokens = new ArrayList<>();
-    WordPieceSettings settings = WordPieceSettings.defaults().withMaxPieceLength(WordPieceSettings.MAX_MAX_PIECE_LENGTH);
-    String m = settings.marker();
-    tokens.add(settings.unknownToken());
+    String m = WordPieceLearner.DEFAULT_MARKER;
+    tokens.add(WordPieceLearner.DEFAULT_UNKNOWN_TOKEN);
     tokens.add("a");
     tokens.add(m + "a");
     for (int k = 1; k <= NEAR_MISS; k++) {
       tokens.add("a".repeat(k) + "b");
       tokens.add(m + "a".repeat(k) + "b");
     }
-    nearMiss = Models.with(Models.unsplit(), WordPieceSegmenter.of(tokens, 0, settings));
+    nearMiss = WordPiece.withMaxPieceLength(WordPiece.fromTokens(Models.unsplit(), tokens, 0, m,
+        WordPieceLearner.DEFAULT_UNKNOWN_TOKEN), WordPieceLearner.MAX_MAX_PIECE_LENGTH);
     naive = new Naive(tokens, m);
     prose1m = Corpus.prose(1 << 20);
     adversarial1m = Corpus.adversarial(1 << 20, 1);

@@ -1,19 +1,19 @@
 package dev.morsel.tokenize.bpe;
 
-import dev.morsel.tokenize.ReservedTokens;
-import dev.morsel.tokenize.bpe.internal.ByteSpelling;
-import dev.morsel.tokenize.bpe.internal.MergeLearner;
-import dev.morsel.tokenize.bpe.internal.Utf8;
-import dev.morsel.tokenize.bpe.internal.Vocab;
+import dev.morsel.tokenize.Tokenizer;
+import dev.morsel.tokenize.bpe.internal.BpeSegmenter;
+import dev.morsel.tokenize.bpe.internal.BpeTraining;
+import dev.morsel.tokenize.train.Learner;
 import dev.morsel.tokenize.train.PieceCounts;
 import dev.morsel.tokenize.train.TrainingListener;
-import java.util.ArrayList;
 import java.util.List;
 import java.util.Objects;
 
 /**
- * Learns a byte-level BPE vocabulary [1] from piece counts. Immutable and thread-safe; build one with
- * {@link #builder()}.
+ * Learns a byte-level BPE vocabulary [1] from piece counts and returns a tokenizer that encodes with
+ * it. Immutable and thread-safe; build one with {@link #builder()}; {@link #train} may run
+ * concurrently. {@link Bpe} reaches the model's merges, its piece cache and BPE-dropout from that
+ * tokenizer, or from one loaded from a model file.
  *
  * <p>Each piece becomes a word: its UTF-8 bytes (a lone surrogate as U+FFFD), weighted by its count.
  * Merges are learned until the vocabulary (reserved tokens + 256 bytes + merges) reaches
@@ -26,58 +26,43 @@ import java.util.Objects;
  * occurrences ("aaa" holds (a, a) twice); applying a merge replaces occurrences left to right without
  * overlap ("aaa" becomes "aa" "a").
  *
- * <p>Pieces whose UTF-8 is longer than {@code maxPieceBytes} are left out of training: the work of
- * every merge that touches a piece grows with the piece's length, so one huge piece (a 100 MB line
- * without a break) would keep training busy for hours, and no token of at most {@code maxTokenBytes}
- * needs it. If every piece is left out, {@link #train} fails naming the setting. Counts must also
- * leave room for pair counts: if the count-weighted number of adjacent byte pairs of the kept pieces
- * exceeds {@code Long.MAX_VALUE}, {@link #train} fails rather than let a pair count wrap around.
+ * <p>Pieces counted fewer than {@code minCount} times, and pieces whose UTF-8 is longer than
+ * {@code maxPieceBytes}, are left out of learning: the work of every merge that touches a piece grows
+ * with the piece's length, so one huge piece (a 100 MB line without a break) would keep learning busy
+ * for hours, and no token of at most {@code maxTokenBytes} needs it. If every piece is left out,
+ * {@link #train} fails naming the setting. Counts must also leave room for pair counts: if the
+ * count-weighted number of adjacent byte pairs of the kept pieces exceeds {@code Long.MAX_VALUE},
+ * {@link #train} fails rather than let a pair count wrap around.
  *
- * <p>Algorithm and memory: see {@code docs/bpe.md}. Incremental pair counts with an index from pairs
- * to words and a lazily invalidated priority queue; the initial count runs on {@code threads} threads.
- * Memory is about 4 bytes per byte of distinct pieces for the words, plus at most 12 bytes per byte for
- * the pair index, plus the pair count map; {@code minPieceCount} drops rare pieces to bound it.
+ * <p>Algorithm and memory: see {@code docs/bpe.md}.
+ *
+ * <pre>{@code
+ * Tokenizer bpe = BpeLearner.builder().vocabularySize(16_000).build().train(counts);
+ * }</pre>
  *
  * <p>[1] Sennrich, Haddow, Birch (2016), "Neural Machine Translation of Rare Words with Subword
  * Units", ACL 2016, section 3.2, Algorithm 1.
  *
  * @since 0.1.0
  */
-public final class BpeLearner {
+public final class BpeLearner implements Learner {
   /** Default {@code vocabularySize}: 32,000 ids. */
-  public static final int DEFAULT_VOCABULARY_SIZE = 32_000;
+  public static final int DEFAULT_VOCABULARY_SIZE = BpeTraining.DEFAULT_VOCABULARY_SIZE;
   /** Default {@code minPairCount}: 2 (a pair seen once compresses nothing). */
-  public static final long DEFAULT_MIN_PAIR_COUNT = 2;
+  public static final long DEFAULT_MIN_PAIR_COUNT = BpeTraining.DEFAULT_MIN_PAIR_COUNT;
   /** Default {@code maxTokenBytes}: 64 bytes. */
-  public static final int DEFAULT_MAX_TOKEN_BYTES = 64;
-  /** Default {@code minPieceCount}: 1 (keep every piece). */
-  public static final long DEFAULT_MIN_PIECE_COUNT = 1;
-  /**
-   * Default {@code maxPieceBytes}: 4,096 bytes of UTF-8, the longest token a model may hold
-   * ({@link BpeSegmenter#MAX_TOKEN_BYTES}); far above the words of any language.
-   *
-   * @since 0.1.0
-   */
-  public static final int DEFAULT_MAX_PIECE_BYTES = 4096;
+  public static final int DEFAULT_MAX_TOKEN_BYTES = BpeTraining.DEFAULT_MAX_TOKEN_BYTES;
+  /** Default {@code minCount}: 1 (keep every piece). */
+  public static final long DEFAULT_MIN_COUNT = BpeTraining.DEFAULT_MIN_COUNT;
+  /** Default {@code maxPieceBytes}: 4,096 bytes of UTF-8, the longest token a model may hold. */
+  public static final int DEFAULT_MAX_PIECE_BYTES = BpeTraining.DEFAULT_MAX_PIECE_BYTES;
+  /** Longest token a model may hold, in bytes; the upper bound of {@code maxTokenBytes}. */
+  public static final int MAX_TOKEN_BYTES = BpeSegmenter.MAX_TOKEN_BYTES;
 
-  private final int vocabularySize;
-  private final long minPairCount;
-  private final int maxTokenBytes;
-  private final long minPieceCount;
-  private final int maxPieceBytes;
-  private final List<String> reserved;
-  private final int threads;
-  private final TrainingListener listener;
+  private final BpeTraining training;
 
-  private BpeLearner(Builder b) {
-    this.vocabularySize = b.vocabularySize;
-    this.minPairCount = b.minPairCount;
-    this.maxTokenBytes = b.maxTokenBytes;
-    this.minPieceCount = b.minPieceCount;
-    this.maxPieceBytes = b.maxPieceBytes;
-    this.reserved = List.copyOf(b.reserved);
-    this.threads = b.threads;
-    this.listener = b.listener;
+  private BpeLearner(BpeTraining training) {
+    this.training = training;
   }
 
   /** A builder with the defaults above, no reserved tokens, all processors, no listener. */
@@ -85,54 +70,21 @@ public final class BpeLearner {
     return new Builder();
   }
 
+  @Override
+  public String scheme() {
+    return Bpe.KIND;
+  }
+
   /**
-   * Learns the merges.
+   * Learns the merges; the tokenizer encodes with {@link PieceCounts#pipeline()} and holds the
+   * reserved tokens at ids {@code 0..k-1}.
    *
-   * @throws IllegalArgumentException if {@code pieces} is empty (or empty after {@code minPieceCount}
-   *     and {@code maxPieceBytes}), or if the count-weighted number of byte pairs exceeds a long
+   * @throws IllegalArgumentException if {@code pieces} is empty (or empty after {@code minCount} and
+   *     {@code maxPieceBytes}), or if the count-weighted number of byte pairs exceeds a long
    */
-  public BpeSegmenter train(PieceCounts pieces) {
-    Objects.requireNonNull(pieces, "pieces");
-    PieceCounts kept = minPieceCount > 1 ? pieces.withMinCount(minPieceCount) : pieces;
-    if (kept.isEmpty()) {
-      throw new IllegalArgumentException(pieces.isEmpty() ? "piece counts are empty: nothing to train on"
-          : "no piece has a count >= minPieceCount=" + minPieceCount);
-    }
-    List<byte[]> words = new ArrayList<>(kept.size());
-    List<Long> kweights = new ArrayList<>(kept.size());
-    long pairTotal = 0;
-    for (int i = 0; i < kept.size(); i++) {
-      String piece = kept.piece(i);
-      if (piece.length() > maxPieceBytes) { // every UTF-16 unit takes at least one UTF-8 byte: skip unencoded
-        continue;
-      }
-      byte[] b = Utf8.encode(piece);
-      if (b.length > maxPieceBytes) {
-        continue;
-      }
-      try {
-        pairTotal = Math.addExact(pairTotal, Math.multiplyExact(kept.count(i), (long) b.length - 1));
-      } catch (ArithmeticException e) {
-        throw new IllegalArgumentException("piece counts are too large: the count-weighted number of byte pairs"
-            + " exceeds Long.MAX_VALUE, so pair counts would overflow; divide the counts by a common factor", e);
-      }
-      words.add(b);
-      kweights.add(kept.count(i));
-    }
-    if (words.isEmpty()) {
-      throw new IllegalArgumentException("every piece is longer than maxPieceBytes=" + maxPieceBytes
-          + " bytes of UTF-8: nothing to train on (raise it with BpeLearner.Builder.maxPieceBytes)");
-    }
-    long[] weights = new long[words.size()];
-    for (int i = 0; i < weights.length; i++) {
-      weights[i] = kweights.get(i);
-    }
-    int k = reserved.size();
-    int budget = vocabularySize - k - 256;
-    MergeLearner learner = new MergeLearner(k, words, weights, budget, minPairCount, maxTokenBytes, reserved, listener);
-    int[][] merges = learner.run(threads);
-    Vocab v = Vocab.build(reserved, merges[0], merges[1], (i, msg) -> new IllegalStateException(msg));
-    return BpeSegmenter.create(v, BpeSegmenter.DEFAULT_CACHE_ENTRIES);
+  @Override
+  public Tokenizer train(PieceCounts pieces) {
+    return training.train(pieces);
   }
 
   /**
@@ -141,125 +93,74 @@ public final class BpeLearner {
    * @since 0.1.0
    */
   public static final class Builder {
-    private int vocabularySize = DEFAULT_VOCABULARY_SIZE;
-    private long minPairCount = DEFAULT_MIN_PAIR_COUNT;
-    private int maxTokenBytes = DEFAULT_MAX_TOKEN_BYTES;
-    private long minPieceCount = DEFAULT_MIN_PIECE_COUNT;
-    private int maxPieceBytes = DEFAULT_MAX_PIECE_BYTES;
-    private List<String> reserved = List.of();
-    private int threads = Runtime.getRuntime().availableProcessors();
-    private TrainingListener listener = TrainingListener.NONE;
+    private final BpeTraining.Builder b = BpeTraining.builder();
 
     private Builder() {}
 
     /** Target number of ids: reserved tokens + 256 bytes + merges. Default 32,000. */
     public Builder vocabularySize(int size) {
-      this.vocabularySize = size;
+      b.vocabularySize(size);
       return this;
     }
 
     /** Smallest weighted pair count worth a merge (at least 1). Default 2. */
     public Builder minPairCount(long count) {
-      this.minPairCount = count;
+      b.minPairCount(count);
       return this;
     }
 
-    /** Longest token, in bytes, in [2, {@link BpeSegmenter#MAX_TOKEN_BYTES}]. Default 64. */
+    /** Longest token, in bytes, in [2, {@link #MAX_TOKEN_BYTES}]. Default 64. */
     public Builder maxTokenBytes(int bytes) {
-      this.maxTokenBytes = bytes;
+      b.maxTokenBytes(bytes);
       return this;
     }
 
-    /** Pieces with a smaller count are dropped before training, to bound memory. Default 1. */
-    public Builder minPieceCount(long count) {
-      this.minPieceCount = count;
+    /** Pieces counted fewer times are left out of learning, to bound memory (at least 1). Default 1. */
+    public Builder minCount(long count) {
+      b.minCount(count);
       return this;
     }
 
     /**
-     * Pieces whose UTF-8 is longer than this many bytes are left out of training (at least 2).
+     * Pieces whose UTF-8 is longer than this many bytes are left out of learning (at least 2).
      * Default {@value BpeLearner#DEFAULT_MAX_PIECE_BYTES}.
-     *
-     * @since 0.1.0
      */
     public Builder maxPieceBytes(int bytes) {
-      this.maxPieceBytes = bytes;
+      b.maxPieceBytes(bytes);
       return this;
     }
 
     /**
      * Reserved token spellings, given ids {@code 0..k-1} in this order. They must satisfy
-     * {@link ReservedTokens.Builder}'s rules and must not spell a single byte token.
+     * {@link dev.morsel.tokenize.ReservedTokens.Builder}'s rules and must not spell a single byte
+     * token; checked at {@link #build()}, each refusal naming the spelling by index.
      */
     public Builder reservedTokens(List<String> spellings) {
-      this.reserved = List.copyOf(Objects.requireNonNull(spellings, "spellings"));
+      b.reservedTokens(Objects.requireNonNull(spellings, "reservedTokens"));
       return this;
     }
 
     /** Threads for the initial pair count (at least 1). Default: available processors. */
     public Builder threads(int n) {
-      this.threads = n;
+      b.threads(n);
       return this;
     }
 
     /** Progress: stage {@code "merges"}, merges done, merge budget, detail {@code "left+right count"}. */
     public Builder listener(TrainingListener l) {
-      this.listener = Objects.requireNonNull(l, "listener");
+      b.listener(Objects.requireNonNull(l, "listener"));
       return this;
     }
 
     /**
-     * The trainer.
+     * The learner.
      *
      * @throws IllegalArgumentException naming the setting that is out of range or the reserved token
-     *     that is invalid
+     *     (by index) that is invalid
+     * @throws NullPointerException naming the reserved token (by index) that is null
      */
     public BpeLearner build() {
-      ReservedTokens.Builder cb = ReservedTokens.builder();
-      for (int i = 0; i < reserved.size(); i++) {
-        String c = reserved.get(i);
-        if (c == null) {
-          throw new IllegalArgumentException("reservedTokens: spelling " + i + " is null");
-        }
-        try {
-          cb.add(c, i);
-        } catch (IllegalArgumentException e) {
-          throw new IllegalArgumentException("reservedTokens: " + e.getMessage(), e);
-        }
-        for (int b = 0; b < 256; b++) {
-          if (c.equals(ByteSpelling.display(new byte[] {(byte) b}, 0, 1))) {
-            throw new IllegalArgumentException("reservedTokens: spelling '" + c + "' is the display spelling of byte token "
-                + b + "; choose a spelling no byte token has");
-          }
-        }
-      }
-      try {
-        cb.build();
-      } catch (IllegalArgumentException e) {
-        throw new IllegalArgumentException("reservedTokens: " + e.getMessage(), e);
-      }
-      int floor = 256 + reserved.size();
-      if (vocabularySize < floor) {
-        throw new IllegalArgumentException("vocabularySize=" + vocabularySize + " is below " + floor + " (256 byte tokens + "
-            + reserved.size() + " reserved tokens)");
-      }
-      if (minPairCount < 1) {
-        throw new IllegalArgumentException("minPairCount=" + minPairCount + " must be at least 1");
-      }
-      if (maxTokenBytes < 2 || maxTokenBytes > BpeSegmenter.MAX_TOKEN_BYTES) {
-        throw new IllegalArgumentException("maxTokenBytes=" + maxTokenBytes + " is outside [2, "
-            + BpeSegmenter.MAX_TOKEN_BYTES + "]");
-      }
-      if (minPieceCount < 1) {
-        throw new IllegalArgumentException("minPieceCount=" + minPieceCount + " must be at least 1");
-      }
-      if (maxPieceBytes < 2) {
-        throw new IllegalArgumentException("maxPieceBytes=" + maxPieceBytes + " must be at least 2");
-      }
-      if (threads < 1) {
-        throw new IllegalArgumentException("threads=" + threads + " must be at least 1");
-      }
-      return new BpeLearner(this);
+      return new BpeLearner(b.build());
     }
   }
 }

@@ -7,6 +7,7 @@ import static org.junit.jupiter.api.Assertions.assertThrows;
 import static org.junit.jupiter.api.Assertions.assertTrue;
 import static org.junit.jupiter.api.Assumptions.assumeTrue;
 
+import dev.morsel.tokenize.bpe.internal.BpeSegmenter;
 import dev.morsel.tokenize.spi.TokenSink;
 import java.nio.charset.StandardCharsets;
 import java.util.ArrayList;

@@ -5,6 +5,8 @@ import static org.junit.jupiter.api.Assertions.assertEquals;
 import static org.junit.jupiter.api.Assertions.assertNull;
 import static org.junit.jupiter.api.Assertions.assertTrue;
 
+import dev.morsel.tokenize.bpe.internal.BpeSegmenter;
+import dev.morsel.tokenize.bpe.internal.BpeTraining;
 import java.nio.charset.StandardCharsets;
 import java.util.ArrayList;
 import java.util.Arrays;
@@ -38,8 +40,7 @@ class EncoderTest {
       corpus.add(randomText(rnd, 30));
     }
     corpus.add("ferry");
-    return BpeLearner.builder().vocabularySize(256 + 20 + rnd.nextInt(200)).minPairCount(1).threads(1).build()
-        .train(Fixtures.countPieces(corpus));
+    return BpeTraining.builder().vocabularySize(256 + 20 + rnd.nextInt(200)).minPairCount(1).threads(1).build().segmenter(Fixtures.countPieces(corpus));
   }
 
   static Stream<Long> seeds() {

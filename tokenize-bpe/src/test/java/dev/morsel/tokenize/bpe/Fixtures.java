@@ -1,5 +1,7 @@
 package dev.morsel.tokenize.bpe;
 
+import dev.morsel.tokenize.bpe.internal.BpeSegmenter;
+import dev.morsel.tokenize.bpe.internal.BpeTraining;
 import dev.morsel.tokenize.train.PieceCounts;
 import java.io.BufferedReader;
 import java.io.ByteArrayOutputStream;
@@ -52,8 +54,7 @@ final class Fixtures {
   /** A 2,000-id vocabulary trained on the pieces of the first 2,000 Europarl bodies (cached per JVM). */
   static synchronized BpeSegmenter europarlModel() {
     if (europarlModel == null) {
-      europarlModel = BpeLearner.builder().vocabularySize(2000).minPairCount(2).threads(2).build()
-          .train(countPieces(europarlBodies().subList(0, 2000)));
+      europarlModel = BpeTraining.builder().vocabularySize(2000).minPairCount(2).threads(2).build().segmenter(countPieces(europarlBodies().subList(0, 2000)));
     }
     return europarlModel;
   }

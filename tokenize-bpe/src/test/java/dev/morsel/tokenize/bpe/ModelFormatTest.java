@@ -1,5 +1,7 @@
 package dev.morsel.tokenize.bpe;
 
+import dev.morsel.tokenize.bpe.internal.BpeSegmenter;
+import dev.morsel.tokenize.bpe.internal.BpeTraining;
 import dev.morsel.tokenize.testkit.Sections;
 import static org.junit.jupiter.api.Assertions.assertArrayEquals;
 import static org.junit.jupiter.api.Assertions.assertEquals;
@@ -25,8 +27,7 @@ class ModelFormatTest {
   private static final List<String> RESERVED = List.of("«dock»", "«sail»");
 
   private static BpeSegmenter withReserved() {
-    return BpeLearner.builder().vocabularySize(2 + 256 + 300).reservedTokens(RESERVED).threads(1).build()
-        .train(Fixtures.countPieces(Fixtures.europarlBodies().subList(0, 300)));
+    return BpeTraining.builder().vocabularySize(2 + 256 + 300).reservedTokens(RESERVED).threads(1).build().segmenter(Fixtures.countPieces(Fixtures.europarlBodies().subList(0, 300)));
   }
 
   private static Map<String, byte[]> payloads(BpeSegmenter s) {

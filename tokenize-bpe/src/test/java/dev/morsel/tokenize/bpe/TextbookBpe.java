@@ -1,5 +1,6 @@
 package dev.morsel.tokenize.bpe;
 
+import dev.morsel.tokenize.bpe.internal.BpeSegmenter;
 import java.nio.charset.StandardCharsets;
 import java.util.ArrayList;
 import java.util.Arrays;

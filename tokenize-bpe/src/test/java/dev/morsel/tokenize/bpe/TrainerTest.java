@@ -5,6 +5,8 @@ import static org.junit.jupiter.api.Assertions.assertEquals;
 import static org.junit.jupiter.api.Assertions.assertThrows;
 import static org.junit.jupiter.api.Assertions.assertTrue;
 
+import dev.morsel.tokenize.bpe.internal.BpeSegmenter;
+import dev.morsel.tokenize.bpe.internal.BpeTraining;
 import dev.morsel.tokenize.train.PieceCounts;
 import java.util.ArrayList;
 import java.util.LinkedHashMap;
@@ -40,13 +42,13 @@ class TrainerTest {
     dict.put("widest" + END, 3L);
     List<String> details = new ArrayList<>();
     List<Long> done = new ArrayList<>();
-    BpeSegmenter s = BpeLearner.builder().vocabularySize(256 + 5).minPairCount(1).threads(1)
+    BpeSegmenter s = BpeTraining.builder().vocabularySize(256 + 5).minPairCount(1).threads(1)
         .listener((stage, d, total, detail) -> {
           assertEquals("merges", stage);
           assertEquals(5, total);
           done.add(d);
           details.add(detail);
-        }).build().train(PieceCounts.of(dict));
+        }).build().segmenter(PieceCounts.of(dict));
     assertEquals(5, s.mergeCount());
     List<String> merged = new ArrayList<>();
     for (int r = 0; r < 5; r++) {
@@ -87,8 +89,8 @@ class TrainerTest {
     int maxBytes = 2 + rnd.nextInt(8);
     int threads = 1 + rnd.nextInt(2);
     String input = "seed=" + seed + " corpus=" + corpus + " merges=" + merges + " minPair=" + minPair + " maxBytes=" + maxBytes;
-    BpeSegmenter s = BpeLearner.builder().vocabularySize(256 + merges).minPairCount(minPair).maxTokenBytes(maxBytes)
-        .threads(threads).build().train(PieceCounts.of(corpus));
+    BpeSegmenter s = BpeTraining.builder().vocabularySize(256 + merges).minPairCount(minPair).maxTokenBytes(maxBytes)
+        .threads(threads).build().segmenter(PieceCounts.of(corpus));
     int[][] expected = TextbookBpe.train(corpus, 0, merges, minPair, maxBytes);
     int[] left = new int[s.mergeCount()];
     int[] right = new int[s.mergeCount()];
@@ -106,8 +108,8 @@ class TrainerTest {
     // merging replaces left to right: aaaa -> aa aa, then (aa,aa) once.
     Map<String, Long> corpus = Map.of("aaaa", 3L, "aaa", 1L);
     List<String> details = new ArrayList<>();
-    BpeSegmenter s = BpeLearner.builder().vocabularySize(259).minPairCount(1).threads(1)
-        .listener((st, d, t, detail) -> details.add(detail)).build().train(PieceCounts.of(corpus));
+    BpeSegmenter s = BpeTraining.builder().vocabularySize(259).minPairCount(1).threads(1)
+        .listener((st, d, t, detail) -> details.add(detail)).build().segmenter(PieceCounts.of(corpus));
     // (a,a): 3*3 + 1*2 = 11; then aaaa -> [aa,aa] x3, aaa -> [aa,a] x1: (aa,aa)=3, (aa,a)=1
     assertEquals(List.of("a+a 11", "aa+aa 3", "aa+a 1"), details);
     assertEquals(3, s.mergeCount());
@@ -116,8 +118,8 @@ class TrainerTest {
   @Test
   void reservedTokensComeFirstAndAreNeverMergedInto() {
     List<String> reserved = List.of("«dock»", "«sail»");
-    BpeSegmenter s = BpeLearner.builder().vocabularySize(2 + 256 + 10).reservedTokens(reserved).threads(1)
-        .build().train(Fixtures.countPieces(List.of("the ferry to the island leaves at dawn", "the ferry is late")));
+    BpeSegmenter s = BpeTraining.builder().vocabularySize(2 + 256 + 10).reservedTokens(reserved).threads(1)
+        .build().segmenter(Fixtures.countPieces(List.of("the ferry to the island leaves at dawn", "the ferry is late")));
     assertEquals("«dock»", s.token(0));
     assertEquals("«sail»", s.token(1));
     assertEquals(1, s.reservedTokens().id("«sail»"));
@@ -132,8 +134,8 @@ class TrainerTest {
   @Test
   void threadsDoNotChangeTheResult() {
     PieceCounts pc = Fixtures.countPieces(Fixtures.europarlBodies().subList(0, 3000));
-    BpeSegmenter one = BpeLearner.builder().vocabularySize(1500).threads(1).build().train(pc);
-    BpeSegmenter two = BpeLearner.builder().vocabularySize(1500).threads(2).build().train(pc);
+    BpeSegmenter one = BpeTraining.builder().vocabularySize(1500).threads(1).build().segmenter(pc);
+    BpeSegmenter two = BpeTraining.builder().vocabularySize(1500).threads(2).build().segmenter(pc);
     assertEquals(1500 - 256, one.mergeCount());
     for (int r = 0; r < one.mergeCount(); r++) {
       assertEquals(one.mergeLeft(r), two.mergeLeft(r), "rank " + r);
@@ -144,9 +146,9 @@ class TrainerTest {
   @Test
   void stopsWhenNoPairReachesMinPairCountOrFitsMaxTokenBytes() {
     PieceCounts pc = PieceCounts.of(Map.of("ferry", 2L, "fare", 1L));
-    BpeSegmenter s = BpeLearner.builder().vocabularySize(1000).minPairCount(2).build().train(pc);
+    BpeSegmenter s = BpeTraining.builder().vocabularySize(1000).minPairCount(2).build().segmenter(pc);
     assertEquals(4, s.mergeCount()); // f+e, fe+r... every pair of "ferry" has count 2, of "fare" 1 — chained 4 merges
-    BpeSegmenter t = BpeLearner.builder().vocabularySize(1000).minPairCount(1).maxTokenBytes(2).build().train(pc);
+    BpeSegmenter t = BpeTraining.builder().vocabularySize(1000).minPairCount(1).maxTokenBytes(2).build().segmenter(pc);
     for (int r = 0; r < t.mergeCount(); r++) {
       assertEquals(2, t.tokenBytes(256 + r).length);
     }
@@ -155,17 +157,17 @@ class TrainerTest {
   @Test
   void badSettingsNameTheSetting() {
     PieceCounts pc = PieceCounts.of(Map.of("quay", 3L));
-    assertMessage("vocabularySize=257", () -> BpeLearner.builder().vocabularySize(257).reservedTokens(List.of("«a»", "«b»")).build());
-    assertMessage("vocabularySize=100", () -> BpeLearner.builder().vocabularySize(100).build());
-    assertMessage("piece counts are empty", () -> BpeLearner.builder().build().train(PieceCounts.empty()));
-    assertMessage("minPieceCount=5", () -> BpeLearner.builder().minPieceCount(5).build().train(pc));
-    assertMessage("reservedTokens", () -> BpeLearner.builder().reservedTokens(List.of("«a»", "«a»")).build());
-    assertMessage("reservedTokens", () -> BpeLearner.builder().reservedTokens(List.of("Q")).build());
-    assertMessage("reservedTokens", () -> BpeLearner.builder().reservedTokens(List.of("")).build());
-    assertMessage("minPairCount=0", () -> BpeLearner.builder().minPairCount(0).build());
-    assertMessage("maxTokenBytes=1", () -> BpeLearner.builder().maxTokenBytes(1).build());
-    assertMessage("maxTokenBytes=5000", () -> BpeLearner.builder().maxTokenBytes(5000).build());
-    assertMessage("threads=0", () -> BpeLearner.builder().threads(0).build());
+    assertMessage("vocabularySize=257", () -> BpeTraining.builder().vocabularySize(257).reservedTokens(List.of("«a»", "«b»")).build());
+    assertMessage("vocabularySize=100", () -> BpeTraining.builder().vocabularySize(100).build());
+    assertMessage("piece counts are empty", () -> BpeTraining.builder().build().segmenter(PieceCounts.empty()));
+    assertMessage("minCount=5", () -> BpeTraining.builder().minCount(5).build().segmenter(pc));
+    assertMessage("reservedTokens", () -> BpeTraining.builder().reservedTokens(List.of("«a»", "«a»")).build());
+    assertMessage("reservedTokens", () -> BpeTraining.builder().reservedTokens(List.of("Q")).build());
+    assertMessage("reservedTokens", () -> BpeTraining.builder().reservedTokens(List.of("")).build());
+    assertMessage("minPairCount=0", () -> BpeTraining.builder().minPairCount(0).build());
+    assertMessage("maxTokenBytes=1", () -> BpeTraining.builder().maxTokenBytes(1).build());
+    assertMessage("maxTokenBytes=5000", () -> BpeTraining.builder().maxTokenBytes(5000).build());
+    assertMessage("threads=0", () -> BpeTraining.builder().threads(0).build());
   }
 
   static void assertMessage(String part, org.junit.jupiter.api.function.Executable e) {

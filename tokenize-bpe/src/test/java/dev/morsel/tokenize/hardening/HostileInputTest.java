@@ -9,8 +9,7 @@ import static org.junit.jupiter.api.Assertions.assertTrue;
 
 import dev.morsel.tokenize.Tokenizer;
 import dev.morsel.tokenize.Tokens;
-import dev.morsel.tokenize.bpe.BpeSegmenter;
-import dev.morsel.tokenize.wordpiece.WordPieceSegmenter;
+import dev.morsel.tokenize.wordpiece.WordPiece;
 import java.util.SplittableRandom;
 import org.junit.jupiter.api.AfterAll;
 import org.junit.jupiter.api.TestInstance;
@@ -42,19 +41,17 @@ class HostileInputTest {
     Tokens t = hostile.encodeChecked(tk, "1 MiB without spaces", text);
     String lower = HostileInputs.lowercase(new SplittableRandom(0x5BACE6L), 64 * 1024);
     if (kind == Models.Kind.BPE) {
-      BpeSegmenter bpe = (BpeSegmenter) Models.segmenter(kind);
+      Tokenizer bpe = Models.trained(kind);
       assertArrayEquals(Oracles.textbookBpe(bpe, text.substring(0, 64 * 1024)),
           content(tk.encode(text.substring(0, 64 * 1024))), "64 KiB prefix vs textbook BPE");
       assertArrayEquals(Oracles.textbookBpe(bpe, lower), content(tk.encode(lower)), "64 KiB a-z vs textbook BPE");
       counts.add("long pieces agree with textbook BPE", 2);
     } else {
       assertArrayEquals(new int[] {tk.unknownId()}, content(t), "a piece over the WordPiece limit is one unknown");
-      WordPieceSegmenter w = (WordPieceSegmenter) Models.segmenter(kind);
-      WordPieceSegmenter wide = WordPieceSegmenter.of(w.tokens(), w.reservedCount(), w.settings().withMaxPieceLength(MIB));
-      Tokenizer wtk = Models.tokenizer(kind, "nfc", wide);
+      Tokenizer wtk = WordPiece.withMaxPieceLength(tk, MIB);
       hostile.encodeChecked(wtk, "1 MiB without spaces, WordPiece piece limit 1 MiB", text);
       int[] got = content(hostile.encodeChecked(wtk, "64 KiB a-z, WordPiece piece limit 1 MiB", lower));
-      assertArrayEquals(Oracles.greedyWordPiece(wide, lower), got, "64 KiB a-z vs naive greedy");
+      assertArrayEquals(Oracles.greedyWordPiece(wtk, lower), got, "64 KiB a-z vs naive greedy");
       assertTrue(got.length > 1000, "a-z is covered by the vocabulary: " + got.length + " tokens");
       counts.add("long pieces agree with naive greedy WordPiece");
     }
@@ -67,16 +64,15 @@ class HostileInputTest {
     Tokens t = hostile.oneMebibyteOfOneCharacter(tk);
     String as = "a".repeat(MIB);
     if (kind == Models.Kind.BPE) {
-      assertArrayEquals(Oracles.textbookBpe((BpeSegmenter) Models.segmenter(kind), as), content(t),
+      assertArrayEquals(Oracles.textbookBpe(Models.trained(kind), as), content(t),
           "1 MiB of 'a' vs textbook BPE");
       counts.add("long pieces agree with textbook BPE");
     } else {
       assertArrayEquals(new int[] {tk.unknownId()}, content(t));
-      WordPieceSegmenter w = (WordPieceSegmenter) Models.segmenter(kind);
-      WordPieceSegmenter wide = WordPieceSegmenter.of(w.tokens(), w.reservedCount(), w.settings().withMaxPieceLength(MIB));
+      Tokenizer wide = WordPiece.withMaxPieceLength(tk, MIB);
       String quarter = as.substring(0, MIB / 4);
       assertArrayEquals(Oracles.greedyWordPiece(wide, quarter), content(hostile.encodeChecked(
-          Models.tokenizer(kind, "nfc", wide), "256 KiB of 'a', piece limit 1 MiB", quarter)));
+          wide, "256 KiB of 'a', piece limit 1 MiB", quarter)));
       counts.add("long pieces agree with naive greedy WordPiece");
     }
   }

@@ -5,14 +5,14 @@ import dev.morsel.tokenize.hardening.kit.*;
 import dev.morsel.tokenize.Pipeline;
 import dev.morsel.tokenize.Tokenizer;
 import dev.morsel.tokenize.Tokenizers;
-import dev.morsel.tokenize.bpe.BpeSegmenter;
+import dev.morsel.tokenize.bpe.Bpe;
 import dev.morsel.tokenize.bpe.BpeLearner;
 import dev.morsel.tokenize.normalize.Normalization;
 import dev.morsel.tokenize.split.Splitting;
 import dev.morsel.tokenize.testkit.Europarl;
 import dev.morsel.tokenize.train.PieceCounter;
 import dev.morsel.tokenize.train.PieceCounts;
-import dev.morsel.tokenize.wordpiece.WordPieceSegmenter;
+import dev.morsel.tokenize.wordpiece.WordPiece;
 import dev.morsel.tokenize.wordpiece.WordPieceLearner;
 import java.util.ArrayList;
 import java.util.List;
@@ -25,7 +25,7 @@ import java.util.List;
  * {@link Spellings} reserved at ids 0..3.
  *
  * <p>Adding a segmenter: a module with a new segmenter (the unigram module, for example) writes its
- * own {@code Models} like this one, with an entry in {@link Kind} and a case in {@link #segmenter}
+ * own {@code Models} like this one, with an entry in {@link Kind} and a case in {@link #trained}
  * and {@link #subject}; the harness classes of the api test-jar ({@link TokenizerProperties},
  * {@link ModelCorruption}, {@link SharedUse}, {@link HardText}) need no change, and the test
  * classes here are copied with their {@code @EnumSource} pointing at the new {@code Kind}.
@@ -49,14 +49,14 @@ final class Models {
   private static final class Trained {
     static final PieceCounts PIECES = PieceCounter.builder().pipeline(Pipeline.defaults()).threads(2).build()
         .count(Europarl.bodies().subList(0, BODIES));
-    static final BpeSegmenter BPE = BpeLearner.builder().vocabularySize(VOCABULARY).reservedTokens(Spellings.ALL)
+    static final Tokenizer BPE = BpeLearner.builder().vocabularySize(VOCABULARY).reservedTokens(Spellings.ALL)
         .threads(2).build().train(PIECES);
-    static final WordPieceSegmenter WORDPIECE = WordPieceLearner.builder().vocabularySize(VOCABULARY)
+    static final Tokenizer WORDPIECE = WordPieceLearner.builder().vocabularySize(VOCABULARY)
         .reservedTokens(Spellings.ALL).build().train(PIECES);
   }
 
-  /** The trained segmenter of {@code kind}. */
-  static dev.morsel.tokenize.spi.Segmenter segmenter(Kind kind) {
+  /** The learned tokenizer of {@code kind}: default pipeline, no framing. */
+  static Tokenizer trained(Kind kind) {
     switch (kind) {
       case BPE: return Trained.BPE;
       case WORDPIECE: return Trained.WORDPIECE;
@@ -64,18 +64,15 @@ final class Models {
     }
   }
 
-  /** A tokenizer over {@code kind} with normalization {@code form}, rule splitting and the test template. */
+  /**
+   * The learned model of {@code kind} with normalization {@code form}, rule splitting and the test
+   * template: assembled on purpose with other pipelines than the one it was learned with, to run the
+   * properties under every normalization.
+   */
   static Tokenizer tokenizer(Kind kind, String form) {
-    dev.morsel.tokenize.spi.Segmenter s = segmenter(kind);
-    dev.morsel.tokenize.ReservedTokens reserved = kind == Kind.BPE ? Trained.BPE.reservedTokens()
-        : Trained.WORDPIECE.reservedTokens();
-    return Tokenizers.of(Pipeline.of(Normalization.parse(form), Splitting.runs()), s, reserved, Spellings.template());
-  }
-
-  /** Same as {@link #tokenizer} over a given segmenter instance of the kind. */
-  static Tokenizer tokenizer(Kind kind, String form, dev.morsel.tokenize.spi.Segmenter s) {
-    return Tokenizers.of(Pipeline.of(Normalization.parse(form), Splitting.runs()), s, tokenizer(kind, form)
-        .reservedTokens(), Spellings.template());
+    Tokenizer t = trained(kind);
+    return Tokenizers.of(Pipeline.of(Normalization.parse(form), Splitting.runs()), Tokenizers.segmenterOf(t),
+        t.reservedTokens(), Spellings.template());
   }
 
   /**
@@ -87,13 +84,12 @@ final class Models {
     Tokenizer main = tokenizer(kind, form);
     Subject s = Subject.of(kind.name().toLowerCase(java.util.Locale.ROOT) + " " + form, main, kind == Kind.BPE);
     if (kind == Kind.BPE) {
-      s.variant("cache off", tokenizer(kind, form, Trained.BPE.withCacheEntries(0)));
-      s.variant("two-entry cache", tokenizer(kind, form, Trained.BPE.withCacheEntries(2)));
-      s.variant("fresh instance (cold cache)", tokenizer(kind, form, Trained.BPE.withCacheEntries(1024)));
+      s.variant("cache off", Bpe.withCacheEntries(main, 0));
+      s.variant("two-entry cache", Bpe.withCacheEntries(main, 2));
+      s.variant("fresh instance (cold cache)", Bpe.withCacheEntries(main, 1024));
     } else {
-      WordPieceSegmenter w = Trained.WORDPIECE;
-      s.variant("fresh instance", tokenizer(kind, form, WordPieceSegmenter.of(w.tokens(), w.reservedCount(),
-          w.settings())));
+      // the same piece limit: a fresh segmenter rebuilt from the token list
+      s.variant("fresh instance", WordPiece.withMaxPieceLength(main, WordPiece.maxPieceLength(main)));
     }
     return s;
   }

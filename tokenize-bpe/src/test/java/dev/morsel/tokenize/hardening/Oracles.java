@@ -1,9 +1,11 @@
 package dev.morsel.tokenize.hardening;
 
-import dev.morsel.tokenize.bpe.BpeSegmenter;
-import dev.morsel.tokenize.wordpiece.WordPieceSegmenter;
+import dev.morsel.tokenize.Tokenizer;
+import dev.morsel.tokenize.bpe.Bpe;
+import dev.morsel.tokenize.wordpiece.WordPiece;
 import it.unimi.dsi.fastutil.ints.IntArrayList;
 import java.nio.charset.StandardCharsets;
+import java.util.ArrayList;
 import java.util.HashMap;
 import java.util.List;
 import java.util.Map;
@@ -21,13 +23,15 @@ final class Oracles {
    * with the lowest merge rank and merge all its occurrences, left to right, without overlap.
    * Merging every occurrence of the lowest-ranked pair in one pass equals merging the leftmost one
    * at a time, because a merge only creates pairs of higher rank than its own. Vocabulary layout as
-   * documented by {@link BpeSegmenter}: reserved ids, then 256 byte ids, then one id per merge rank.
+   * documented by {@link Bpe}: reserved ids, then 256 byte ids, then one id per merge rank.
    */
-  static int[] textbookBpe(BpeSegmenter bpe, String normalizedPiece) {
+  static int[] textbookBpe(Tokenizer bpe, String normalizedPiece) {
     int k = bpe.reservedTokens().size();
     Map<Long, Integer> rank = new HashMap<>();
-    for (int r = 0; r < bpe.mergeCount(); r++) {
-      rank.put(((long) bpe.mergeLeft(r) << 32) | bpe.mergeRight(r), r);
+    int[][] merges = new int[Bpe.mergeCount(bpe)][];
+    for (int r = 0; r < merges.length; r++) {
+      merges[r] = Bpe.merge(bpe, r);
+      rank.put(((long) merges[r][0] << 32) | merges[r][1], r);
     }
     byte[] bytes = normalizedPiece.getBytes(StandardCharsets.UTF_8);
     int[] ids = new int[bytes.length];
@@ -46,8 +50,8 @@ final class Oracles {
       if (best == Integer.MAX_VALUE) {
         break;
       }
-      int left = bpe.mergeLeft(best);
-      int right = bpe.mergeRight(best);
+      int left = merges[best][0];
+      int right = merges[best][1];
       int merged = k + 256 + best;
       int w = 0;
       for (int i = 0; i < n; i++) {
@@ -69,10 +73,13 @@ final class Oracles {
    * (word-initial at the start, continuation after); if none matches anywhere, or the piece is
    * longer than the limit, the whole piece is the unknown token.
    */
-  static int[] greedyWordPiece(WordPieceSegmenter wp, String piece) {
-    List<String> tokens = wp.tokens();
-    String marker = wp.settings().marker();
-    int reserved = wp.reservedCount();
+  static int[] greedyWordPiece(Tokenizer wp, String piece) {
+    List<String> tokens = new ArrayList<>();
+    for (int id = 0; id < wp.vocabularySize(); id++) {
+      tokens.add(wp.token(id));
+    }
+    String marker = WordPiece.marker(wp);
+    int reserved = wp.reservedTokens().size();
     Map<String, Integer> initial = new HashMap<>();
     Map<String, Integer> continuation = new HashMap<>();
     int longest = 0;
@@ -87,7 +94,7 @@ final class Oracles {
       }
     }
     int unknown = reserved;
-    if (piece.length() > wp.settings().maxPieceLength()) {
+    if (piece.length() > WordPiece.maxPieceLength(wp)) {
       return new int[] {unknown};
     }
     IntArrayList out = new IntArrayList();

@@ -5,7 +5,7 @@ import dev.morsel.tokenize.hardening.kit.*;
 import static org.junit.jupiter.api.Assertions.assertTrue;
 
 import dev.morsel.tokenize.Tokenizer;
-import dev.morsel.tokenize.bpe.BpeSegmenter;
+import dev.morsel.tokenize.bpe.Bpe;
 import java.util.ArrayList;
 import java.util.List;
 import java.util.SplittableRandom;
@@ -40,9 +40,8 @@ class SharedTokenizerConcurrencyTest {
     Tokenizer shared;
     Tokenizer reference;
     if (kind == Models.Kind.BPE) {
-      BpeSegmenter b = (BpeSegmenter) Models.segmenter(kind);
-      shared = Models.tokenizer(kind, "nfkc", b.withCacheEntries(64));
-      reference = Models.tokenizer(kind, "nfkc", b.withCacheEntries(0));
+      shared = Bpe.withCacheEntries(Models.tokenizer(kind, "nfkc"), 64);
+      reference = Bpe.withCacheEntries(Models.tokenizer(kind, "nfkc"), 0);
     } else {
       shared = Models.tokenizer(kind, "nfkc");
       reference = dev.morsel.tokenize.Tokenizers.load(shared.toBytes());

@@ -12,13 +12,12 @@ import dev.morsel.tokenize.Tokenizer;
 import dev.morsel.tokenize.Tokenizers;
 import dev.morsel.tokenize.Tokens;
 import dev.morsel.tokenize.Template;
-import dev.morsel.tokenize.bpe.BpeSegmenter;
+import dev.morsel.tokenize.bpe.Bpe;
 import dev.morsel.tokenize.bpe.BpeLearner;
 import dev.morsel.tokenize.testkit.Europarl;
 import dev.morsel.tokenize.train.CorpusException;
 import dev.morsel.tokenize.train.PieceCounter;
 import dev.morsel.tokenize.train.PieceCounts;
-import dev.morsel.tokenize.wordpiece.WordPieceSegmenter;
 import dev.morsel.tokenize.wordpiece.WordPieceLearner;
 import java.io.IOException;
 import java.io.OutputStream;
@@ -50,8 +49,18 @@ class TrainerAbuseTest {
     return WordPieceLearner.builder().vocabularySize(vocabularySize).build();
   }
 
-  static Tokenizer tokenizer(dev.morsel.tokenize.spi.Segmenter s) {
-    return Tokenizers.of(Pipeline.defaults(), s, dev.morsel.tokenize.ReservedTokens.none(), Template.none());
+  /** The learned tokenizer itself: learners bind it to the counts' pipeline (here the default one). */
+  static Tokenizer tokenizer(Tokenizer t) {
+    assertEquals(Pipeline.defaults(), t.pipeline());
+    return t;
+  }
+
+  static java.util.List<String> tokens(Tokenizer t) {
+    java.util.List<String> out = new java.util.ArrayList<>();
+    for (int id = 0; id < t.vocabularySize(); id++) {
+      out.add(t.token(id));
+    }
+    return out;
   }
 
   @Test
@@ -73,16 +82,16 @@ class TrainerAbuseTest {
   @Test
   void oneDistinctPieceGivesWhatItCan() {
     PieceCounts one = PieceCounts.of(Map.of("ferry", 1000L));
-    BpeSegmenter b = bpe(32_000).train(one);
+    Tokenizer b = bpe(32_000).train(one);
     // f e r r y: four merges join it into one token, and then no pair is left
-    assertEquals(4, b.mergeCount());
+    assertEquals(4, Bpe.mergeCount(b));
     assertEquals(256 + 4, b.vocabularySize());
     assertEquals(1, tokenizer(b).encode("ferry").size());
-    WordPieceSegmenter w = wordPiece(32_000).train(one);
+    Tokenizer w = wordPiece(32_000).train(one);
     assertEquals(1, tokenizer(w).encode("ferry").size());
     assertTrue(w.vocabularySize() < 32_000);
     // a single one-character piece: no merge at all
-    assertEquals(0, bpe(300).train(PieceCounts.of(Map.of("a", 5L))).mergeCount());
+    assertEquals(0, Bpe.mergeCount(bpe(300).train(PieceCounts.of(Map.of("a", 5L)))));
     assertEquals(2, wordPiece(300).train(PieceCounts.of(Map.of("a", 5L))).vocabularySize()); // unknown + "a"
   }
 
@@ -99,10 +108,10 @@ class TrainerAbuseTest {
   @Test
   void vocabularyLargerThanTheCorpusCanGiveStopsEarly() {
     PieceCounts small = PieceCounter.builder().threads(2).build().count(Europarl.bodies().subList(0, 20));
-    BpeSegmenter b = bpe(1_000_000).train(small);
+    Tokenizer b = bpe(1_000_000).train(small);
     assertTrue(b.vocabularySize() < 1_000_000, "vocabulary " + b.vocabularySize());
-    assertTrue(b.mergeCount() > 100);
-    WordPieceSegmenter w = wordPiece(1_000_000).train(small);
+    assertTrue(Bpe.mergeCount(b) > 100);
+    Tokenizer w = wordPiece(1_000_000).train(small);
     assertTrue(w.vocabularySize() < 1_000_000, "vocabulary " + w.vocabularySize());
     // what was learned still encodes the corpus losslessly
     String text = Europarl.bodies().get(3);
@@ -155,9 +164,9 @@ class TrainerAbuseTest {
     assertEquals(1, counts.count("the")); // only at the start of the line; every later one is " the"
     assertEquals(2 * repeats - 1, counts.count(" the"));
     assertEquals(repeats, counts.count(" Skarvøy"));
-    BpeSegmenter b = bpe(400).train(counts);
+    Tokenizer b = bpe(400).train(counts);
     assertEquals(1, tokenizer(b).encode(" Skarvøy").size());
-    WordPieceSegmenter w = wordPiece(400).train(counts);
+    Tokenizer w = wordPiece(400).train(counts);
     assertEquals(1, tokenizer(w).encode(" Skarvøy").size());
   }
 
@@ -171,14 +180,14 @@ class TrainerAbuseTest {
     small.forEach((piece, count) -> scaled.put(piece, count << 32));
     PieceCounts big = PieceCounts.of(scaled);
     assertTrue(big.count(0) > Integer.MAX_VALUE);
-    BpeSegmenter b1 = bpe(800).train(small);
-    BpeSegmenter b2 = bpe(800).train(big);
-    assertEquals(b1.mergeCount(), b2.mergeCount());
-    for (int r = 0; r < b1.mergeCount(); r++) {
-      assertEquals(b1.mergeLeft(r), b2.mergeLeft(r), "merge " + r);
-      assertEquals(b1.mergeRight(r), b2.mergeRight(r), "merge " + r);
+    Tokenizer b1 = bpe(800).train(small);
+    Tokenizer b2 = bpe(800).train(big);
+    assertEquals(Bpe.mergeCount(b1), Bpe.mergeCount(b2));
+    for (int r = 0; r < Bpe.mergeCount(b1); r++) {
+      assertEquals(Bpe.merge(b1, r)[0], Bpe.merge(b2, r)[0], "merge " + r);
+      assertEquals(Bpe.merge(b1, r)[1], Bpe.merge(b2, r)[1], "merge " + r);
     }
-    assertEquals(wordPiece(800).train(small).tokens(), wordPiece(800).train(big).tokens());
+    assertEquals(tokens(wordPiece(800).train(small)), tokens(wordPiece(800).train(big)));
   }
 
   @Test
@@ -246,9 +255,9 @@ class TrainerAbuseTest {
     IllegalArgumentException w = assertThrows(IllegalArgumentException.class, () -> wordPiece(400).train(single));
     assertTrue(w.getMessage().contains("maxPieceLength=100"), w.getMessage());
     // with the short lines, both train on those and give the documented result
-    BpeSegmenter bs = bpe(400).train(counts);
+    Tokenizer bs = bpe(400).train(counts);
     assertEquals(1, tokenizer(bs).encode(" ferry").size());
-    WordPieceSegmenter ws = wordPiece(400).train(counts);
+    Tokenizer ws = wordPiece(400).train(counts);
     assertEquals(1, tokenizer(ws).encode(" ferry").size());
   }
 
@@ -259,6 +268,6 @@ class TrainerAbuseTest {
     assertTrue(e.getMessage().contains("maxPieceBytes=1"), e.getMessage());
     PieceCounts c = PieceCounts.of(Map.of("ferry", 5L, "ferryboat", 5L));
     // pieces over 5 bytes are left out: only "ferry" is learned from
-    assertEquals(4, BpeLearner.builder().vocabularySize(300).maxPieceBytes(5).threads(1).build().train(c).mergeCount());
+    assertEquals(4, Bpe.mergeCount(BpeLearner.builder().vocabularySize(300).maxPieceBytes(5).threads(1).build().train(c)));
   }
 }

@@ -4,6 +4,7 @@ import static org.junit.jupiter.api.Assertions.assertTrue;
 
 import dev.morsel.tokenize.Tokenizers;
 import dev.morsel.tokenize.testkit.ModuleChecks;
+import dev.morsel.tokenize.testkit.PackageGraph;
 import dev.morsel.tokenize.train.Learners;
 import java.util.Set;
 import org.junit.jupiter.api.Test;
@@ -35,5 +36,13 @@ class ModuleDescriptorTest {
     // on the class path (how these tests run) the api's loader finds them by kind
     assertTrue(Tokenizers.kinds().containsAll(Set.of("bpe")), "kinds found: " + Tokenizers.kinds());
     assertTrue(Learners.schemes().contains("bpe"), "schemes found: " + Learners.schemes());
+  }
+
+  /** No package cycle, and other modules' classes only from the packages they export to this one ({@link PackageGraph}). */
+  @Test
+  void packagesFormNoCycleAndUseOnlyExportedPackages() {
+    PackageGraph g = PackageGraph.ofModuleUnderTest();
+    g.assertNoPackageCycles();
+    g.assertUsesOnlyExportedPackages("dev.morsel.tokenize.bpe");
   }
 }

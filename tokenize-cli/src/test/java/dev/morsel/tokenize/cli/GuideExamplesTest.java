@@ -16,13 +16,12 @@ import dev.morsel.tokenize.Tokenizers;
 import dev.morsel.tokenize.Tokens;
 import dev.morsel.tokenize.Truncation;
 import dev.morsel.tokenize.Trust;
-import dev.morsel.tokenize.bpe.BpeSegmenter;
+import dev.morsel.tokenize.bpe.Bpe;
 import dev.morsel.tokenize.bpe.BpeLearner;
 import dev.morsel.tokenize.normalize.Normalization;
 import dev.morsel.tokenize.train.PieceCounter;
 import dev.morsel.tokenize.train.PieceCounts;
 import dev.morsel.tokenize.unigram.UnigramLearner;
-import dev.morsel.tokenize.wordpiece.WordPieceSegmenter;
 import dev.morsel.tokenize.wordpiece.WordPieceLearner;
 import java.io.IOException;
 import java.io.InputStream;
@@ -76,7 +75,7 @@ class GuideExamplesTest {
 
   private static Tokenizer smallBpe(Pipeline pipeline, List<String> reserved) {
     PieceCounts counts = PieceCounter.builder().pipeline(pipeline).build().countFiles(List.of(corpus));
-    return Tokenizers.of(pipeline, BpeLearner.builder().vocabularySize(1000).reservedTokens(reserved).build().train(counts));
+    return BpeLearner.builder().vocabularySize(1000).reservedTokens(reserved).build().train(counts);
   }
 
   @Test
@@ -85,8 +84,7 @@ class GuideExamplesTest {
     // @start region="start"
     Pipeline pipeline = Pipeline.defaults();                          // NFC, class-run splitting
     PieceCounts counts = PieceCounter.builder().pipeline(pipeline).build().countFiles(List.of(corpus));
-    BpeSegmenter bpe = BpeLearner.builder().vocabularySize(1000).build().train(counts);
-    Tokenizer tokenizer = Tokenizers.of(pipeline, bpe);
+    Tokenizer tokenizer = BpeLearner.builder().vocabularySize(1000).build().train(counts); // encodes with pipeline
     tokenizer.save(modelFile);
 
     String text = "Can I take my kayak on the 07:40 to Oskevik?";
@@ -110,8 +108,8 @@ class GuideExamplesTest {
     // @start region="schemes"
     PieceCounts counts = PieceCounter.builder().build().countFiles(List.of(corpus));
     Map<String, Tokenizer> candidates = new LinkedHashMap<>();
-    candidates.put("bpe", Tokenizers.of(BpeLearner.builder().vocabularySize(1000).build().train(counts)));
-    candidates.put("wordpiece", Tokenizers.of(WordPieceLearner.builder().vocabularySize(1000).build().train(counts)));
+    candidates.put("bpe", BpeLearner.builder().vocabularySize(1000).build().train(counts));
+    candidates.put("wordpiece", WordPieceLearner.builder().vocabularySize(1000).build().train(counts));
     candidates.put("unigram", UnigramLearner.builder().vocabularySize(1000).build().train(counts));
 
     List<String> held = Files.readAllLines(heldOut);                 // lines the trainers never saw
@@ -294,20 +292,19 @@ class GuideExamplesTest {
   void tuning() {
     // @start region="tuning"
     PieceCounts counts = PieceCounter.builder().threads(2).build().countFiles(List.of(corpus));
-    BpeSegmenter bpe = BpeLearner.builder().vocabularySize(1000).threads(2).build().train(counts)
-        .withCacheEntries(1 << 18);                 // 262,144 pieces, shared by all threads; 0 = off
-    Tokenizer tokenizer = Tokenizers.of(bpe);
+    Tokenizer learned = BpeLearner.builder().vocabularySize(1000).threads(2).build().train(counts);
+    Tokenizer tokenizer = Bpe.withCacheEntries(learned, 1 << 18); // 262,144 pieces, shared by all threads; 0 = off
     // @end region="tuning"
-    Tokenizer nocache = Tokenizers.of(bpe.withCacheEntries(0));
+    Tokenizer nocache = Bpe.withCacheEntries(learned, 0);
     String text = "The MS Brannoch left Oskevik 35 minutes late and we missed our bus in Brisholm.";
-    assertEquals(1 << 18, bpe.cacheEntries());
+    assertEquals(1 << 18, Bpe.cacheEntries(tokenizer));
     for (int round = 0; round < 3; round++) {        // cache hits and misses give identical results
       assertEquals(nocache.encode(text), tokenizer.encode(text));
     }
     // the cache is a runtime setting: it changes no result, so it does not change the fingerprint
     assertEquals(tokenizer.fingerprint(), nocache.fingerprint());
     assertEquals(tokenizer.vocabularySize(), nocache.vocabularySize());
-    assertThrows(IllegalArgumentException.class, () -> bpe.withCacheEntries(-1));
+    assertThrows(IllegalArgumentException.class, () -> Bpe.withCacheEntries(learned, -1));
   }
 
   @Test

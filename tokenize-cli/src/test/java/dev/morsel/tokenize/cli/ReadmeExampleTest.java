@@ -9,7 +9,6 @@ import dev.morsel.tokenize.Tokenizer;
 import dev.morsel.tokenize.Tokenizers;
 import dev.morsel.tokenize.Tokens;
 import dev.morsel.tokenize.Trust;
-import dev.morsel.tokenize.bpe.BpeSegmenter;
 import dev.morsel.tokenize.bpe.BpeLearner;
 import dev.morsel.tokenize.train.PieceCounter;
 import dev.morsel.tokenize.train.PieceCounts;
@@ -43,9 +42,9 @@ class ReadmeExampleTest {
     PieceCounts counts = PieceCounter.builder().pipeline(pipeline).build().countFiles(List.of(corpus));
 
     // Train byte-level BPE with one reserved token of your own spelling, and save the model.
-    BpeSegmenter bpe = BpeLearner.builder().vocabularySize(2000).reservedTokens(List.of("⟨agent⟩"))
+    // The tokenizer encodes with the pipeline the pieces were counted with.
+    Tokenizer tokenizer = BpeLearner.builder().vocabularySize(2000).reservedTokens(List.of("⟨agent⟩"))
         .build().train(counts);
-    Tokenizer tokenizer = Tokenizers.of(pipeline, bpe);
     tokenizer.save(modelFile);
 
     // Encode: ids plus [start, end) offsets into the original text.

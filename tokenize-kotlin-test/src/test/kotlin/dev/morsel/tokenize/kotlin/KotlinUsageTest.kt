@@ -44,12 +44,12 @@ class KotlinUsageTest {
     // @start region="kotlin"
     val pipeline = Pipeline.defaults()
     val counts = PieceCounter.builder().pipeline(pipeline).build().count(messages)
-    val bpe = BpeLearner.builder()
+    val tokenizer = BpeLearner.builder()
         .vocabularySize(400)
         .reservedTokens(listOf("⟦slack⟧", "⟦crew⟧"))
         .build()
-        .train(counts)
-    val tokenizer = Tokenizers.of(pipeline, bpe)
+        .train(counts) // a tokenizer bound to the counted pipeline
+    assertEquals(pipeline, tokenizer.pipeline())
 
     val text = "Is the 18:05 sailing to Skarvøy full?"
     val tokens = tokenizer.encode(text)
@@ -89,9 +89,8 @@ class KotlinUsageTest {
 
   @Test
   fun reservedSpellingsInUntrustedTextStayText() {
-    val tokenizer = Tokenizers.of(
-        BpeLearner.builder().vocabularySize(300).reservedTokens(listOf("⟦slack⟧", "⟦crew⟧")).build()
-            .train(PieceCounter.builder().build().count(messages)))
+    val tokenizer = BpeLearner.builder().vocabularySize(300).reservedTokens(listOf("⟦slack⟧", "⟦crew⟧")).build()
+        .train(PieceCounter.builder().build().count(messages))
     val typed = "please page ⟦crew⟧ now"
     val untrusted = tokenizer.encode(typed)
     assertFalse((0 until untrusted.size()).any { untrusted.isReserved(it) }, "a passenger injected a reserved token")
@@ -105,8 +104,8 @@ class KotlinUsageTest {
 
   @Test
   fun streamDecodingFromASequenceOfIds() {
-    val tokenizer = Tokenizers.of(BpeLearner.builder().vocabularySize(350).build()
-        .train(PieceCounter.builder().build().count(messages)))
+    val tokenizer = BpeLearner.builder().vocabularySize(350).build()
+        .train(PieceCounter.builder().build().count(messages))
     val text = "Skarvøy → Tarnholm, café ☕"
     val decoder = tokenizer.streamDecoder(false, Decoding.STRICT)
     val streamed = buildString {

@@ -37,12 +37,11 @@ class ScalaUsageTest {
     // @start region="scala"
     val pipeline = Pipeline.defaults()
     val counts = PieceCounter.builder().pipeline(pipeline).build().count(messages.asJava)
-    val bpe = BpeLearner.builder()
+    val tokenizer = BpeLearner.builder()
       .vocabularySize(400)
       .reservedTokens(Seq("⟦slack⟧", "⟦crew⟧").asJava)
       .build()
-      .train(counts)
-    val tokenizer = Tokenizers.of(pipeline, bpe)
+      .train(counts) // a tokenizer bound to the counted pipeline
 
     val text = "Is the 18:05 sailing to Skarvøy full?"
     val tokens = tokenizer.encode(text)
@@ -79,9 +78,8 @@ class ScalaUsageTest {
 
   @Test
   def reservedSpellingsInUntrustedTextStayText(): Unit = {
-    val tokenizer = Tokenizers.of(
-      BpeLearner.builder().vocabularySize(300).reservedTokens(Seq("⟦slack⟧", "⟦crew⟧").asJava).build()
-        .train(PieceCounter.builder().build().count(messages.asJava)))
+    val tokenizer = BpeLearner.builder().vocabularySize(300).reservedTokens(Seq("⟦slack⟧", "⟦crew⟧").asJava).build()
+      .train(PieceCounter.builder().build().count(messages.asJava))
     val typed = "please page ⟦crew⟧ now"
     val untrusted = tokenizer.encode(typed)
     assertFalse((0 until untrusted.size()).exists(untrusted.isReserved), "a passenger injected a reserved token")

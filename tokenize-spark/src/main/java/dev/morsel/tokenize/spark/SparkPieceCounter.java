@@ -18,7 +18,7 @@ import scala.Tuple2;
 /**
  * Counts training pieces on Apache Spark, with exactly the counts the single-JVM
  * {@link PieceCounter} gives for the same texts and pipeline, and brings back a memory-bounded
- * table as the {@link PieceCounts} every trainer takes. Immutable and thread-safe; build one with
+ * table as the {@link PieceCounts} every learner takes. Immutable and thread-safe; build one with
  * {@link #builder()}.
  *
  * <h2>What runs where</h2>
@@ -44,7 +44,7 @@ import scala.Tuple2;
  * <pre>{@code
  * Dataset<String> messages = spark.read().textFile("hdfs:///ferry/messages/*.txt");
  * PieceCounts counts = SparkPieceCounter.builder().minCount(2).build().count(messages);
- * BpeSegmenter bpe = BpeLearner.builder().vocabularySize(32_000).build().train(counts);
+ * Tokenizer bpe = BpeLearner.builder().vocabularySize(32_000).build().train(counts); // encodes with the counted pipeline
  * }</pre>
  *
  * @since 0.1.0

@@ -4,6 +4,8 @@ import static org.junit.jupiter.api.Assertions.assertArrayEquals;
 import static org.junit.jupiter.api.Assertions.assertEquals;
 import static org.junit.jupiter.api.Assertions.assertTrue;
 
+import dev.morsel.tokenize.wordpiece.internal.WordPieceSegmenter;
+import dev.morsel.tokenize.wordpiece.internal.WordPieceTraining;
 import dev.morsel.tokenize.testkit.OffsetInvariants;
 import dev.morsel.tokenize.train.PieceCounts;
 import java.nio.charset.StandardCharsets;
@@ -27,7 +29,7 @@ class EuroparlTest {
     // documented size of the sample: 17,597 lines
     assertEquals(17_597, bodies.size());
     PieceCounts counts = PieceCounts.of(TestSupport.countPieces(bodies.subList(0, 2000)));
-    model = WordPieceLearner.builder().vocabularySize(3000).maxAlphabet(300).build().train(counts);
+    model = WordPieceTraining.builder().vocabularySize(3000).maxAlphabet(300).build().segmenter(counts);
   }
 
   @Test

@@ -1,5 +1,7 @@
 package dev.morsel.tokenize.wordpiece;
 
+import dev.morsel.tokenize.wordpiece.internal.WordPieceSegmenter;
+import dev.morsel.tokenize.wordpiece.internal.WordPieceSettings;
 import dev.morsel.tokenize.testkit.Sections;
 import static org.junit.jupiter.api.Assertions.assertArrayEquals;
 import static org.junit.jupiter.api.Assertions.assertEquals;

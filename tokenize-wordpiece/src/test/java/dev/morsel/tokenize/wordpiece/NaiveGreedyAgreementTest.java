@@ -3,6 +3,8 @@ package dev.morsel.tokenize.wordpiece;
 import static org.junit.jupiter.api.Assertions.assertArrayEquals;
 import static org.junit.jupiter.api.Assertions.assertEquals;
 
+import dev.morsel.tokenize.wordpiece.internal.WordPieceSegmenter;
+import dev.morsel.tokenize.wordpiece.internal.WordPieceSettings;
 import dev.morsel.tokenize.testkit.OffsetInvariants;
 import java.util.ArrayList;
 import java.util.Arrays;

@@ -6,6 +6,9 @@ import static org.junit.jupiter.api.Assertions.assertFalse;
 import static org.junit.jupiter.api.Assertions.assertThrows;
 import static org.junit.jupiter.api.Assertions.assertTrue;
 
+import dev.morsel.tokenize.wordpiece.internal.WordPieceSegmenter;
+import dev.morsel.tokenize.wordpiece.internal.WordPieceSettings;
+import dev.morsel.tokenize.wordpiece.internal.WordPieceTraining;
 import dev.morsel.tokenize.train.PieceCounts;
 import java.util.ArrayList;
 import java.util.HashMap;
@@ -40,7 +43,7 @@ class WordPieceLearnerTest {
   void firstMergesMatchTheGainsComputedByHand() {
     // Gain count(ab) * ln(count(ab) * N / (count(a) * count(b))), N the total unit count: the change
     // of the unigram log-likelihood of the merged positions, probabilities held at their current
-    // estimates (derivation in the WordPieceLearner class notes; Schuster & Nakajima 2012 [1]).
+    // estimates (derivation in the WordPieceTraining class notes; Schuster & Nakajima 2012 [1]).
     // Worked by hand (natural logs to 3 places).
     // Corpus: ferry x5, fare x3, pier x2. Unit counts: f 8, p 2, ∘e 10, ∘r 15, ∘y 5, ∘a 3, ∘i 2;
     // N = 5*5 + 3*4 + 2*4 = 45.
@@ -56,7 +59,7 @@ class WordPieceLearnerTest {
     //   (∘e,∘r) 7 ln(7*38/(10*10)) = 7 ln 2.66 = 6.848   (∘r,∘ry) 5 ln(5*38/(10*5)) = 5 ln 3.8 = 6.675
     //   (f,∘a) 3 ln(3*38/24) = 4.674   (f,∘e) 5 ln(5*38/80) = 4.325   (∘a,∘r) 3 ln(3*38/30) = 4.005
     // 3rd: (∘e,∘r) -> "∘er" (6.848).
-    WordPieceSegmenter s = WordPieceLearner.builder().vocabularySize(1 + 7 + 3).build().train(ferryCorpus());
+    WordPieceSegmenter s = WordPieceTraining.builder().vocabularySize(1 + 7 + 3).build().segmenter(ferryCorpus());
     List<String> t = s.tokens();
     assertEquals(11, t.size());
     assertEquals(UNK, t.get(0));
@@ -79,8 +82,8 @@ class WordPieceLearnerTest {
     // 1st merge: (p,∘i) -> "pi" (0.5).
     // 2nd: (pi,∘e) is now 2/(2*10)=0.1; best is (f,∘a) -> "fa" (0.125).
     // 3rd: f now counts 5: (f,∘e)=5/(5*10)=0.1 ties (pi,∘e)=0.1; higher pair count wins -> "fe".
-    WordPieceSegmenter s = WordPieceLearner.builder().score(WordPieceLearner.Score.PAIR_RATIO)
-        .vocabularySize(1 + 7 + 3).build().train(ferryCorpus());
+    WordPieceSegmenter s = WordPieceTraining.builder().score(WordPieceTraining.Score.PAIR_RATIO)
+        .vocabularySize(1 + 7 + 3).build().segmenter(ferryCorpus());
     assertEquals(List.of("pi", "fa", "fe"), s.tokens().subList(8, 11));
     assertArrayEquals(new int[] {s.id("fe"), s.id(M + "r"), s.id(M + "r"), s.id(M + "y")},
         TestSupport.segmentOne(s, "ferry", 0, 5).ids.toIntArray());
@@ -91,28 +94,28 @@ class WordPieceLearnerTest {
     // With a floor of 3 the (p,∘i) pair (count 2) is never merged, although it has the best gain
     // (6.227, see the hand-worked example); merging stops when no pair of count >= 3 is left,
     // well before the asked 100 tokens.
-    WordPieceSegmenter s = WordPieceLearner.builder().minPairCount(3).vocabularySize(100).build().train(ferryCorpus());
+    WordPieceSegmenter s = WordPieceTraining.builder().minPairCount(3).vocabularySize(100).build().segmenter(ferryCorpus());
     assertEquals(-1, s.tokens().indexOf("pi"));
     assertTrue(s.vocabularySize() < 100, "size " + s.vocabularySize());
     // by hand: counts >= 3 only ever occur inside ferry (x5) and fare (x3), so both become single tokens
     assertEquals(1, TestSupport.segmentOne(s, "ferry", 0, 5).ids.size(), s.tokens().toString());
     assertEquals(1, TestSupport.segmentOne(s, "fare", 0, 4).ids.size(), s.tokens().toString());
-    assertEquals(2, WordPieceLearner.builder().minPairCount(2).build().minPairCount());
-    assertEquals(WordPieceLearner.Score.LIKELIHOOD_GAIN, WordPieceLearner.builder().build().score());
+    assertEquals(2, WordPieceTraining.builder().minPairCount(2).build().minPairCount());
+    assertEquals(WordPieceTraining.Score.LIKELIHOOD_GAIN, WordPieceTraining.builder().build().score());
   }
 
   @Test
   void reservedTokensComeFirstAndListenerReportsMerges() {
     List<String> stages = new ArrayList<>();
     long[] last = {-1, -1};
-    WordPieceSegmenter s = WordPieceLearner.builder().vocabularySize(2 + 1 + 7 + 2)
-        .reservedTokens(List.of("start-of-voyage", "end-of-voyage"))
+    WordPieceSegmenter s = WordPieceTraining.builder().vocabularySize(2 + 1 + 7 + 2)
+        .reservedTokens(List.of("\u27e8voyage\u27e9", "\u27e8/voyage\u27e9"))
         .listener((stage, done, total, detail) -> {
           stages.add(stage);
           last[0] = done;
           last[1] = total;
-        }).build().train(ferryCorpus());
-    assertEquals(List.of("start-of-voyage", "end-of-voyage", UNK), s.tokens().subList(0, 3));
+        }).build().segmenter(ferryCorpus());
+    assertEquals(List.of("\u27e8voyage\u27e9", "\u27e8/voyage\u27e9", UNK), s.tokens().subList(0, 3));
     assertEquals(2, s.reservedCount());
     assertEquals(List.of("merges", "merges"), stages);
     assertEquals(2, last[0]);
@@ -124,7 +127,7 @@ class WordPieceLearnerTest {
     Map<String, Long> m = new HashMap<>();
     m.put("ferry", 5L);
     m.put("fez", 1L);
-    WordPieceSegmenter s = WordPieceLearner.builder().vocabularySize(100).maxAlphabet(4).build().train(PieceCounts.of(m));
+    WordPieceSegmenter s = WordPieceTraining.builder().vocabularySize(100).maxAlphabet(4).build().segmenter(PieceCounts.of(m));
     for (String tok : s.tokens()) {
       assertFalse(tok.contains("z"), tok);
     }
@@ -134,22 +137,22 @@ class WordPieceLearnerTest {
   @Test
   void badInputIsRejectedClearly() {
     IllegalArgumentException small = assertThrows(IllegalArgumentException.class,
-        () -> WordPieceLearner.builder().vocabularySize(5).build().train(ferryCorpus()));
+        () -> WordPieceTraining.builder().vocabularySize(5).build().segmenter(ferryCorpus()));
     assertTrue(small.getMessage().contains("vocabularySize=5"), small.getMessage());
     IllegalArgumentException empty = assertThrows(IllegalArgumentException.class,
-        () -> WordPieceLearner.builder().build().train(PieceCounts.empty()));
+        () -> WordPieceTraining.builder().build().segmenter(PieceCounts.empty()));
     assertTrue(empty.getMessage().contains("minCount"), empty.getMessage());
     assertThrows(IllegalArgumentException.class,
-        () -> WordPieceLearner.builder().minCount(10).build().train(ferryCorpus()));
-    assertThrows(IllegalArgumentException.class, () -> WordPieceLearner.builder().vocabularySize(1));
-    assertThrows(IllegalArgumentException.class, () -> WordPieceLearner.builder().minCount(0));
-    assertThrows(IllegalArgumentException.class, () -> WordPieceLearner.builder().maxAlphabet(0));
+        () -> WordPieceTraining.builder().minCount(10).build().segmenter(ferryCorpus()));
+    assertThrows(IllegalArgumentException.class, () -> WordPieceTraining.builder().vocabularySize(1));
+    assertThrows(IllegalArgumentException.class, () -> WordPieceTraining.builder().minCount(0));
+    assertThrows(IllegalArgumentException.class, () -> WordPieceTraining.builder().maxAlphabet(0));
     IllegalArgumentException floor = assertThrows(IllegalArgumentException.class,
-        () -> WordPieceLearner.builder().minPairCount(0));
+        () -> WordPieceTraining.builder().minPairCount(0));
     assertTrue(floor.getMessage().contains("minPairCount=0"), floor.getMessage());
-    assertThrows(NullPointerException.class, () -> WordPieceLearner.builder().score(null));
-    assertThrows(IllegalArgumentException.class, () -> WordPieceLearner.builder().reservedTokens(List.of("a", "a")));
-    assertThrows(IllegalArgumentException.class, () -> WordPieceLearner.builder().reservedTokens(List.of(UNK)).build());
+    assertThrows(NullPointerException.class, () -> WordPieceTraining.builder().score(null));
+    assertThrows(IllegalArgumentException.class, () -> WordPieceTraining.builder().reservedTokens(List.of("a", "a")));
+    assertThrows(IllegalArgumentException.class, () -> WordPieceTraining.builder().reservedTokens(List.of(UNK)).build());
   }
 
   @Test
@@ -160,8 +163,8 @@ class WordPieceLearnerTest {
     m.put("quay", 9L);
     m.put("dock", 4L);
     m.put("dock?", 7L);
-    WordPieceSegmenter s = WordPieceLearner.builder().settings(st).reservedTokens(List.of("ock")).vocabularySize(200)
-        .build().train(PieceCounts.of(m));
+    WordPieceSegmenter s = WordPieceTraining.builder().settings(st).reservedTokens(List.of("ock")).vocabularySize(200)
+        .build().segmenter(PieceCounts.of(m));
     // "qu" is the continuation form of 'u'; the word-initial merge q + u is blocked, so "quay"
     // starts with the word-initial "q" (equal to the marker, hence word-initial)
     assertTrue(s.isContinuation(s.id("qu")));
@@ -201,9 +204,9 @@ class WordPieceLearnerTest {
     boolean gain = rnd.nextInt(4) != 0;
     long floor = rnd.nextInt(3) == 0 ? 1 + rnd.nextInt(6) : 1;
     List<String> expected = textbook(corpus, reserved, extra, gain, floor);
-    WordPieceSegmenter s = WordPieceLearner.builder().reservedTokens(reserved).minPairCount(floor)
-        .score(gain ? WordPieceLearner.Score.LIKELIHOOD_GAIN : WordPieceLearner.Score.PAIR_RATIO)
-        .vocabularySize(Math.max(2, alphabetEnd(corpus, reserved) + extra)).build().train(PieceCounts.of(corpus));
+    WordPieceSegmenter s = WordPieceTraining.builder().reservedTokens(reserved).minPairCount(floor)
+        .score(gain ? WordPieceTraining.Score.LIKELIHOOD_GAIN : WordPieceTraining.Score.PAIR_RATIO)
+        .vocabularySize(Math.max(2, alphabetEnd(corpus, reserved) + extra)).build().segmenter(PieceCounts.of(corpus));
     assertEquals(expected, s.tokens(), "seed " + seed + " corpus " + corpus + " extra " + extra + " gain " + gain
         + " floor " + floor);
   }

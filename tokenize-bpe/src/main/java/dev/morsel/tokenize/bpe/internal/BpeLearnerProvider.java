@@ -1,29 +1,24 @@
 package dev.morsel.tokenize.bpe.internal;
 
-import dev.morsel.tokenize.Tokenizer;
-import dev.morsel.tokenize.Tokenizers;
-import dev.morsel.tokenize.bpe.BpeLearner;
-import dev.morsel.tokenize.bpe.BpeSegmenter;
 import dev.morsel.tokenize.train.Learner;
 import dev.morsel.tokenize.train.LearnerOption;
 import dev.morsel.tokenize.train.LearnerOptions;
 import dev.morsel.tokenize.train.LearnerProvider;
 import dev.morsel.tokenize.train.LearnerSettings;
-import dev.morsel.tokenize.train.PieceCounts;
 import java.util.List;
 
-/** Makes {@link BpeLearner}s by scheme name; registered for {@link java.util.ServiceLoader}. */
+/** Makes BPE learners by scheme name; registered for {@link java.util.ServiceLoader}. */
 public final class BpeLearnerProvider implements LearnerProvider {
   static final String MIN_PAIR_COUNT = "min-pair-count";
   static final String MAX_TOKEN_BYTES = "max-token-bytes";
   static final String MAX_PIECE_BYTES = "max-piece-bytes";
 
   private static final List<LearnerOption> OPTIONS = List.of(
-      LearnerOption.of(MIN_PAIR_COUNT, Long.toString(BpeLearner.DEFAULT_MIN_PAIR_COUNT),
+      LearnerOption.of(MIN_PAIR_COUNT, Long.toString(BpeTraining.DEFAULT_MIN_PAIR_COUNT),
           "smallest count-weighted pair count worth a merge"),
-      LearnerOption.of(MAX_TOKEN_BYTES, Integer.toString(BpeLearner.DEFAULT_MAX_TOKEN_BYTES),
+      LearnerOption.of(MAX_TOKEN_BYTES, Integer.toString(BpeTraining.DEFAULT_MAX_TOKEN_BYTES),
           "longest token, in bytes of UTF-8 (2.." + BpeSegmenter.MAX_TOKEN_BYTES + ")"),
-      LearnerOption.of(MAX_PIECE_BYTES, Integer.toString(BpeLearner.DEFAULT_MAX_PIECE_BYTES),
+      LearnerOption.of(MAX_PIECE_BYTES, Integer.toString(BpeTraining.DEFAULT_MAX_PIECE_BYTES),
           "pieces longer than this many bytes of UTF-8 are left out of learning"));
 
   /** For {@link java.util.ServiceLoader}. */
@@ -46,9 +41,9 @@ public final class BpeLearnerProvider implements LearnerProvider {
 
   @Override
   public Learner learner(LearnerSettings settings, LearnerOptions options) {
-    BpeLearner learner = BpeLearner.builder()
+    return BpeTraining.builder()
         .vocabularySize(settings.vocabularySize())
-        .minPieceCount(settings.minCount())
+        .minCount(settings.minCount())
         .reservedTokens(settings.reservedTokens())
         .threads(settings.threads())
         .listener(settings.listener())
@@ -56,16 +51,5 @@ public final class BpeLearnerProvider implements LearnerProvider {
         .maxTokenBytes(options.intValue(MAX_TOKEN_BYTES, 2, BpeSegmenter.MAX_TOKEN_BYTES))
         .maxPieceBytes(options.intValue(MAX_PIECE_BYTES, 2, Integer.MAX_VALUE))
         .build();
-    return new Learner() {
-      @Override
-      public String scheme() {
-        return BpeSegmenter.KIND;
-      }
-
-      @Override
-      public Tokenizer train(PieceCounts counts) {
-        return Tokenizers.of(counts.pipeline(), learner.train(counts));
-      }
-    };
   }
 }

@@ -1,6 +1,5 @@
 package dev.morsel.tokenize.bpe.internal;
 
-import dev.morsel.tokenize.bpe.BpeSegmenter;
 import dev.morsel.tokenize.format.ModelSections;
 import dev.morsel.tokenize.spi.Segmenter;
 import dev.morsel.tokenize.spi.SegmenterProvider;

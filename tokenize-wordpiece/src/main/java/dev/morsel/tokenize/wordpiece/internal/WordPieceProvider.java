@@ -3,7 +3,6 @@ package dev.morsel.tokenize.wordpiece.internal;
 import dev.morsel.tokenize.format.ModelSections;
 import dev.morsel.tokenize.spi.Segmenter;
 import dev.morsel.tokenize.spi.SegmenterProvider;
-import dev.morsel.tokenize.wordpiece.WordPieceSegmenter;
 
 /**
  * Finds {@link WordPieceSegmenter} by kind {@value WordPieceSegmenter#KIND} through

@@ -1,11 +1,6 @@
-package dev.morsel.tokenize.bpe;
+package dev.morsel.tokenize.bpe.internal;
 
 import dev.morsel.tokenize.ReservedTokens;
-import dev.morsel.tokenize.bpe.internal.BpeSections;
-import dev.morsel.tokenize.bpe.internal.ByteSpelling;
-import dev.morsel.tokenize.bpe.internal.Encoder;
-import dev.morsel.tokenize.bpe.internal.PieceCache;
-import dev.morsel.tokenize.bpe.internal.Vocab;
 import dev.morsel.tokenize.format.ModelFormatException;
 import dev.morsel.tokenize.format.ModelSections;
 import dev.morsel.tokenize.format.ModelWriter;
@@ -96,7 +91,7 @@ public final class BpeSegmenter implements Segmenter {
     }
   }
 
-  static BpeSegmenter create(Vocab vocab, int cacheEntries) {
+  public static BpeSegmenter create(Vocab vocab, int cacheEntries) {
     ReservedTokens.Builder b = ReservedTokens.builder();
     for (int i = 0; i < vocab.reservedCount(); i++) {
       b.add(vocab.reserved().get(i), i);
@@ -379,6 +374,20 @@ public final class BpeSegmenter implements Segmenter {
     }
   }
 
+  /**
+   * Segments one piece with BPE-dropout at probability {@code p} (see {@link #withDropout}), drawing
+   * from {@code random}; {@code p = 0} is plain segmentation.
+   */
+  public void segmentDropout(CharSequence text, int start, int end, TokenSink sink, double p, SplittableRandom random) {
+    Objects.checkFromToIndex(start, end, text.length());
+    Objects.requireNonNull(random, "random");
+    if (p > 0) {
+      encoder.segmentDropout(text, start, end, sink, p, random);
+    } else {
+      encoder.segment(text, start, end, sink, cache);
+    }
+  }
+
   @Override
   public void decodeToken(int id, ByteSink out) {
     Objects.checkIndex(id, vocab.size());
@@ -411,7 +420,7 @@ public final class BpeSegmenter implements Segmenter {
   }
 
   /** Test and benchmark access to the two merge paths and the vocabulary. */
-  Encoder encoder() {
+  public Encoder encoder() {
     return encoder;
   }
 

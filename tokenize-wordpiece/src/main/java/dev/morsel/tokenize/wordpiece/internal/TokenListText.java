@@ -1,4 +1,4 @@
-package dev.morsel.tokenize.wordpiece;
+package dev.morsel.tokenize.wordpiece.internal;
 
 import dev.morsel.tokenize.format.ModelFormatException;
 import java.io.BufferedReader;

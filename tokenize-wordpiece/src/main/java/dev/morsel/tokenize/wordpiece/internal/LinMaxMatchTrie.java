@@ -1,4 +1,4 @@
-package dev.morsel.tokenize.wordpiece;
+package dev.morsel.tokenize.wordpiece.internal;
 
 import it.unimi.dsi.fastutil.ints.IntArrayList;
 import java.util.Arrays;
