@@ -38,13 +38,13 @@ public final class UnigramLearner {
   /** Default of {@link Builder#candidateMultiple}: a plain multiple of the pieces wanted. */
   public static final int DEFAULT_CANDIDATE_MULTIPLE = 8;
   /** Default of {@link Builder#maxTokenCodePoints}, in code points. */
-  public static final int DEFAULT_MAX_TOKEN_CODE_POINTS = 16;
+  public static final int DEFAULT_MAX_TOKEN_CODE_POINTS = 24;
   /** Default of {@link Builder#keepShare}: the fraction of the vocabulary each pruning round keeps. */
   public static final double DEFAULT_KEEP_SHARE = 0.7;
   /** Default of {@link Builder#emPasses}: EM passes per pruning round. */
-  public static final int DEFAULT_EM_PASSES = 2;
+  public static final int DEFAULT_EM_PASSES = 3;
   /** Default of {@link Builder#seedTableLimit}, in table entries (about 100 bytes each). */
-  public static final int DEFAULT_SEED_TABLE_LIMIT = 1_000_000;
+  public static final int DEFAULT_SEED_TABLE_LIMIT = 2_000_000;
   /** Largest {@link Builder#keepShare}: every round removes at least 1 % of the vocabulary. */
   static final double MAX_KEEP_SHARE = 0.99;
 
@@ -202,7 +202,10 @@ public final class UnigramLearner {
 
     /**
      * Entries of the seed substring table before rare ones are dropped (memory about 100 bytes an
-     * entry). Default 1,000,000, range 1,000..100,000,000.
+     * entry). Default {@value UnigramLearner#DEFAULT_SEED_TABLE_LIMIT}, range 1,000..100,000,000.
+     * Too small a table for the corpus costs much quality (on the whole Europarl sample, 750,000
+     * entries give 1.7 % more tokens per word and 500,000 give 16 % more; docs/unigram.md): raise it
+     * with the corpus.
      */
     public Builder seedTableLimit(int entries) {
       this.seedTableLimit = check("seedTableLimit", entries, 1000, 100_000_000);

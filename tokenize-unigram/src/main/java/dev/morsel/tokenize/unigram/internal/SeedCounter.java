@@ -12,7 +12,7 @@ import java.util.Set;
  * counted in one hash table. When the table exceeds {@code tableLimit} entries, multi-character
  * entries whose count is at most a threshold are dropped and the threshold doubles (lossy counting;
  * a substring first seen after a drop may be under-counted). Memory: about 100 bytes per entry (a
- * short String plus its table slot), so about 100 MB at the default limit of one million entries.
+ * short String plus its table slot), so about 200 MB at the default limit of two million entries.
  *
  * <p>Candidates are ranked by count × length in code points (longer frequent substrings save more
  * tokens), ties by string; the top {@code maxMulti} multi-character substrings are kept, and every
