@@ -142,9 +142,9 @@ public final class UnigramLearner {
     /**
      * Share of the current vocabulary that each pruning round keeps (single characters included;
      * the rest go, lowest loss first), never below the target size [1, section 3.2]. Unit: a
-     * fraction. Default {@value UnigramLearner#DEFAULT_KEEP_SHARE}, range (0, 0.99] (reason for the
-     * upper bound: each round runs EM over the whole corpus, and the rounds grow as
-     * 1 / (1 − share); chosen by measurement: docs/unigram.md).
+     * fraction. Default {@value UnigramLearner#DEFAULT_KEEP_SHARE} (chosen by measurement:
+     * docs/unigram.md), range (0, 0.99] (reason for the upper bound: each round runs EM over the
+     * whole corpus, and the number of rounds grows as 1 / (1 − share)).
      */
     public Builder keepShare(double share) {
       if (!(share > 0 && share <= MAX_KEEP_SHARE)) {
@@ -155,8 +155,8 @@ public final class UnigramLearner {
     }
 
     /**
-     * EM passes (one E-step and one M-step each) before every pruning round, and once more after the
-     * last one to set the final scores. Default {@value UnigramLearner#DEFAULT_EM_PASSES}, range
+     * EM passes (one E-step and one M-step each) before every pruning round, and as many again after
+     * the last round to set the final scores. Default {@value UnigramLearner#DEFAULT_EM_PASSES}, range
      * 1..100 (chosen by measurement: docs/unigram.md).
      */
     public Builder emPasses(int passes) {
