@@ -33,6 +33,21 @@ public final class UnigramLearner {
    */
   public static final int DEFAULT_MAX_PIECE_LENGTH = 4096;
 
+  // seed and pruning defaults, each chosen by the held-out grid in docs/unigram.md
+  // (UnigramSettingsGrid in tokenize-bench; Europarl sample, 8,000 ids)
+  /** Default of {@link Builder#candidateMultiple}: a plain multiple of the pieces wanted. */
+  public static final int DEFAULT_CANDIDATE_MULTIPLE = 8;
+  /** Default of {@link Builder#maxTokenCodePoints}, in code points. */
+  public static final int DEFAULT_MAX_TOKEN_CODE_POINTS = 24;
+  /** Default of {@link Builder#keepShare}: the fraction of the vocabulary each pruning round keeps. */
+  public static final double DEFAULT_KEEP_SHARE = 0.7;
+  /** Default of {@link Builder#emPasses}: EM passes per pruning round. */
+  public static final int DEFAULT_EM_PASSES = 3;
+  /** Default of {@link Builder#seedTableLimit}, in table entries (about 100 bytes each). */
+  public static final int DEFAULT_SEED_TABLE_LIMIT = 2_000_000;
+  /** Largest {@link Builder#keepShare}: every round removes at least 1 % of the vocabulary. */
+  static final double MAX_KEEP_SHARE = 0.99;
+
   private final Builder b;
 
   private UnigramLearner(Builder b) {
@@ -54,7 +69,7 @@ public final class UnigramLearner {
    */
   public UnigramModel train(PieceCounts counts) {
     Objects.requireNonNull(counts, "counts");
-    return new Training(b.vocabularySize, b.seedFactor, b.maxTokenLength, b.shrinkFactor, b.emIterations,
+    return new Training(b.vocabularySize, b.candidateMultiple, b.maxTokenCodePoints, b.keepShare, b.emPasses,
         b.rawBytes, b.reservedTokens, b.unknownToken, b.threads, b.seedTableLimit, b.maxPieceLength, b.listener).train(counts);
   }
 
@@ -65,15 +80,15 @@ public final class UnigramLearner {
    */
   public static final class Builder {
     private int vocabularySize = 8000;
-    private int seedFactor = 8;
-    private int maxTokenLength = 16;
-    private double shrinkFactor = 0.75;
-    private int emIterations = 2;
+    private int candidateMultiple = DEFAULT_CANDIDATE_MULTIPLE;
+    private int maxTokenCodePoints = DEFAULT_MAX_TOKEN_CODE_POINTS;
+    private double keepShare = DEFAULT_KEEP_SHARE;
+    private int emPasses = DEFAULT_EM_PASSES;
     private boolean rawBytes;
     private List<String> reservedTokens = List.of();
     private String unknownToken = UnigramModel.DEFAULT_UNKNOWN;
     private int threads = Math.max(1, Runtime.getRuntime().availableProcessors());
-    private int seedTableLimit = 1_000_000;
+    private int seedTableLimit = DEFAULT_SEED_TABLE_LIMIT;
     private int maxPieceLength = DEFAULT_MAX_PIECE_LENGTH;
     private TrainingListener listener = TrainingListener.NONE;
 
@@ -82,10 +97,10 @@ public final class UnigramLearner {
     private Builder copy() {
       Builder c = new Builder();
       c.vocabularySize = vocabularySize;
-      c.seedFactor = seedFactor;
-      c.maxTokenLength = maxTokenLength;
-      c.shrinkFactor = shrinkFactor;
-      c.emIterations = emIterations;
+      c.candidateMultiple = candidateMultiple;
+      c.maxTokenCodePoints = maxTokenCodePoints;
+      c.keepShare = keepShare;
+      c.emPasses = emPasses;
       c.rawBytes = rawBytes;
       c.reservedTokens = reservedTokens;
       c.unknownToken = unknownToken;
@@ -103,32 +118,49 @@ public final class UnigramLearner {
     }
 
     /**
-     * Seed size as a multiple of the number of pieces wanted: the seed keeps this many times as many
-     * multi-character substrings, so pruning has room to choose. Default 8, range 1..1000.
+     * Seed size as a multiple of the pieces wanted: the seed keeps {@code candidateMultiple × (vocabularySize
+     * − reserved ids)} multi-character substrings as candidates (plus every single character), so that
+     * pruning has that many to choose from. Unit: a plain multiple. Default
+     * {@value UnigramLearner#DEFAULT_CANDIDATE_MULTIPLE}, range 1..1000 (chosen by measurement:
+     * docs/unigram.md).
      */
-    public Builder seedFactor(int factor) {
-      this.seedFactor = check("seedFactor", factor, 1, 1000);
+    public Builder candidateMultiple(int multiple) {
+      this.candidateMultiple = check("candidateMultiple", multiple, 1, 1000);
       return this;
     }
 
-    /** Longest token learned, in code points. Default 16, range 1..64. */
-    public Builder maxTokenLength(int length) {
-      this.maxTokenLength = check("maxTokenLength", length, 1, 64);
+    /**
+     * Longest token learned, in code points (a surrogate pair counts once; a token holds at most
+     * twice as many UTF-16 units). Default {@value UnigramLearner#DEFAULT_MAX_TOKEN_CODE_POINTS},
+     * range 1..64 (chosen by measurement: docs/unigram.md).
+     */
+    public Builder maxTokenCodePoints(int codePoints) {
+      this.maxTokenCodePoints = check("maxTokenCodePoints", codePoints, 1, 64);
       return this;
     }
 
-    /** Fraction of the vocabulary kept by each pruning round [1]. Default 0.75, range (0, 1). */
-    public Builder shrinkFactor(double factor) {
-      if (!(factor > 0 && factor < 1)) {
-        throw new IllegalArgumentException("shrinkFactor=" + factor + " is outside (0, 1)");
+    /**
+     * Share of the current vocabulary that each pruning round keeps (single characters included;
+     * the rest go, lowest loss first), never below the target size [1, section 3.2]. Unit: a
+     * fraction. Default {@value UnigramLearner#DEFAULT_KEEP_SHARE} (chosen by measurement:
+     * docs/unigram.md), range (0, 0.99] (reason for the upper bound: each round runs EM over the
+     * whole corpus, and the number of rounds grows as 1 / (1 − share)).
+     */
+    public Builder keepShare(double share) {
+      if (!(share > 0 && share <= MAX_KEEP_SHARE)) {
+        throw new IllegalArgumentException("keepShare=" + share + " is outside (0, " + MAX_KEEP_SHARE + "]");
       }
-      this.shrinkFactor = factor;
+      this.keepShare = share;
       return this;
     }
 
-    /** EM iterations before each pruning round and at the end. Default 2, range 1..100. */
-    public Builder emIterations(int iterations) {
-      this.emIterations = check("emIterations", iterations, 1, 100);
+    /**
+     * EM passes (one E-step and one M-step each) before every pruning round, and as many again after
+     * the last round to set the final scores. Default {@value UnigramLearner#DEFAULT_EM_PASSES}, range
+     * 1..100 (chosen by measurement: docs/unigram.md).
+     */
+    public Builder emPasses(int passes) {
+      this.emPasses = check("emPasses", passes, 1, 100);
       return this;
     }
 
@@ -170,7 +202,10 @@ public final class UnigramLearner {
 
     /**
      * Entries of the seed substring table before rare ones are dropped (memory about 100 bytes an
-     * entry). Default 1,000,000, range 1,000..100,000,000.
+     * entry). Default {@value UnigramLearner#DEFAULT_SEED_TABLE_LIMIT}, range 1,000..100,000,000.
+     * Too small a table for the corpus costs much quality (on the whole Europarl sample, 750,000
+     * entries give 1.7 % more tokens per word and 500,000 give 16 % more; docs/unigram.md): raise it
+     * with the corpus.
      */
     public Builder seedTableLimit(int entries) {
       this.seedTableLimit = check("seedTableLimit", entries, 1000, 100_000_000);

@@ -21,17 +21,19 @@ import java.util.concurrent.Executors;
  * <p>Pruning: for each multi-character token t the loss is {@code c(t) · (log p(t) − log p(alt(t)))},
  * the drop in corpus log-likelihood if every expected occurrence of t were replaced by the best
  * (Viterbi) segmentation alt(t) of t's string without t itself [1, section 3.2]. The tokens with the
- * highest loss are kept, {@code shrinkFactor} of the vocabulary per round; single characters always
- * stay so every piece stays covered.
+ * highest loss are kept, {@code keepShare} of the vocabulary per round (at least one token goes);
+ * single characters always stay so every piece stays covered. {@code emPasses} EM passes run before
+ * each round and after the last; the seed keeps {@code candidateMultiple} times as many
+ * multi-character candidates as the target, each at most {@code maxTokenCodePoints} code points.
  *
  * <p>References: [1] Kudo (2018), "Subword Regularization", ACL 2018.
  */
 public final class Training {
   private final int vocabularySize;
-  private final int seedFactor;
-  private final int maxTokenLength;
-  private final double shrinkFactor;
-  private final int emIterations;
+  private final int candidateMultiple;
+  private final int maxTokenCodePoints;
+  private final double keepShare;
+  private final int emPasses;
   private final boolean rawBytes;
   private final List<String> reserved;
   private final String unknown;
@@ -41,14 +43,14 @@ public final class Training {
   private final TrainingListener listener;
 
   /** All settings already validated by the public builder. */
-  public Training(int vocabularySize, int seedFactor, int maxTokenLength, double shrinkFactor, int emIterations,
+  public Training(int vocabularySize, int candidateMultiple, int maxTokenCodePoints, double keepShare, int emPasses,
       boolean rawBytes, List<String> reserved, String unknown, int threads, int seedTableLimit,
       int maxPieceLength, TrainingListener listener) {
     this.vocabularySize = vocabularySize;
-    this.seedFactor = seedFactor;
-    this.maxTokenLength = maxTokenLength;
-    this.shrinkFactor = shrinkFactor;
-    this.emIterations = emIterations;
+    this.candidateMultiple = candidateMultiple;
+    this.maxTokenCodePoints = maxTokenCodePoints;
+    this.keepShare = keepShare;
+    this.emPasses = emPasses;
     this.rawBytes = rawBytes;
     this.reserved = List.copyOf(reserved);
     this.unknown = unknown;
@@ -104,8 +106,8 @@ public final class Training {
         taken.add(UnigramSegmenter.byteSpelling(b));
       }
     }
-    int maxMulti = (int) Math.min(Integer.MAX_VALUE - 8, (long) seedFactor * target);
-    SeedCounter.Seeds seeds = SeedCounter.seed(corpus, weights, maxTokenLength, maxMulti, seedTableLimit, taken,
+    int maxMulti = (int) Math.min(Integer.MAX_VALUE - 8, (long) candidateMultiple * target);
+    SeedCounter.Seeds seeds = SeedCounter.seed(corpus, weights, maxTokenCodePoints, maxMulti, seedTableLimit, taken,
         listener);
     String[] vocab = seeds.tokens();
     double[] logp = seeds.logp();
@@ -120,7 +122,7 @@ public final class Training {
       long step = 0;
       while (true) {
         double[] expected = new double[vocab.length];
-        for (int it = 0; it < emIterations; it++) {
+        for (int it = 0; it < emPasses; it++) {
           double ll = em.iterate(vocab, logp, expected, pool);
           listener.progress("em", ++step, -1, "round " + round + ", iteration " + (it + 1) + ", " + vocab.length
               + " tokens, log-likelihood " + ll);
@@ -128,7 +130,8 @@ public final class Training {
         if (vocab.length <= target) {
           break;
         }
-        int newSize = Math.max(target, (int) (vocab.length * shrinkFactor));
+        // at least one token goes per round, whatever the share (rounding could otherwise keep them all)
+        int newSize = Math.max(target, Math.min(vocab.length - 1, (int) (vocab.length * keepShare)));
         int[] keep = prune(vocab, logp, expected, newSize);
         String[] v = new String[keep.length];
         double[] lp = new double[keep.length];
