@@ -6,8 +6,11 @@ import static org.junit.jupiter.api.Assertions.assertFalse;
 import static org.junit.jupiter.api.Assertions.assertThrows;
 import static org.junit.jupiter.api.Assertions.assertTrue;
 
+import dev.morsel.tokenize.Tokenizers;
+import dev.morsel.tokenize.format.ModelFile;
 import dev.morsel.tokenize.format.ModelFormatException;
 import dev.morsel.tokenize.testkit.OffsetInvariants;
+import java.io.BufferedReader;
 import java.io.StringReader;
 import java.nio.charset.StandardCharsets;
 import java.util.List;
@@ -130,20 +133,31 @@ class WordPieceSegmenterTest {
     assertThrows(IllegalArgumentException.class, () -> d.withMarker("a b"));
     assertThrows(IllegalArgumentException.class, () -> d.withMarker("\t"));
     assertThrows(IllegalArgumentException.class, () -> d.withUnknownToken(""));
-    IllegalArgumentException lim = assertThrows(IllegalArgumentException.class, () -> d.withMaxPieceLength(0));
-    assertTrue(lim.getMessage().contains("maxPieceLength=0"), lim.getMessage());
+    IllegalArgumentException lim = assertThrows(IllegalArgumentException.class, () -> d.withMaxPieceLength(-1));
+    assertTrue(lim.getMessage().contains("maxPieceLength=-1"), lim.getMessage());
   }
 
   @Test
-  void tokenListRoundTripWithEscapes() {
-    WordPieceSegmenter s = WordPieceSegmenter.of(List.of("harbour-bell", UNK, "\n", " pier", M + "s", "a\\b", "\t"), 1,
-        WordPieceSettings.defaults());
+  void reviewTextRoundTripWithEscapes() {
+    WordPieceSegmenter s = WordPieceSegmenter.of(List.of("harbour-bell", UNK, "\n", " pier", M + "s", "a\\b", "\t",
+        "\uD83D\uDEA2"), 1, WordPieceSettings.defaults().withMaxPieceLength(12));
     StringBuilder sb = new StringBuilder();
-    s.writeTokenList(sb);
-    assertEquals("harbour-bell\n" + UNK + "\n\\n\n pier\n" + M + "s\na\\\\b\n\\t\n", sb.toString());
-    WordPieceSegmenter back = WordPieceSegmenter.readTokenList(new StringReader(sb.toString()), "test list", 1,
-        WordPieceSettings.defaults());
+    Tokenizers.of(s).writeReview(sb);
+    String text = sb.toString();
+    assertTrue(text.contains("\n§ settings\tsetting\tvalue\nmarker\t" + M + "\nunknown\t" + UNK
+        + "\nmax-piece-length\t12\n§ vocabulary\tid\tkind\ttoken\n0\treserved\tharbour-bell\n1\tunknown\t" + UNK
+        + "\n2\tinitial\t\\n\n3\tinitial\t\\spier\n4\tcontinuation\t" + M + "s\n5\tinitial\ta\\\\b\n"
+        + "6\tinitial\t\\t\n7\tinitial\t\uD83D\uDEA2\n"), text);
+    byte[] file = Tokenizers.modelFromReview(new BufferedReader(new StringReader(text)), "wp.tsv");
+    assertEquals(Tokenizers.of(s).fingerprint(), Tokenizers.load(file).fingerprint());
+    WordPieceSegmenter back = (WordPieceSegmenter) Tokenizers.segmenterOf(ModelFile.read(file));
     assertEquals(s.tokens(), back.tokens());
+    assertEquals(s.settings(), back.settings());
+    // a kind that contradicts the spelling is refused at its line and column
+    String wrong = text.replace("4\tcontinuation\t", "4\tinitial\t");
+    ModelFormatException e = assertThrows(ModelFormatException.class,
+        () -> Tokenizers.modelFromReview(new BufferedReader(new StringReader(wrong)), "wp.tsv"));
+    assertTrue(e.getMessage().contains("column 2 (kind): id 4 is continuation here, not initial"), e.getMessage());
   }
 
   @Test
@@ -151,20 +165,21 @@ class WordPieceSegmenterTest {
     WordPieceSettings d = WordPieceSettings.defaults();
     ModelFormatException dup = assertThrows(ModelFormatException.class,
         () -> WordPieceSegmenter.readTokenList(new StringReader(UNK + "\nquay\nquay\n"), "quay.txt", 0, d));
-    assertEquals("quay.txt line 3", dup.section());
+    assertEquals("quay.txt:3", dup.section());
     ModelFormatException empty = assertThrows(ModelFormatException.class,
         () -> WordPieceSegmenter.readTokenList(new StringReader(UNK + "\n\nquay\n"), "quay.txt", 0, d));
-    assertEquals("quay.txt line 2", empty.section());
+    assertEquals("quay.txt:2", empty.section());
     ModelFormatException esc = assertThrows(ModelFormatException.class,
         () -> WordPieceSegmenter.readTokenList(new StringReader(UNK + "\nq\\x\n"), "quay.txt", 0, d));
-    assertEquals("quay.txt line 2", esc.section());
+    assertEquals("quay.txt:2", esc.section());
     ModelFormatException shortU = assertThrows(ModelFormatException.class,
-        () -> WordPieceSegmenter.readTokenList(new StringReader(UNK + "\nq\\u12\n"), "quay.txt", 0, d));
-    assertEquals("quay.txt line 2", shortU.section());
+        () -> WordPieceSegmenter.readTokenList(new StringReader(UNK + "\nq\\{U+12}\n"), "quay.txt", 0, d));
+    assertEquals("quay.txt:2", shortU.section());
     ModelFormatException noUnk = assertThrows(ModelFormatException.class,
         () -> WordPieceSegmenter.readTokenList(new StringReader("quay\n" + UNK + "\n"), "quay.txt", 0, d));
-    assertEquals("quay.txt line 1", noUnk.section());
-    WordPieceSegmenter ok = WordPieceSegmenter.readTokenList(new StringReader(UNK + "\r\nq\\u0041\r\n"), "quay.txt", 0, d);
-    assertEquals(List.of(UNK, "qA"), ok.tokens());
+    assertEquals("quay.txt:1", noUnk.section());
+    WordPieceSegmenter ok = WordPieceSegmenter.readTokenList(new StringReader(UNK + "\r\nq\\{U+0041}\\spier\r\n"),
+        "quay.txt", 0, d);
+    assertEquals(List.of(UNK, "qA pier"), ok.tokens());
   }
 }
