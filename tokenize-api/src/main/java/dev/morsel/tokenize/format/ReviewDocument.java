@@ -2,6 +2,7 @@ package dev.morsel.tokenize.format;
 
 import java.io.BufferedReader;
 import java.io.IOException;
+import java.io.StringReader;
 import java.io.UncheckedIOException;
 import java.nio.file.Files;
 import java.nio.file.Path;
@@ -25,8 +26,8 @@ import java.util.regex.Pattern;
  * @since 0.1.0
  */
 public final class ReviewDocument {
-  /** Decimal integers: optional minus, no leading zeros. */
-  private static final Pattern INTEGER = Pattern.compile("-?(0|[1-9][0-9]*)");
+  /** Decimal integers: 0, or an optional minus and digits without a leading zero. */
+  private static final Pattern INTEGER = Pattern.compile("0|-?[1-9][0-9]*");
   /** Decimal numbers as {@link Double#toString(double)} writes them, plus plain integers. */
   private static final Pattern DECIMAL = Pattern.compile("-?(0|[1-9][0-9]*)(\\.[0-9]+)?(E-?[0-9]+)?");
 
@@ -133,11 +134,13 @@ public final class ReviewDocument {
    * @throws UncheckedIOException naming the path if the file cannot be read
    */
   public static ReviewDocument read(Path path) {
-    try (BufferedReader in = ReviewText.utf8Reader(Files.newInputStream(path))) {
-      return read(in, path.toString());
+    byte[] b;
+    try {
+      b = Files.readAllBytes(path);
     } catch (IOException e) {
       throw new UncheckedIOException("cannot read review text " + path + ": " + e.getMessage(), e);
     }
+    return read(new BufferedReader(new StringReader(ReviewText.strictUtf8(b, path.toString()))), path.toString());
   }
 
   // ------------------------------------------------------------------ API
@@ -311,7 +314,8 @@ public final class ReviewDocument {
     }
 
     /**
-     * The decimal integer in column {@code column} (optional minus sign, no leading zeros), which must
+     * The decimal integer in column {@code column} (0, or an optional minus sign and digits without a
+     * leading zero), which must
      * lie in {@code [min, max]}.
      */
     public long integer(int column, long min, long max) {

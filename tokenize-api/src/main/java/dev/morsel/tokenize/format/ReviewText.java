@@ -370,6 +370,34 @@ public final class ReviewText {
     return String.format(Locale.ROOT, "U+%04X", cp);
   }
 
+  /**
+   * The text of a whole file's bytes, strictly decoded.
+   *
+   * @throws ModelFormatException at {@code source:line} and the byte offset of the first malformed sequence
+   */
+  static String strictUtf8(byte[] b, String source) {
+    CharsetDecoder d = StandardCharsets.UTF_8.newDecoder().onMalformedInput(CodingErrorAction.REPORT)
+        .onUnmappableCharacter(CodingErrorAction.REPORT);
+    ByteBuffer in = ByteBuffer.wrap(b);
+    java.nio.CharBuffer out = java.nio.CharBuffer.allocate(b.length);
+    java.nio.charset.CoderResult r = d.decode(in, out, true);
+    if (r.isError()) {
+      int at = in.position();
+      long line = 1;
+      long lineStart = 0;
+      for (int i = 0; i < at; i++) {
+        if (b[i] == '\n') {
+          line++;
+          lineStart = i + 1;
+        }
+      }
+      throw ModelFormatException.atLine(source, line, "byte " + (at - lineStart + 1) + " of the line: not valid UTF-8");
+    }
+    d.flush(out);
+    out.flip();
+    return out.toString();
+  }
+
   /** Strict UTF-8 decoding of token bytes; null if they are not well-formed. */
   static String decodeUtf8(byte[] b) {
     try {
