@@ -73,6 +73,76 @@ class WordPieceSegmenterTest {
     assertEquals(5, TestSupport.segmentOne(s, "docks", 0, 5).ends.getInt(0));
   }
 
+  /** Distinct prefixes of the word-initial and of the continuation texts, plus the two roots: an independent count. */
+  private static int trieNodes(List<String> tokens, int from) {
+    java.util.Set<String> initial = new java.util.HashSet<>();
+    java.util.Set<String> cont = new java.util.HashSet<>();
+    for (String t : tokens.subList(from, tokens.size())) {
+      boolean c = t.length() > M.length() && t.startsWith(M);
+      String body = c ? t.substring(M.length()) : t;
+      for (int i = 1; i <= body.length(); i++) {
+        (c ? cont : initial).add(body.substring(0, i));
+      }
+    }
+    return 2 + initial.size() + cont.size();
+  }
+
+  @Test
+  void derivedLimitSegmentsAPieceAtTheLimitAndNotOneOver() {
+    List<String> vocab = List.of(UNK, "a", "ab", M + "a", M + "b");
+    WordPieceSegmenter s = WordPieceSegmenter.of(vocab, 0, WordPieceSettings.defaults());
+    assertEquals(WordPieceSettings.DERIVED_PIECE_LENGTH, s.settings().maxPieceLength());
+    // nodes: the roots, a and ab under the word-initial root, a and b under the continuation root
+    assertEquals(6, trieNodes(vocab, 1));
+    assertEquals(trieNodes(vocab, 1), s.pieceLimit());
+    String at = "a".repeat(s.pieceLimit());
+    int[] ids = TestSupport.segmentOne(s, at, 0, at.length()).ids.toIntArray();
+    assertEquals(s.pieceLimit(), ids.length, "a piece at the limit is segmented, one token a char");
+    assertEquals(1, ids[0]);
+    String over = at + "a";
+    assertArrayEquals(new int[] {0}, TestSupport.segmentOne(s, over, 0, over.length()).ids.toIntArray(),
+        "one char over the limit: the unknown token");
+    // the same limit survives the model sections and is never below the longest token
+    WordPieceSegmenter big = WordPieceSegmenter.of(List.of(UNK, "harbourmaster", M + "s"), 0, WordPieceSettings.defaults());
+    assertEquals(2 + 13 + 1, big.pieceLimit());
+    assertTrue(big.pieceLimit() >= "harbourmaster".length());
+    String many = "harbourmaster" + "s".repeat(big.pieceLimit() - 13);
+    assertEquals(1 + big.pieceLimit() - 13, TestSupport.segmentOne(big, many, 0, many.length()).ids.size());
+    assertArrayEquals(new int[] {0}, TestSupport.segmentOne(big, many + "s", 0, many.length() + 1).ids.toIntArray());
+  }
+
+  /**
+   * At and around the derived limit the segmenter agrees with an independent naive greedy
+   * longest-match (quadratic, written in TestSupport), on vocabularies whose limit is large; the
+   * linear bound itself is exercised by AdversarialInputTest's 1 MiB near-miss input and measured in
+   * tokenize-bench.
+   */
+  @org.junit.jupiter.params.ParameterizedTest
+  @org.junit.jupiter.params.provider.ValueSource(longs = {5, 77, 2026})
+  void derivedLimitAgreesWithNaiveGreedyAtTheBoundary(long seed) {
+    java.util.SplittableRandom rnd = new java.util.SplittableRandom(seed);
+    java.util.LinkedHashSet<String> v = new java.util.LinkedHashSet<>(List.of(UNK, "a", "b", M + "a", M + "b"));
+    while (v.size() < 60) {
+      StringBuilder sb = new StringBuilder(rnd.nextBoolean() ? M : "");
+      for (int i = 1 + rnd.nextInt(6); i > 0; i--) {
+        sb.append(rnd.nextBoolean() ? 'a' : 'b');
+      }
+      v.add(sb.toString());
+    }
+    List<String> vocab = List.copyOf(v);
+    WordPieceSegmenter s = WordPieceSegmenter.of(vocab, 0, WordPieceSettings.defaults());
+    assertEquals(trieNodes(vocab, 1), s.pieceLimit());
+    TestSupport.NaiveGreedy naive = new TestSupport.NaiveGreedy(vocab, 0, M, s.pieceLimit());
+    for (int n : new int[] {s.pieceLimit() - 1, s.pieceLimit(), s.pieceLimit() + 1}) {
+      StringBuilder sb = new StringBuilder();
+      for (int i = 0; i < n; i++) {
+        sb.append(rnd.nextBoolean() ? 'a' : 'b');
+      }
+      String piece = sb.toString();
+      assertArrayEquals(naive.segment(piece), TestSupport.segmentOne(s, piece, 0, n).ids.toIntArray(), "n=" + n);
+    }
+  }
+
   @Test
   void surrogatePairsStayWholeAndLoneSurrogatesAreUnknown() {
     String clef = new String(Character.toChars(0x1D11E));
