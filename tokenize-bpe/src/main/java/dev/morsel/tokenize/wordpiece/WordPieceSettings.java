@@ -31,9 +31,9 @@ public final class WordPieceSettings {
    * With the limit at the trie's node count that scratch is never larger than one of the trie's own
    * per-node arrays (the trie keeps several), so memory per thread scales with the model and never
    * with the input; and since every token text is a path of the trie, every token can still be
-   * matched. For the 30,000-token Europarl model the limit is far beyond any word of any language
-   * (see {@code docs/wordpiece.md}), so in practice only long runs without a break become the
-   * unknown token.
+   * matched. Measured on a 3,000-token model trained on the Europarl sample: a limit of 4,444 units
+   * against a longest piece of 64 units in the whole sample (see {@code docs/wordpiece.md}), so in
+   * practice only long runs without a break become the unknown token.
    */
   public static final int DERIVED_PIECE_LENGTH = 0;
   /** Largest allowed {@link #maxPieceLength()}, in UTF-16 units (bounds per-thread scratch arrays). */

@@ -209,4 +209,21 @@ class ReviewRoundTripTest {
     assertEquals("ferry.tsv:1: column 2 (version): review text version 2 is newer than this reader's version 1",
         version.getMessage());
   }
+
+  /** The example of docs/format.md, section 5.5, imports, and exporting it again gives the same rows. */
+  @Test
+  void theDocumentedExampleImports() throws java.io.IOException {
+    String md = java.nio.file.Files.readString(java.nio.file.Path.of("../docs/format.md"));
+    int from = md.indexOf("```\n", md.indexOf("<!-- review-example:begin -->")) + 4;
+    String example = md.substring(from, md.indexOf("```", from));
+    byte[] file = importText(example);
+    Tokenizer t = Tokenizers.load(file);
+    assertEquals("wordpiece", t.kind());
+    assertEquals(List.of(7, 8), List.of(t.encode("C:\\berth").ids()[1], t.encode("\uD83D\uDEA2").ids()[1]));
+    StringBuilder again = new StringBuilder();
+    Tokenizers.writeReview(ModelFile.read(file), again);
+    // the same text but for the note line, which the export writes with the fingerprint
+    assertEquals(example.substring(example.indexOf("\u00A7")), again.substring(again.indexOf("\u00A7")));
+    assertTrue(again.toString().contains("\u00B6 model fingerprint " + t.fingerprint() + "\n"));
+  }
 }
