@@ -254,6 +254,25 @@ public final class ReviewDocument {
       return rows;
     }
 
+    /**
+     * The rows indexed by the integer in column {@code column} (an id or a rank): each of {@code
+     * 0..n-1} must occur exactly once, {@code n} being the number of rows, in any row order.
+     *
+     * @throws ModelFormatException at the row whose number is malformed, out of range or repeated
+     */
+    public Row[] byIndex(int column) {
+      int n = rows.size();
+      Row[] out = new Row[n];
+      for (Row r : rows) {
+        int i = (int) r.integer(column, 0, n - 1L);
+        if (out[i] != null) {
+          throw r.fail(column, columns.get(column) + " " + i + " repeats line " + out[i].line());
+        }
+        out[i] = r;
+      }
+      return out;
+    }
+
     /** An error about the section as a whole, at its heading line. */
     public ModelFormatException fail(String message) {
       return ModelFormatException.atLine(source, line, "section " + name + ": " + message);

@@ -440,6 +440,26 @@ public final class ReviewText {
   }
 
   /**
+   * As {@link #readTokenLines}, for tokens that are text: each line's bytes must be well-formed UTF-8.
+   *
+   * @throws ModelFormatException at {@code source:line} as {@link #readTokenLines}, or for bytes that
+   *     are not well-formed UTF-8
+   */
+  public static List<String> readTextLines(BufferedReader in, String source) {
+    List<byte[]> lines = readTokenLines(in, source);
+    List<String> out = new ArrayList<>(lines.size());
+    for (int i = 0; i < lines.size(); i++) {
+      String t = decodeUtf8(lines.get(i));
+      if (t == null) {
+        throw ModelFormatException.atLine(source, i + 1, "the bytes " + escape(lines.get(i))
+            + " are not well-formed UTF-8 text");
+      }
+      out.add(t);
+    }
+    return Collections.unmodifiableList(out);
+  }
+
+  /**
    * A strict UTF-8 reader over {@code in}: malformed input fails the read (reported as a {@link
    * ModelFormatException} at its line) instead of becoming U+FFFD.
    */

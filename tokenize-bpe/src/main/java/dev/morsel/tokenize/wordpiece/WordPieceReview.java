@@ -3,10 +3,6 @@ package dev.morsel.tokenize.wordpiece;
 import dev.morsel.tokenize.format.ReviewDocument;
 import dev.morsel.tokenize.format.ReviewText;
 import dev.morsel.tokenize.format.ReviewWriter;
-import java.nio.ByteBuffer;
-import java.nio.charset.CharacterCodingException;
-import java.nio.charset.CodingErrorAction;
-import java.nio.charset.StandardCharsets;
 import java.util.List;
 
 /**
@@ -100,14 +96,7 @@ final class WordPieceReview {
     if (n > WordPieceSegmenter.MAX_VOCABULARY_SIZE) {
       throw vs.fail("holds " + n + " tokens; at most " + WordPieceSegmenter.MAX_VOCABULARY_SIZE);
     }
-    ReviewDocument.Row[] byId = new ReviewDocument.Row[n];
-    for (ReviewDocument.Row r : vs.rows()) {
-      int id = (int) r.integer(0, 0, n - 1L);
-      if (byId[id] != null) {
-        throw r.fail(0, "id " + id + " repeats line " + byId[id].line());
-      }
-      byId[id] = r;
-    }
+    ReviewDocument.Row[] byId = vs.byIndex(0);
     String[] tokens = new String[n];
     int reserved = 0;
     String marker = settings.marker();
@@ -135,15 +124,5 @@ final class WordPieceReview {
       throw vs.fail("needs the unknown token after the " + reserved + " reserved tokens");
     }
     return new Read(List.of(tokens), reserved, settings, byId, vs);
-  }
-
-  /** Strict UTF-8 decoding; null if {@code b} is not well-formed. */
-  static String utf8(byte[] b) {
-    try {
-      return StandardCharsets.UTF_8.newDecoder().onMalformedInput(CodingErrorAction.REPORT)
-          .onUnmappableCharacter(CodingErrorAction.REPORT).decode(ByteBuffer.wrap(b)).toString();
-    } catch (CharacterCodingException e) {
-      return null;
-    }
   }
 }

@@ -17,7 +17,6 @@ import java.io.BufferedReader;
 import java.io.Reader;
 import java.io.UncheckedIOException;
 import java.nio.charset.StandardCharsets;
-import java.util.ArrayList;
 import java.util.List;
 import java.util.Objects;
 
@@ -218,7 +217,7 @@ public final class WordPieceSegmenter implements Segmenter {
 
   /**
    * Reads a plain token list: one token spelling a line, in id order, in the review text's field
-   * escaping ({@link ReviewText#readTokenLines}), laid out as in {@link #of}.
+   * escaping ({@link ReviewText#readTextLines}), laid out as in {@link #of}.
    *
    * @param source names the input in error messages, for example a file name
    * @throws ModelFormatException naming the line if a line is malformed or the vocabulary is invalid
@@ -228,16 +227,8 @@ public final class WordPieceSegmenter implements Segmenter {
       WordPieceSettings settings) {
     Objects.requireNonNull(in, "in");
     Objects.requireNonNull(source, "source");
-    List<byte[]> lines = ReviewText.readTokenLines(in instanceof BufferedReader ? (BufferedReader) in
+    List<String> tokens = ReviewText.readTextLines(in instanceof BufferedReader ? (BufferedReader) in
         : new BufferedReader(in), source);
-    List<String> tokens = new ArrayList<>(lines.size());
-    for (int i = 0; i < lines.size(); i++) {
-      String t = WordPieceReview.utf8(lines.get(i));
-      if (t == null) {
-        throw ModelFormatException.atLine(source, i + 1, "the token is not well-formed UTF-8 text");
-      }
-      tokens.add(t);
-    }
     return new WordPieceSegmenter(tokens, controlCount, settings,
         (i, m) -> i < 0 ? new ModelFormatException(source, m) : ModelFormatException.atLine(source, i + 1, m));
   }

@@ -58,16 +58,8 @@ public final class BpeReview {
    */
   public static Vocab read(ReviewDocument doc) {
     ReviewDocument.Section vs = doc.section(VOCABULARY, VOCABULARY_COLUMNS);
-    List<ReviewDocument.Row> vrows = vs.rows();
-    int n = vrows.size();
-    ReviewDocument.Row[] byId = new ReviewDocument.Row[n];
-    for (ReviewDocument.Row r : vrows) {
-      int id = (int) r.integer(0, 0, n - 1L);
-      if (byId[id] != null) {
-        throw r.fail(0, "id " + id + " repeats line " + byId[id].line());
-      }
-      byId[id] = r;
-    }
+    int n = vs.rows().size();
+    ReviewDocument.Row[] byId = vs.byIndex(0);
     int k = n - 256;
     if (k < 0 || k > BpeSections.MAX_CONTROLS) {
       throw vs.fail("holds " + n + " tokens; a BPE vocabulary section holds the reserved tokens and exactly 256"
@@ -109,19 +101,11 @@ public final class BpeReview {
     }
 
     ReviewDocument.Section ms = doc.section(MERGES, MERGES_COLUMNS);
-    List<ReviewDocument.Row> mrows = ms.rows();
-    int m = mrows.size();
+    int m = ms.rows().size();
     if (m > BpeSections.MAX_MERGES) {
       throw ms.fail("holds " + m + " merges; at most " + BpeSections.MAX_MERGES);
     }
-    ReviewDocument.Row[] byRank = new ReviewDocument.Row[m];
-    for (ReviewDocument.Row r : mrows) {
-      int rank = (int) r.integer(0, 0, m - 1L);
-      if (byRank[rank] != null) {
-        throw r.fail(0, "rank " + rank + " repeats line " + byRank[rank].line());
-      }
-      byRank[rank] = r;
-    }
+    ReviewDocument.Row[] byRank = ms.byIndex(0);
     Map<ByteBuffer, Integer> ids = new HashMap<>();
     for (int b = 0; b < 256; b++) {
       ids.put(ByteBuffer.wrap(new byte[] {(byte) b}), k + b);

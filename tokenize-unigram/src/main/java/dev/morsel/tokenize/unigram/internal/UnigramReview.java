@@ -49,14 +49,7 @@ final class UnigramReview {
   static UnigramSegmenter read(ReviewDocument doc) {
     ReviewDocument.Section vs = doc.section(VOCABULARY, COLUMNS);
     int n = vs.rows().size();
-    ReviewDocument.Row[] byId = new ReviewDocument.Row[n];
-    for (ReviewDocument.Row r : vs.rows()) {
-      int id = (int) r.integer(0, 0, n - 1L);
-      if (byId[id] != null) {
-        throw r.fail(0, "id " + id + " repeats line " + byId[id].line());
-      }
-      byId[id] = r;
-    }
+    ReviewDocument.Row[] byId = vs.byIndex(0);
     List<String> controls = new ArrayList<>();
     int id = 0;
     while (id < n && byId[id].word(1, RESERVED, BYTE, UNKNOWN, PIECE).equals(RESERVED)) {
