@@ -480,6 +480,12 @@ final class PipelineTokenizer implements Tokenizer {
   }
 
   @Override
+  public void writeReview(Appendable out) {
+    Objects.requireNonNull(out, "out");
+    Review.write(this, null, out);
+  }
+
+  @Override
   public String toString() {
     return "Tokenizer[kind=" + kind() + ", vocabulary=" + vocabularySize() + ", " + pipeline + ", reserved tokens="
         + reserved.size() + "]";

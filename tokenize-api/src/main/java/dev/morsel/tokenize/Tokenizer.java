@@ -177,4 +177,15 @@ public interface Tokenizer {
 
   /** Writes the model file. */
   void save(Path path);
+
+  /**
+   * Writes the model as a review text (UTF-8 when stored; see {@code docs/format.md}, "Review text
+   * format"): pipeline settings, reserved tokens, framing and the segmenter's vocabulary with its
+   * merge ranks or scores, one entry a row. {@link Tokenizers#modelFromReview} turns it back into a
+   * model file with the same {@link #fingerprint()}.
+   *
+   * @throws UnsupportedOperationException if the segmenter has no review text form
+   * @throws java.io.UncheckedIOException if {@code out} fails
+   */
+  void writeReview(Appendable out);
 }

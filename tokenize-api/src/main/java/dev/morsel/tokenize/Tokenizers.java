@@ -8,12 +8,15 @@ import dev.morsel.tokenize.normalize.Normalization;
 import dev.morsel.tokenize.spi.Segmenter;
 import dev.morsel.tokenize.spi.SegmenterProvider;
 import dev.morsel.tokenize.split.Splitting;
+import dev.morsel.tokenize.format.ReviewDocument;
+import java.io.BufferedReader;
 import java.nio.ByteBuffer;
 import java.nio.file.Path;
 import java.util.ArrayList;
 import java.util.Collections;
 import java.util.List;
 import java.util.Map;
+import java.util.Objects;
 import java.util.ServiceLoader;
 import java.util.Set;
 import java.util.TreeMap;
@@ -59,6 +62,47 @@ public final class Tokenizers {
   /** Loads a model from a buffer (for example a memory-mapped file), validating it fully first. */
   public static Tokenizer load(ByteBuffer model) {
     return build(ModelFile.read(model));
+  }
+
+  /**
+   * Writes the review text of a model file's sections (see {@link Tokenizer#writeReview}), with its
+   * {@code META} entries as a {@code metadata} section when it has one.
+   *
+   * @throws ModelFormatException if the sections do not form a valid model
+   * @throws java.io.UncheckedIOException if {@code out} fails
+   */
+  public static void writeReview(ModelSections sections, Appendable out) {
+    Objects.requireNonNull(out, "out");
+    Map<String, String> metadata = Review.metadata(sections);
+    Review.write((PipelineTokenizer) build(sections), metadata, out);
+  }
+
+  /**
+   * The model file described by a review text, validated as fully as {@link #load(byte[])} validates
+   * (load it with that method, or store it). The review text of a model gives back a file with the
+   * same fingerprint.
+   *
+   * @param source names the input in errors, for example a file name
+   * @throws ModelFormatException at {@code source:line} with the column for a malformed line or a
+   *     value the model cannot hold; naming {@code source} alone for a missing section
+   * @throws java.io.UncheckedIOException if reading fails
+   */
+  public static byte[] modelFromReview(BufferedReader in, String source) {
+    return modelFromReview(ReviewDocument.read(in, source));
+  }
+
+  /** As {@link #modelFromReview(BufferedReader, String)} for a UTF-8 file, strictly decoded; errors name the file. */
+  public static byte[] modelFromReview(Path path) {
+    return modelFromReview(ReviewDocument.read(path));
+  }
+
+  private static byte[] modelFromReview(ReviewDocument doc) {
+    SegmenterProvider provider = providers().get(doc.kind());
+    if (provider == null) {
+      throw (doc.fail("no segmenter of kind '" + doc.kind()
+          + "' is on the class path (found: " + providers().keySet() + "); add the module that provides it"));
+    }
+    return Review.modelFile(doc, provider);
   }
 
   /** The kinds of segmenter found on the class path or module path. */

@@ -1,6 +1,7 @@
 package dev.morsel.tokenize.spi;
 
 import dev.morsel.tokenize.format.ModelWriter;
+import dev.morsel.tokenize.format.ReviewWriter;
 
 /**
  * Splits one piece of normalized text into vocabulary tokens. Implementations are immutable and
@@ -76,4 +77,16 @@ public interface Segmenter {
 
   /** Writes this segmenter's sections of the model file. */
   void write(ModelWriter out);
+
+  /**
+   * Writes this segmenter's sections of a review text (see {@code docs/format.md}, "Review text
+   * format"): everything {@link #write} puts in the model file, one entry a row, so that its
+   * provider's {@link SegmenterProvider#readReview} rebuilds a segmenter that writes the same bytes.
+   * The api writes the header and its own sections around them.
+   *
+   * @throws UnsupportedOperationException by default: the segmenter has no review text form
+   */
+  default void writeReview(ReviewWriter out) {
+    throw new UnsupportedOperationException("segmenters of kind " + kind() + " have no review text form");
+  }
 }

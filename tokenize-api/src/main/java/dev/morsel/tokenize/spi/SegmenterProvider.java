@@ -1,6 +1,7 @@
 package dev.morsel.tokenize.spi;
 
 import dev.morsel.tokenize.format.ModelSections;
+import dev.morsel.tokenize.format.ReviewDocument;
 
 /**
  * Reads a {@link Segmenter} of one kind from a model file. Found through {@link java.util.ServiceLoader}
@@ -18,4 +19,17 @@ public interface SegmenterProvider {
    * @throws dev.morsel.tokenize.format.ModelFormatException naming the section that is wrong
    */
   Segmenter read(ModelSections sections);
+
+  /**
+   * Builds the segmenter from its sections of a review text (those its {@link
+   * Segmenter#writeReview} writes), validating everything first. Ask for each section with {@link
+   * ReviewDocument#section}; report a wrong value with the row's {@code fail}, which names the line
+   * and the column.
+   *
+   * @throws dev.morsel.tokenize.format.ModelFormatException naming the line and column that is wrong;
+   *     by default, because this kind has no review text form
+   */
+  default Segmenter readReview(ReviewDocument review) {
+    throw review.fail("segmenters of kind " + kind() + " have no review text form");
+  }
 }

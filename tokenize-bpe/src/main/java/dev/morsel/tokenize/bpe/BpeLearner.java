@@ -1,10 +1,10 @@
 package dev.morsel.tokenize.bpe;
 
 import dev.morsel.tokenize.ReservedTokens;
-import dev.morsel.tokenize.bpe.internal.ByteSpelling;
 import dev.morsel.tokenize.bpe.internal.MergeLearner;
 import dev.morsel.tokenize.bpe.internal.Utf8;
 import dev.morsel.tokenize.bpe.internal.Vocab;
+import dev.morsel.tokenize.format.ReviewText;
 import dev.morsel.tokenize.train.PieceCounts;
 import dev.morsel.tokenize.train.TrainingListener;
 import java.util.ArrayList;
@@ -227,7 +227,7 @@ public final class BpeLearner {
           throw new IllegalArgumentException("reservedTokens: " + e.getMessage(), e);
         }
         for (int b = 0; b < 256; b++) {
-          if (c.equals(ByteSpelling.display(new byte[] {(byte) b}, 0, 1))) {
+          if (c.equals(ReviewText.escape(new byte[] {(byte) b}))) {
             throw new IllegalArgumentException("reservedTokens: spelling '" + c + "' is the display spelling of byte token "
                 + b + "; choose a spelling no byte token has");
           }

@@ -24,7 +24,9 @@ import java.util.Set;
  * <p>Contract of {@link #train}:
  * <ol>
  *   <li>Pieces with a count below {@code minCount} are dropped, and so are pieces longer than the
- *       settings' {@link WordPieceSettings#maxPieceLength()}: the encoder maps them to the unknown
+ *       piece limit (the settings' {@link WordPieceSettings#maxPieceLength()}, or when that is derived,
+ *       {@code vocabularySize}, the derived limit of the largest model training can make; see {@link
+ *       WordPieceSegmenter#pieceLimit()}): the encoder maps them to the unknown
  *       token as a whole, and the work of every merge that touches a piece grows with its length
  *       (one 100 MB piece would keep training busy for hours).
  *   <li>The count-weighted number of UTF-16 units of the kept pieces must fit a long (unit and pair
@@ -384,9 +386,15 @@ public final class WordPieceLearner {
       return WordPieceSegmenter.of(vocab, reservedTokens.size(), settings);
     }
 
-    /** The pieces no longer than maxPieceLength; fails if none is left or counts could overflow. */
+    /**
+     * The pieces no longer than the piece limit (the settings' explicit one, or else {@code
+     * vocabularySize} units: the trained vocabulary's trie has a node per distinct token text, so
+     * its derived limit is about that large or larger, and a kept piece stays within it); fails if
+     * none is left or counts could overflow.
+     */
     private PieceCounts withinLimits(PieceCounts kept) {
-      int limit = settings.maxPieceLength();
+      int limit = settings.maxPieceLength() == WordPieceSettings.DERIVED_PIECE_LENGTH
+          ? Math.min(vocabularySize, WordPieceSettings.MAX_MAX_PIECE_LENGTH) : settings.maxPieceLength();
       int n = 0;
       long weighted = 0;
       for (int i = 0; i < kept.size(); i++) {
@@ -405,8 +413,10 @@ public final class WordPieceLearner {
         return kept;
       }
       if (n == 0) {
-        throw new IllegalArgumentException("every piece is longer than maxPieceLength=" + limit + " UTF-16 units:"
-            + " nothing to train on (raise it with WordPieceSettings.withMaxPieceLength)");
+        throw new IllegalArgumentException("every piece is longer than the piece limit of " + limit + " UTF-16 units ("
+            + (settings.maxPieceLength() == WordPieceSettings.DERIVED_PIECE_LENGTH ? "maxPieceLength derived from"
+            + " vocabularySize=" + vocabularySize : "maxPieceLength=" + limit) + "): nothing to train on (raise it with"
+            + " WordPieceSettings.withMaxPieceLength)");
       }
       String[] pieces = new String[n];
       long[] c = new long[n];

@@ -87,7 +87,7 @@ final class Oracles {
       }
     }
     int unknown = reserved;
-    if (piece.length() > wp.settings().maxPieceLength()) {
+    if (piece.length() > wp.pieceLimit()) {
       return new int[] {unknown};
     }
     IntArrayList out = new IntArrayList();

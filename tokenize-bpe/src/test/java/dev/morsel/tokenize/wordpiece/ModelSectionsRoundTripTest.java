@@ -81,7 +81,7 @@ class ModelSectionsRoundTripTest {
     assertEquals(st, corrupt(st, w -> settings(w, 9, M, UNK, 40, 1)).section());
     assertEquals(st, corrupt(st, w -> settings(w, 1, "", UNK, 40, 1)).section());
     assertEquals(st, corrupt(st, w -> settings(w, 1, "a b", UNK, 40, 1)).section());
-    assertEquals(st, corrupt(st, w -> settings(w, 1, M, UNK, 0, 1)).section());
+    assertEquals(st, corrupt(st, w -> settings(w, 1, M, UNK, -1, 1)).section());
     assertEquals(st, corrupt(st, w -> settings(w, 1, M, UNK, 40, 9)).section());
     assertEquals(st, corrupt(st, w -> settings(w, 1, M, UNK, 40, -1)).section());
     ModelFormatException trailing = corrupt(st, w -> {

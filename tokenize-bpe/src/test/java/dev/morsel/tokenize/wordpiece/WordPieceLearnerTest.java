@@ -201,7 +201,10 @@ class WordPieceLearnerTest {
     boolean gain = rnd.nextInt(4) != 0;
     long floor = rnd.nextInt(3) == 0 ? 1 + rnd.nextInt(6) : 1;
     List<String> expected = textbook(corpus, reserved, extra, gain, floor);
+    // an explicit piece limit above every piece: the textbook trainer keeps all pieces, while the
+    // derived limit would leave out pieces longer than these tiny vocabularies
     WordPieceSegmenter s = WordPieceLearner.builder().reservedTokens(reserved).minPairCount(floor)
+        .settings(WordPieceSettings.defaults().withMaxPieceLength(64))
         .score(gain ? WordPieceLearner.Score.LIKELIHOOD_GAIN : WordPieceLearner.Score.PAIR_RATIO)
         .vocabularySize(Math.max(2, alphabetEnd(corpus, reserved) + extra)).build().train(PieceCounts.of(corpus));
     assertEquals(expected, s.tokens(), "seed " + seed + " corpus " + corpus + " extra " + extra + " gain " + gain

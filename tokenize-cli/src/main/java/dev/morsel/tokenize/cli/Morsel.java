@@ -14,7 +14,7 @@ import picocli.CommandLine.Option;
  */
 @Command(name = "morsel", mixinStandardHelpOptions = true, versionProvider = Morsel.Version.class,
     description = "Train subword vocabularies, encode and decode text with exact offsets, measure before you deploy.",
-    subcommands = {TrainCommand.class, EncodeCommand.class, DecodeCommand.class, InspectCommand.class,
+    subcommands = {TrainCommand.class, EncodeCommand.class, DecodeCommand.class, InspectCommand.class, ReviewCommand.class,
         SweepCommand.class, BenchCommand.class, DemoCommand.class, CommandLine.HelpCommand.class},
     footer = {"", "Examples:", "  morsel demo", "  morsel train --scheme bpe --vocab-size 8000 --out ferry.morsel corpus/*.txt",
         "  echo 'Is the 07:40 from Oskevik late?' | morsel encode --model ferry.morsel --format json",

@@ -2,6 +2,7 @@ package dev.morsel.tokenize.bpe.internal;
 
 import dev.morsel.tokenize.bpe.BpeSegmenter;
 import dev.morsel.tokenize.format.ModelSections;
+import dev.morsel.tokenize.format.ReviewDocument;
 import dev.morsel.tokenize.spi.Segmenter;
 import dev.morsel.tokenize.spi.SegmenterProvider;
 
@@ -18,5 +19,10 @@ public final class BpeProvider implements SegmenterProvider {
   @Override
   public Segmenter read(ModelSections sections) {
     return BpeSegmenter.read(sections);
+  }
+
+  @Override
+  public Segmenter readReview(ReviewDocument review) {
+    return BpeSegmenter.readReview(review);
   }
 }

@@ -1,6 +1,7 @@
 package dev.morsel.tokenize.wordpiece.internal;
 
 import dev.morsel.tokenize.format.ModelSections;
+import dev.morsel.tokenize.format.ReviewDocument;
 import dev.morsel.tokenize.spi.Segmenter;
 import dev.morsel.tokenize.spi.SegmenterProvider;
 import dev.morsel.tokenize.wordpiece.WordPieceSegmenter;
@@ -21,5 +22,10 @@ public final class WordPieceProvider implements SegmenterProvider {
   @Override
   public Segmenter read(ModelSections sections) {
     return WordPieceSegmenter.read(sections);
+  }
+
+  @Override
+  public Segmenter readReview(ReviewDocument review) {
+    return WordPieceSegmenter.readReview(review);
   }
 }

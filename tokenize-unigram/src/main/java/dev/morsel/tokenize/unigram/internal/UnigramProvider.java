@@ -2,6 +2,7 @@ package dev.morsel.tokenize.unigram.internal;
 
 import dev.morsel.tokenize.format.ModelFormatException;
 import dev.morsel.tokenize.format.ModelSections;
+import dev.morsel.tokenize.format.ReviewDocument;
 import dev.morsel.tokenize.format.SectionReader;
 import dev.morsel.tokenize.spi.Segmenter;
 import dev.morsel.tokenize.spi.SegmenterProvider;
@@ -32,6 +33,11 @@ public final class UnigramProvider implements SegmenterProvider {
   @Override
   public String kind() {
     return UnigramModel.KIND;
+  }
+
+  @Override
+  public Segmenter readReview(ReviewDocument review) {
+    return UnigramReview.read(review);
   }
 
   @Override

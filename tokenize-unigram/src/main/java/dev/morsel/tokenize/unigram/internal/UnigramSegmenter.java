@@ -1,6 +1,7 @@
 package dev.morsel.tokenize.unigram.internal;
 
 import dev.morsel.tokenize.format.ModelWriter;
+import dev.morsel.tokenize.format.ReviewWriter;
 import dev.morsel.tokenize.format.SectionWriter;
 import dev.morsel.tokenize.spi.ByteSink;
 import dev.morsel.tokenize.spi.PieceTable;
@@ -289,6 +290,12 @@ public final class UnigramSegmenter implements UnigramModel {
     for (int i = 0; i < pieces.length; i++) {
       vo.putString(pieces[i]).putDouble(pieceScores[i]);
     }
+  }
+
+  /** Writes the {@code vocabulary} section of a review text, with each piece's score. */
+  @Override
+  public void writeReview(ReviewWriter out) {
+    UnigramReview.write(out, this);
   }
 
   @Override
