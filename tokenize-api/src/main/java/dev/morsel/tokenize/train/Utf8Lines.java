@@ -71,6 +71,7 @@ public final class Utf8Lines implements Iterator<String>, Closeable {
   private long lineNo; // 1-based number of the line being built
   private boolean lineMalformed; // the line being built held a malformed sequence
   private boolean eof;
+  private CorpusException pending; // a failure met while reading ahead
   private long rawBytes; // bytes read from the underlying files or stream (compressed for .gz)
   private long malformedLines;
   private long lastLine;
@@ -125,6 +126,9 @@ public final class Utf8Lines implements Iterator<String>, Closeable {
   public boolean hasNext() {
     try {
       while (ready.isEmpty()) {
+        if (pending != null) {
+          throw pending;
+        }
         if (stream == null && !openNext()) {
           return false;
         }
@@ -227,8 +231,10 @@ public final class Utf8Lines implements Iterator<String>, Closeable {
       if (r.isError()) {
         drain();
         if (policy == Malformed.FAIL) {
-          throw new CorpusException(source, file, base + in.position(), lineNo,
+          // thrown once the lines before it have been returned
+          pending = new CorpusException(source, file, base + in.position(), lineNo,
               "invalid UTF-8 (" + (r.isMalformed() ? "malformed" : "unmappable") + " sequence of " + r.length() + " byte(s))");
+          return;
         }
         lineMalformed = true;
         if (policy == Malformed.REPLACE) {

@@ -23,9 +23,7 @@ final class Corpus {
   /** The {@code --bad-utf8} option, shared by every command that reads text. */
   static final class BadUtf8 {
     @Option(names = "--bad-utf8", defaultValue = "fail", paramLabel = "fail|replace|skip",
-        description = {"Lines holding bytes that are not UTF-8: fail (stop, naming the file, line and byte offset),",
-            "replace (write U+FFFD for each bad sequence) or skip (leave the line out); the count of",
-            "replaced or skipped lines is printed on standard error (default: ${DEFAULT-VALUE})."})
+        description = "Lines holding bytes that are not UTF-8: fail (stop, naming the file, line and byte offset), replace (write U+FFFD for each bad sequence) or skip (leave the line out); the count of replaced or skipped lines is printed on standard error (default: ${DEFAULT-VALUE}).")
     String value;
 
     Malformed policy() {

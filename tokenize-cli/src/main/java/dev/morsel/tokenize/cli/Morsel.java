@@ -73,7 +73,13 @@ public final class Morsel implements Runnable {
       err.flush();
       return USAGE;
     });
-    int code = cl.execute(args);
+    int code;
+    try {
+      code = cl.execute(args);
+    } catch (OutOfMemoryError e) {
+      err.println("morsel: " + message(e));
+      code = FAILED;
+    }
     out.flush();
     err.flush();
     return code;

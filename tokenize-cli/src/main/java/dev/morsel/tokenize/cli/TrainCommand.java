@@ -44,9 +44,7 @@ final class TrainCommand implements Callable<Integer> {
   int vocabularySize;
 
   @Option(names = "--alphabet", paramLabel = "N|auto", defaultValue = "auto",
-      description = {"WordPiece only: most distinct characters kept (each gets a word-initial and a continuation token;",
-          "pieces holding others become the unknown token). auto: at most 1000, and at most a quarter of",
-          "--vocab-size (default: ${DEFAULT-VALUE})."})
+      description = "WordPiece only: most distinct characters kept (each gets a word-initial and a continuation token; pieces holding others become the unknown token). auto: at most 1000, and at most a quarter of --vocab-size (default: ${DEFAULT-VALUE}).")
   String alphabet;
 
   @Option(names = "--normalize", paramLabel = "SPEC", defaultValue = "nfc",
@@ -54,8 +52,7 @@ final class TrainCommand implements Callable<Integer> {
   String normalize;
 
   @Option(names = "--split", paramLabel = "SPEC", defaultValue = "rules:3",
-      description = {"Splitting into pieces: rules:N (Morsel's rules on Unicode properties; a run of digits is cut",
-          "into groups of at most N), words (UAX #29 word boundaries), whitespace, or none (default: ${DEFAULT-VALUE})."})
+      description = "Splitting into pieces: rules:N (Morsel's rules on Unicode properties; a run of digits is cut into groups of at most N), words (UAX #29 word boundaries), whitespace, or none (default: ${DEFAULT-VALUE}).")
   String split;
 
   @Option(names = "--control", paramLabel = "SPELLING", description = "Reserve a control token (repeatable); ids 0.. in order.")

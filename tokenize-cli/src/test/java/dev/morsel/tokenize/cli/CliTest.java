@@ -209,7 +209,7 @@ class CliTest {
       for (String line : csv.subList(1, csv.size())) {
         String[] f = line.split(",");
         if (f[0].equals(scheme) && f[3].equals(Sweep.ALL)) {
-          double tpw = Double.parseDouble(f[9]);
+          double tpw = Double.parseDouble(f[11]);
           assertTrue(tpw < previous, scheme + ": tokens per word " + tpw + " does not fall below " + previous);
           previous = tpw;
         }
