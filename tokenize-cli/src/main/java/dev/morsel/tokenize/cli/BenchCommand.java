@@ -52,7 +52,7 @@ final class BenchCommand implements Callable<Integer> {
   double warmup;
 
   @Option(names = "--stable-within", paramLabel = "PERCENT", defaultValue = "5",
-      description = "Stable: 3 consecutive warm-up passes whose times differ by at most this (default: ${DEFAULT-VALUE}).")
+      description = "Stable: 3 consecutive warm-up passes whose rates differ by at most this (default: ${DEFAULT-VALUE}).")
   double stableWithin;
 
   @Option(names = "--max-warmup", paramLabel = "SECONDS", defaultValue = "60",
@@ -149,7 +149,7 @@ final class BenchCommand implements Callable<Integer> {
         Thread.currentThread().interrupt();
         throw new IllegalStateException("interrupted", e);
       }
-      return System.nanoTime() - t0;
+      return bytes / 1e6 / Math.max(1, System.nanoTime() - t0) * 1e9;
     }, stableWithin / 100, (long) (warmup * 1e9), (long) (maxWarmup * 1e9)));
     long[] passNanos = new long[rounds];
     long[] latencies = new long[texts.size() * rounds];

@@ -127,10 +127,10 @@ final class Report {
     }
     StringBuilder sb = new StringBuilder();
     sb.append("<!DOCTYPE html>\n<html lang=\"en\"><head><meta charset=\"utf-8\"><title>").append(esc(title))
-        .append("</title>\n<style>body{font-family:sans-serif;max-width:1000px;margin:2em auto;color:#222;line-height:1.4}"
+        .append("</title>\n<style>body{font-family:sans-serif;max-width:1100px;margin:2em auto;padding:0 1em;color:#222;line-height:1.4}"
             + "table{border-collapse:collapse;margin:0.5em 0 1.5em}td,th{border:1px solid #bbb;padding:3px 8px}"
-            + "td{text-align:right;font-variant-numeric:tabular-nums}td.t,th.t{text-align:left}th{background:#eee}"
-            + "figure{margin:1.5em 0}figcaption{color:#444;font-size:0.92em;max-width:900px}"
+            + "td{text-align:right;font-variant-numeric:tabular-nums}td.t,th.t{text-align:left}td.w{white-space:nowrap}th{background:#eee}"
+            + "th{font-size:0.92em}figure{margin:1.5em 0}figcaption{color:#444;font-size:0.92em;max-width:900px}"
             + "tr.no td{color:#777;font-style:italic}dl{display:grid;grid-template-columns:max-content 1fr;gap:2px 14px}"
             + "dt{font-weight:bold}dd{margin:0}</style></head><body>\n");
     sb.append("<h1>").append(esc(title)).append("</h1>\n");
@@ -141,9 +141,9 @@ final class Report {
     sb.append("<dt>held out</dt><dd>").append(esc(meta.heldOut())).append("</dd>");
     sb.append("<dt>pipeline</dt><dd>").append(esc(meta.pipeline())).append("; WordPiece alphabet ")
         .append(esc(meta.alphabet())).append("</dd>");
-    sb.append("<dt>encode speed</dt><dd>one thread, median of ").append(Sweep.TIMED_PASSES)
-        .append(" passes over the held-out text after a warm-up until ").append(Steady.WINDOW)
-        .append(" consecutive passes agree within 5% (warm-up of each cell in the table)</dd>");
+    sb.append("<dt>encode speed</dt><dd>one thread, median of ").append(Sweep.TIMED_ROUNDS)
+        .append(" rounds (passes over the held-out text for at least 50 ms) after a warm-up until ").append(Steady.WINDOW)
+        .append(" consecutive rounds agree within 5% (the warm-up of each cell is in the table)</dd>");
     sb.append("<dt>Morsel</dt><dd>").append(esc(meta.version())).append("</dd>");
     sb.append("<dt>date</dt><dd>").append(esc(meta.date())).append("</dd>");
     sb.append("<dt>machine</dt><dd>").append(esc(meta.machine())).append("</dd></dl>\n");
@@ -177,17 +177,17 @@ final class Report {
 
     sb.append("<h2>Overall</h2>\n<table><tr><th class=\"t\">scheme</th><th>requested</th><th>vocabulary</th>"
         + "<th>tokens/word</th><th>tokens/1k chars</th><th>bytes/token</th><th>unknown</th><th>unknown/1k chars</th>"
-        + "<th>vocabulary used</th><th>train s</th><th>encode MB/s</th><th class=\"t\">warm-up / note</th></tr>\n");
+        + "<th>vocabulary used</th><th>train (s)</th><th>encode MB/s</th><th class=\"t\">speed warm-up</th></tr>\n");
     for (Sweep.Row r : all) {
       if (r.feasible()) {
         sb.append(String.format(Locale.ROOT, "<tr><td class=\"t\">%s</td><td>%s</td><td>%s</td><td>%.3f</td><td>%.1f</td>"
-            + "<td>%.2f</td><td>%s</td><td>%.3f</td><td>%.1f%%</td><td>%.1f</td><td>%.1f</td><td class=\"t\">%s</td></tr>%n",
+            + "<td>%.2f</td><td>%s</td><td>%.3f</td><td>%.1f%%</td><td>%.2f</td><td>%.1f</td><td class=\"t w\">%s</td></tr>%n",
             esc(r.scheme()), num(r.requestedSize()), num(r.vocabularySize()), r.tokensPerWord(), r.tokensPer1000Chars(),
             r.bytesPerToken(), num(r.unknown()), r.unknownPer1000Chars(), 100 * r.vocabularyUsed(), r.trainSeconds(),
             r.mbPerSecond(), esc(r.warmup())));
       } else {
         sb.append("<tr class=\"no\"><td class=\"t\">").append(esc(r.scheme())).append("</td><td>")
-            .append(num(r.requestedSize())).append("</td><td colspan=\"9\" class=\"t\">not feasible</td><td class=\"t\">")
+            .append(num(r.requestedSize())).append("</td><td colspan=\"10\" class=\"t\">not feasible: ")
             .append(esc(r.note())).append("</td></tr>\n");
       }
     }
@@ -318,12 +318,17 @@ final class Report {
     }
     renderer.setDrawSeriesLineAsPath(true);
     plot.setRenderer(renderer);
+    // first scheme drawn first: the dashed and dotted lines of later schemes stay visible over a solid one they meet
+    plot.setSeriesRenderingOrder(org.jfree.chart.plot.SeriesRenderingOrder.FORWARD);
     plot.setBackgroundPaint(Color.WHITE);
     plot.setRangeGridlinePaint(Color.LIGHT_GRAY);
     plot.setDomainGridlinePaint(Color.LIGHT_GRAY);
     NumberAxis range = (NumberAxis) plot.getRangeAxis();
     range.setAutoRangeIncludesZero(true);
-    range.setNumberFormatOverride(format("#,##0.###"));
+    double top = data.getRangeUpperBound(false);
+    // enough decimals that ticks of small values stay distinct (0.0004, not 0 and 0 and 0.001), never E-notation
+    int decimals = top > 0 ? Math.max(0, (int) Math.ceil(-Math.log10(top))) + 2 : 1;
+    range.setNumberFormatOverride(format("#,##0." + "#".repeat(decimals)));
     if (data.getRangeUpperBound(false) <= 0) {
       range.setRange(-0.05, 1); // all zero: a flat line at 0 inside the plot, not an axis squeezed around it
     }

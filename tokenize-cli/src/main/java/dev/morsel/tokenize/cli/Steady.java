@@ -1,13 +1,13 @@
 package dev.morsel.tokenize.cli;
 
 import java.util.Locale;
-import java.util.function.LongSupplier;
+import java.util.function.DoubleSupplier;
 
 /**
  * Warm-up until the rate is stable. The JIT compiles the encoder during the first passes, so early
  * passes measure compilation, not the encoder (a default bench once read 3.66 MB/s against 9.65 MB/s
- * after a long warm-up). The criterion: {@value #WINDOW} consecutive passes whose times lie within
- * {@code tolerance} of each other ((slowest − fastest) / fastest), after at least {@code minNanos} of
+ * after a long warm-up). The criterion: {@value #WINDOW} consecutive rounds whose rates lie within
+ * {@code tolerance} of each other ((fastest − slowest) / slowest), after at least {@code minNanos} of
  * warm-up; the warm-up gives up after {@code maxNanos} and says so.
  */
 final class Steady {
@@ -18,28 +18,32 @@ final class Steady {
 
   /** What a warm-up took. */
   record Warmup(int passes, double seconds, boolean stable, double tolerance) {
+    /** Short form for tables: "43 rounds, 2.8 s", with ", NOT stable" when it gave up. */
+    String brief() {
+      return String.format(Locale.ROOT, "%d rounds, %.1f s%s", passes, seconds, stable ? "" : ", NOT stable");
+    }
+
     String describe() {
-      return String.format(Locale.ROOT, "warm-up %d passes (%.1f s)%s", passes, seconds, stable
-          ? String.format(Locale.ROOT, " until %d consecutive passes agreed within %.0f%%", WINDOW, tolerance * 100)
-          : String.format(Locale.ROOT, ", NOT stable: %d consecutive passes never agreed within %.0f%%", WINDOW, tolerance * 100));
+      return String.format(Locale.ROOT, "warm-up %d rounds (%.1f s)%s", passes, seconds, stable
+          ? String.format(Locale.ROOT, " until %d consecutive rounds agreed within %.0f%%", WINDOW, tolerance * 100)
+          : String.format(Locale.ROOT, ", NOT stable: %d consecutive rounds never agreed within %.0f%%", WINDOW, tolerance * 100));
     }
   }
 
   private Steady() {}
 
   /**
-   * Runs {@code pass} (which returns its own duration in nanoseconds) until stable.
+   * Runs {@code round} (which returns the rate it measured, any unit, higher is faster) until stable.
    *
    * @param minNanos least warm-up time
    * @param maxNanos most warm-up time
    */
-  static Warmup warmUp(LongSupplier pass, double tolerance, long minNanos, long maxNanos) {
-    long[] window = new long[WINDOW];
+  static Warmup warmUp(DoubleSupplier round, double tolerance, long minNanos, long maxNanos) {
+    double[] window = new double[WINDOW];
     int passes = 0;
     long start = System.nanoTime();
     while (true) {
-      long dt = Math.max(1, pass.getAsLong());
-      window[passes % WINDOW] = dt;
+      window[passes % WINDOW] = round.getAsDouble();
       passes++;
       long elapsed = System.nanoTime() - start;
       if (passes >= WINDOW && elapsed >= minNanos && agree(window, tolerance)) {
@@ -51,13 +55,13 @@ final class Steady {
     }
   }
 
-  static boolean agree(long[] window, double tolerance) {
-    long min = Long.MAX_VALUE;
-    long max = 0;
-    for (long w : window) {
+  static boolean agree(double[] window, double tolerance) {
+    double min = Double.MAX_VALUE;
+    double max = 0;
+    for (double w : window) {
       min = Math.min(min, w);
       max = Math.max(max, w);
     }
-    return (max - min) <= tolerance * min;
+    return min > 0 && (max - min) <= tolerance * min;
   }
 }

@@ -85,7 +85,7 @@ final class Sweep {
    * @param alphabet WordPiece alphabet in code points, 0 to choose it from each size
    */
   static List<Row> run(Map<String, List<String>> groups, int every, Pipeline pipeline, List<String> schemes, List<Integer> sizes,
-      int alphabet, int threads, TrainingListener listener, java.io.PrintWriter notes) {
+      int alphabet, int threads, TrainingListener listener, java.io.PrintWriter notes, long maxWarmupNanos) {
     List<String> train = new ArrayList<>();
     Map<String, List<String>> held = new LinkedHashMap<>();
     split(groups, every, train, held);
@@ -118,7 +118,7 @@ final class Sweep {
         }
         double trainSeconds = (System.nanoTime() - t0) / 1e9;
         double[] speed = new double[1];
-        Steady.Warmup w = throughput(t, allHeld, speed);
+        Steady.Warmup w = throughput(t, allHeld, speed, maxWarmupNanos);
         boolean[] usedAll = new boolean[t.vocabularySize()];
         long[] sums = new long[6];
         for (Map.Entry<String, List<String>> e : held.entrySet()) {
@@ -140,7 +140,7 @@ final class Sweep {
           distinct += b ? 1 : 0;
         }
         rows.add(new Row(scheme, size, t.vocabularySize(), ALL, sums[0], sums[1], sums[2], sums[3], sums[4], sums[5], distinct,
-            trainSeconds, speed[0], w.describe(), ""));
+            trainSeconds, speed[0], w.brief(), ""));
       }
     }
     listener.progress("sweep", steps, steps, "done");
@@ -190,41 +190,54 @@ final class Sweep {
     return n;
   }
 
-  /** Sweep warm-up bounds: at most 20 s per cell, at least 0.2 s. */
-  static final long MIN_WARMUP_NANOS = 200_000_000L;
-  static final long MAX_WARMUP_NANOS = 20_000_000_000L;
-  /** Timed passes after the warm-up; the median is reported. */
-  static final int TIMED_PASSES = 3;
+  /** Least warm-up per cell: 0.5 s (the most is a setting, {@code --max-warmup}). */
+  static final long MIN_WARMUP_NANOS = 500_000_000L;
+  /** A round repeats passes over the held-out text for at least 50 ms, so a pause of the machine is a small part of it. */
+  static final long ROUND_NANOS = 50_000_000L;
+  /** Timed rounds after the warm-up; the median is reported. */
+  static final int TIMED_ROUNDS = 5;
 
   /**
    * Encode throughput on one thread in MB/s of UTF-8 into {@code mbps[0]}: warm up until three
-   * consecutive passes agree within 5 % ({@link Steady}), then the median of three timed passes.
+   * consecutive rounds agree within 5 % ({@link Steady}), then the median of five timed rounds.
    */
-  static Steady.Warmup throughput(Tokenizer t, List<String> texts, double[] mbps) {
+  static Steady.Warmup throughput(Tokenizer t, List<String> texts, double[] mbps, long maxWarmupNanos) {
     long bytes = 0;
     for (String s : texts) {
       bytes += s.getBytes(StandardCharsets.UTF_8).length;
     }
-    Steady.Warmup w = Steady.warmUp(() -> pass(t, texts), Steady.DEFAULT_TOLERANCE, MIN_WARMUP_NANOS, MAX_WARMUP_NANOS);
-    long[] timed = new long[TIMED_PASSES];
+    long b = bytes;
+    Steady.Warmup w = Steady.warmUp(() -> round(t, texts, b), Steady.DEFAULT_TOLERANCE,
+        Math.min(MIN_WARMUP_NANOS, maxWarmupNanos), maxWarmupNanos);
+    double[] timed = new double[TIMED_ROUNDS];
     for (int i = 0; i < timed.length; i++) {
-      timed[i] = pass(t, texts);
+      timed[i] = round(t, texts, b);
     }
     java.util.Arrays.sort(timed);
-    long median = timed[timed.length / 2];
-    mbps[0] = median <= 0 ? 0 : bytes / 1e6 / (median / 1e9);
+    mbps[0] = timed[timed.length / 2];
     return w;
+  }
+
+  /** MB/s of one round: whole passes over the texts until {@link #ROUND_NANOS} have passed. */
+  private static double round(Tokenizer t, List<String> texts, long bytes) {
+    long t0 = System.nanoTime();
+    long passes = 0;
+    long dt;
+    do {
+      pass(t, texts);
+      passes++;
+      dt = System.nanoTime() - t0;
+    } while (dt < ROUND_NANOS);
+    return bytes * passes / 1e6 / (dt / 1e9);
   }
 
   private static long sink;
 
-  private static long pass(Tokenizer t, List<String> texts) {
-    long t0 = System.nanoTime();
+  private static void pass(Tokenizer t, List<String> texts) {
     long s = 0;
     for (String x : texts) {
       s += t.encode(x).size();
     }
     sink += s;
-    return System.nanoTime() - t0;
   }
 }

@@ -59,6 +59,10 @@ final class SweepCommand implements Callable<Integer> {
   @Option(names = "--threads", paramLabel = "N", description = "Threads for counting and training (default: all cores).")
   int threads = Runtime.getRuntime().availableProcessors();
 
+  @Option(names = "--max-warmup", paramLabel = "SECONDS", defaultValue = "20",
+      description = "Most warm-up per cell before its encode speed is measured; a speed measured after giving up is marked NOT stable (default: ${DEFAULT-VALUE}).")
+  double maxWarmup;
+
   @Option(names = {"-o", "--out"}, required = true, paramLabel = "DIR", description = "Folder for sweep.csv and sweep.html.")
   Path out;
 
@@ -81,13 +85,17 @@ final class SweepCommand implements Callable<Integer> {
     if (threads <= 0) {
       throw new Morsel.UsageException("--threads must be positive, got " + threads);
     }
+    if (maxWarmup < 0) {
+      throw new Morsel.UsageException("--max-warmup must not be negative, got " + maxWarmup);
+    }
     int alpha = TrainCommand.alphabet(alphabet);
     Pipeline pipeline = TrainCommand.pipeline(normalize, split);
     List<Path> files = Inputs.expand(corpus);
     Map<String, List<String>> groups = read(files, badUtf8.policy(), spec.commandLine().getErr(), "sweep");
     List<Sweep.Row> rows;
     try (Progress progress = Progress.onTerminal()) {
-      rows = Sweep.run(groups, every, pipeline, schemes, sizes, alpha, threads, progress, spec.commandLine().getErr());
+      rows = Sweep.run(groups, every, pipeline, schemes, sizes, alpha, threads, progress, spec.commandLine().getErr(),
+          (long) (maxWarmup * 1e9));
     }
     Report.Meta meta = Report.Meta.of(files, every, pipeline, alphabet);
     write(rows, out, "Vocabulary sweep", meta, spec.commandLine().getOut());
@@ -134,8 +142,8 @@ final class SweepCommand implements Callable<Integer> {
         }
       }
     }
-    o.println("encode speed: one thread, median of " + Sweep.TIMED_PASSES + " passes after a warm-up until "
-        + Steady.WINDOW + " consecutive passes agree within 5%");
+    o.println("encode speed: one thread, median of " + Sweep.TIMED_ROUNDS + " rounds of at least 50 ms after a warm-up"
+        + " until " + Steady.WINDOW + " consecutive rounds agree within 5%");
     o.println("wrote " + dir.resolve("sweep.csv") + " and " + dir.resolve("sweep.html"));
   }
 }

@@ -62,7 +62,7 @@ class CliRobustnessTest {
   void sweepWithAnInfeasibleCellWritesCsvAndHtmlAndExitsZero() throws Exception {
     Path out = dir.resolve("sweep-infeasible");
     // wordpiece at 60 with an alphabet of 300 characters cannot hold the alphabet; bpe at 60 is below its 256 byte tokens
-    CliTest.Run r = CliTest.run("sweep", "--schemes", "bpe,wordpiece", "--sizes", "60,600", "--alphabet", "300", "--out",
+    CliTest.Run r = CliTest.run("sweep", "--max-warmup", "1", "--schemes", "bpe,wordpiece", "--sizes", "60,600", "--alphabet", "300", "--out",
         out.toString(), corpus.toString());
     assertEquals(0, r.code(), r.err());
     assertTrue(r.err().contains("wordpiece at 60 is not feasible") && r.err().contains("--alphabet"), r.err());
@@ -84,7 +84,7 @@ class CliRobustnessTest {
   @Test
   void csvGivesSpeedOnlyOnOverallRowsAndTheReportRecordsItsInputs() throws Exception {
     Path out = dir.resolve("sweep-report");
-    CliTest.Run r = CliTest.run("sweep", "--schemes", "bpe,unigram", "--sizes", "400,1600", "--out", out.toString(),
+    CliTest.Run r = CliTest.run("sweep", "--max-warmup", "1", "--schemes", "bpe,unigram", "--sizes", "400,1600", "--out", out.toString(),
         corpus.toString());
     assertEquals(0, r.code(), r.err());
     List<String> csv = Files.readAllLines(out.resolve("sweep.csv"));

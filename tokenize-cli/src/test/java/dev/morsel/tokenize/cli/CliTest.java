@@ -188,7 +188,7 @@ class CliTest {
   @Test
   void sweepWritesACsvRowPerSchemeAndSizeAndOneChartPerFigure() throws Exception {
     Path out = dir.resolve("sweep");
-    Run sweep = run("sweep", "--sizes", "400,800,1600", "--out", out.toString(), corpus.toString());
+    Run sweep = run("sweep", "--max-warmup", "1", "--sizes", "400,800,1600", "--out", out.toString(), corpus.toString());
     assertEquals(0, sweep.code(), sweep.err());
     List<String> csv = Files.readAllLines(out.resolve("sweep.csv"));
     assertEquals(Report.CSV_HEADER, csv.get(0));

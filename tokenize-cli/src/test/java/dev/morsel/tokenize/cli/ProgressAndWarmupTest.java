@@ -13,18 +13,19 @@ class ProgressAndWarmupTest {
 
   @Test
   void warmUpStopsAtTheFirstThreeAgreeingPasses() {
-    // a JIT-like curve: slow passes, then a plateau within 5 %
-    Iterator<Long> times = List.of(900L, 500L, 300L, 210L, 200L, 204L, 202L, 200L).iterator();
-    Steady.Warmup w = Steady.warmUp(times::next, 0.05, 0, Long.MAX_VALUE);
+    // a JIT-like curve of rates: slow rounds, then a plateau within 5 %
+    Iterator<Double> rates = List.of(1.0, 3.0, 6.0, 9.5, 10.0, 9.8, 9.9, 10.0).iterator();
+    Steady.Warmup w = Steady.warmUp(rates::next, 0.05, 0, Long.MAX_VALUE);
     assertTrue(w.stable());
-    assertEquals(6, w.passes(), "210, 200, 204 are the first three within 5%");
-    assertTrue(w.describe().contains("6 passes") && w.describe().contains("within 5%"), w.describe());
+    // (10.0 - 9.5) / 9.5 = 5.3 %: the first three within 5 % are 10.0, 9.8, 9.9
+    assertEquals(7, w.passes());
+    assertTrue(w.describe().contains("7 rounds") && w.describe().contains("within 5%"), w.describe());
   }
 
   @Test
   void warmUpThatNeverSettlesSaysSo() {
-    long[] t = {100};
-    Steady.Warmup w = Steady.warmUp(() -> t[0] *= 2, 0.05, 0, 0);
+    double[] r = {100};
+    Steady.Warmup w = Steady.warmUp(() -> r[0] *= 2, 0.05, 0, 0);
     assertFalse(w.stable());
     assertTrue(w.describe().contains("NOT stable"), w.describe());
   }
