@@ -76,7 +76,8 @@ final class DemoCommand implements Callable<Integer> {
     Pipeline pipeline = Pipeline.defaults();
     int threads = Runtime.getRuntime().availableProcessors();
     PieceCounts counts = PieceCounter.builder().pipeline(pipeline).threads(threads).build().countFiles(files);
-    o.printf(Locale.ROOT, "Counted %,d distinct pieces (%,d in all) with %s%n%n", counts.size(), counts.total(), pipeline);
+    o.printf(Locale.ROOT, "Counted %,d distinct pieces (%,d in all) with normalization %s, splitting %s%n%n", counts.size(),
+        counts.total(), pipeline.normalization().spec(), pipeline.splitting().spec());
     boolean color = System.console() != null && System.getenv("NO_COLOR") == null;
     for (String scheme : Schemes.NAMES) {
       long s0 = System.nanoTime();

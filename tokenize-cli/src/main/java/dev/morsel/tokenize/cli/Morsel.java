@@ -12,12 +12,15 @@ import picocli.CommandLine.Option;
  * the work itself failed (unreadable corpus, corrupt model, malformed ids). Errors are one line on
  * standard error naming the file, line or option; {@code --verbose} adds the stack trace.
  */
-@Command(name = "morsel", mixinStandardHelpOptions = true, versionProvider = Morsel.Version.class,
+@Command(name = "morsel", mixinStandardHelpOptions = true, separator = " ", versionProvider = Morsel.Version.class,
     description = "Train subword vocabularies, encode and decode text with exact offsets, measure before you deploy.",
     subcommands = {TrainCommand.class, EncodeCommand.class, DecodeCommand.class, InspectCommand.class,
         SweepCommand.class, BenchCommand.class, DemoCommand.class, CommandLine.HelpCommand.class},
-    footer = {"", "Examples:", "  morsel demo", "  morsel train --scheme bpe --vocab-size 8000 --out ferry.morsel corpus/*.txt",
-        "  echo 'Is the 07:40 from Oskevik late?' | morsel encode --model ferry.morsel --format json",
+    footer = {"", "Examples:", "  morsel demo",
+        "  morsel train --scheme bpe --vocab-size 2000 --out ferry.morsel \\",
+        "      morsel-demo/corpus/*.txt",
+        "  echo 'Is the 07:40 from Oskevik late?' \\",
+        "      | morsel encode --model ferry.morsel --format json",
         "  morsel inspect --model ferry.morsel --explain 'Harrowmere'"})
 public final class Morsel implements Runnable {
   /** Exit code for failed work. */
