@@ -241,35 +241,33 @@ final class EncodeCommand implements Callable<Integer> {
       }
       from = to;
     }
-    JsonGenerator g = json;
-    g.writeStartObject();
-    g.writeArrayFieldStart("ids");
-    for (long i = 0; i < ids.size(); i++) {
-      g.writeNumber(ids.get(i));
-    }
-    g.writeEndArray();
-    g.writeArrayFieldStart("tokens");
-    for (long i = 0; i < ids.size(); i++) {
-      g.writeString(t.token(ids.get(i)));
-    }
-    g.writeEndArray();
-    g.writeArrayFieldStart("texts");
-    for (long i = 0; i < ids.size(); i++) {
-      g.writeString(line.substring(starts.get(i), ends.get(i)));
-    }
-    g.writeEndArray();
-    g.writeArrayFieldStart("starts");
-    for (long i = 0; i < ids.size(); i++) {
-      g.writeNumber(starts.get(i));
-    }
-    g.writeEndArray();
-    g.writeArrayFieldStart("ends");
-    for (long i = 0; i < ids.size(); i++) {
-      g.writeNumber(ends.get(i));
-    }
-    g.writeEndArray();
-    g.writeEndObject();
-    g.flush();
+    writeJson(json, t, new Spans() {
+      @Override
+      public long size() {
+        return ids.size();
+      }
+
+      @Override
+      public int id(long i) {
+        return ids.get(i);
+      }
+
+      @Override
+      public int start(long i) {
+        return starts.get(i);
+      }
+
+      @Override
+      public int end(long i) {
+        return ends.get(i);
+      }
+
+      @Override
+      public int segment(long i) {
+        return 0;
+      }
+    }, line, null);
+    json.flush();
     out.append('\n');
   }
 
@@ -380,7 +378,7 @@ final class EncodeCommand implements Callable<Integer> {
         }
         out.append(sb).append('\n');
       } else {
-        writeJson(json, t, r, pair ? pairs.get(i)[0] : batch.lines.get(i), pair ? pairs.get(i)[1] : null);
+        writeJson(json, t, Spans.of(r), pair ? pairs.get(i)[0] : batch.lines.get(i), pair ? pairs.get(i)[1] : null);
         json.flush();
         out.append('\n');
       }
@@ -389,39 +387,82 @@ final class EncodeCommand implements Callable<Integer> {
     batch.clear();
   }
 
+  /** Tokens and their spans, from one {@link Tokens} or from the parts of a long line. */
+  interface Spans {
+    long size();
+
+    int id(long i);
+
+    int start(long i);
+
+    int end(long i);
+
+    int segment(long i);
+
+    static Spans of(Tokens r) {
+      return new Spans() {
+        @Override
+        public long size() {
+          return r.size();
+        }
+
+        @Override
+        public int id(long i) {
+          return r.id((int) i);
+        }
+
+        @Override
+        public int start(long i) {
+          return r.start((int) i);
+        }
+
+        @Override
+        public int end(long i) {
+          return r.end((int) i);
+        }
+
+        @Override
+        public int segment(long i) {
+          return r.segment((int) i);
+        }
+      };
+    }
+  }
+
   /** One JSON line: ids, display tokens, original text of each token, UTF-16 starts and ends (and segments for pairs). */
-  static void writeJson(JsonGenerator g, Tokenizer t, Tokens r, String first, String second) {
+  static void writeJson(JsonGenerator g, Tokenizer t, Spans r, String first, String second) {
     try {
+      long n = r.size();
       g.writeStartObject();
       g.writeArrayFieldStart("ids");
-      for (int i = 0; i < r.size(); i++) {
+      for (long i = 0; i < n; i++) {
         g.writeNumber(r.id(i));
       }
       g.writeEndArray();
       g.writeArrayFieldStart("tokens");
-      for (int i = 0; i < r.size(); i++) {
+      for (long i = 0; i < n; i++) {
         g.writeString(t.token(r.id(i)));
       }
       g.writeEndArray();
       g.writeArrayFieldStart("texts");
-      for (int i = 0; i < r.size(); i++) {
+      for (long i = 0; i < n; i++) {
         String src = r.segment(i) == 0 ? first : second;
         g.writeString(src.substring(r.start(i), r.end(i)));
       }
       g.writeEndArray();
       g.writeArrayFieldStart("starts");
-      for (int i = 0; i < r.size(); i++) {
+      for (long i = 0; i < n; i++) {
         g.writeNumber(r.start(i));
       }
       g.writeEndArray();
       g.writeArrayFieldStart("ends");
-      for (int i = 0; i < r.size(); i++) {
+      for (long i = 0; i < n; i++) {
         g.writeNumber(r.end(i));
       }
       g.writeEndArray();
       if (second != null) {
         g.writeArrayFieldStart("segments");
-        for (int i = 0; i < r.size(); i++) {
+        for (long i = 0; i < n; i++) {
           g.writeNumber(r.segment(i));
         }
         g.writeEndArray();
@@ -431,4 +472,5 @@ final class EncodeCommand implements Callable<Integer> {
       throw new UncheckedIOException(e);
     }
   }
+
 }
