@@ -158,10 +158,10 @@ public final class MergeLearner {
       tokenBytes.add(merged);
       known.add(key(merged));
       apply(pair, a, b, id, fresh);
-      // the new token as text (the halves of a multi-byte character are escaped bytes; their merge
-      // reads as the character), and its count
-      listener.progress("merges", leftOut.size(), maxMerges,
-          "'" + ByteSpelling.display(merged, 0, merged.length) + "' (" + current + ")");
+      // the new token first, as text (halves of a multi-byte character show as escaped bytes, their
+      // merge reads as the character), then its halves and its count
+      listener.progress("merges", leftOut.size(), maxMerges, "'" + ByteSpelling.display(merged, 0, merged.length) + "' = '"
+          + ByteSpelling.display(la, 0, la.length) + "' + '" + ByteSpelling.display(lb, 0, lb.length) + "' (" + current + ")");
     }
     return new int[][] {leftOut.toIntArray(), rightOut.toIntArray()};
   }
