@@ -4,6 +4,7 @@ import java.io.IOException;
 import java.io.UncheckedIOException;
 import java.nio.ByteBuffer;
 import java.nio.channels.FileChannel;
+import java.nio.file.Files;
 import java.nio.file.Path;
 import java.nio.file.StandardOpenOption;
 import java.util.Map;
@@ -112,6 +113,10 @@ public final class ModelFile {
    */
   public static ModelSections read(Path path) {
     Objects.requireNonNull(path, "path");
+    if (Files.isDirectory(path)) {
+      throw new UncheckedIOException("cannot read model file " + path + ": it is a folder, not a file",
+          new IOException(path + " is a directory"));
+    }
     ByteBuffer mapped;
     try (FileChannel ch = FileChannel.open(path, StandardOpenOption.READ)) {
       long size = ch.size();
@@ -121,7 +126,7 @@ public final class ModelFile {
       }
       mapped = ch.map(FileChannel.MapMode.READ_ONLY, 0, size);
     } catch (IOException e) {
-      throw new UncheckedIOException("cannot read model file " + path + ": " + e.getMessage(), e);
+      throw new UncheckedIOException("cannot read model file " + path + ": " + reason(e), e);
     }
     try {
       return read(mapped);
@@ -150,5 +155,17 @@ public final class ModelFile {
       sorted.put(e.getKey(), ByteBuffer.wrap(e.getValue()));
     }
     return Digests.fingerprint(sorted);
+  }
+
+  /** Why a file cannot be read, in words: the exception's message alone is often just the path. */
+  private static String reason(IOException e) {
+    if (e instanceof java.nio.file.NoSuchFileException) {
+      return "no such file";
+    }
+    if (e instanceof java.nio.file.AccessDeniedException) {
+      return "permission denied";
+    }
+    String m = e.getMessage();
+    return m == null ? e.getClass().getSimpleName() : m;
   }
 }

@@ -34,9 +34,10 @@ import java.util.Set;
  *   <li>Alphabet: the code points of the pieces, ranked by total occurrences (count-weighted), ties
  *       by smaller code point; the first {@code maxAlphabet} are kept. Pieces holding any other code
  *       point are left out of training (the encoder maps such pieces to the unknown token anyway).
- *       The initial units are the forms that occur: the word-initial form of a piece's first code
- *       point and the continuation form of the others; ids follow the alphabet rank, word-initial
- *       form first.
+ *       The initial units are both forms (word-initial and continuation) of every code point that
+ *       occurs in a piece lying wholly inside the alphabet, so every such piece stays encodable
+ *       whichever position its code points take at encode time; ids follow the alphabet rank,
+ *       word-initial form first.
  *   <li>Merges: each piece is a sequence of units; repeatedly the adjacent pair (a, b) with the
  *       highest score is merged everywhere (leftmost first within a piece) into the unit ab, which
  *       keeps a's form. Counts are count-weighted occurrences in the current segmentation (pair
@@ -491,12 +492,14 @@ public final class WordPieceLearner {
         throw new IllegalArgumentException("no piece lies inside the alphabet of maxAlphabet=" + maxAlphabet
             + " code points");
       }
+      // Both forms of every code point that occurs in a usable piece: a code point seen only after
+      // '-' or '/' in training (the second half of "по-широко") still starts a piece at encode time
+      // when the splitter cuts there, and one seen only word-initially still continues a longer
+      // piece; with both forms every piece made of alphabet code points is encodable.
       for (int r = 0; r < keep; r++) {
         String s = new String(Character.toChars(cps[order[r]]));
-        if (initialSeen[r]) {
+        if (initialSeen[r] || contSeen[r]) {
           addUnit(s, false);
-        }
-        if (contSeen[r]) {
           addUnit(s, true);
         }
       }

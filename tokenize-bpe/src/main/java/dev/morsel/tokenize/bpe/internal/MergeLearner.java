@@ -159,8 +159,10 @@ public final class MergeLearner {
       tokenBytes.add(merged);
       known.add(key(merged));
       apply(pair, a, b, id, fresh);
-      listener.progress("merges", leftOut.size(), maxMerges,
-          ReviewText.escape(la) + "+" + ReviewText.escape(lb) + " " + current);
+      // the new token first, as text (halves of a multi-byte character show as escaped bytes, their
+      // merge reads as the character), then its halves and its count
+      listener.progress("merges", leftOut.size(), maxMerges, "'" + ReviewText.escape(merged) + "' = '"
+          + ReviewText.escape(la) + "' + '" + ReviewText.escape(lb) + "' (" + current + ")");
     }
     return new int[][] {leftOut.toIntArray(), rightOut.toIntArray()};
   }
