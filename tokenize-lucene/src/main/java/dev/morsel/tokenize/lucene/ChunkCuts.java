@@ -16,8 +16,10 @@ import com.ibm.icu.text.Normalizer2;
  *   <li>{@code text[c-1]} is LF (U+000A) and {@code text[c]} is plain.
  * </ul>
  * A plain char is a BMP code point of general category L, N, P or S, not
- * {@code Default_Ignorable_Code_Point}, of canonical combining class 0, whose compatibility
- * decomposition and full case folding hold only such chars. Such a char stays a non-empty,
+ * {@code Default_Ignorable_Code_Point}, of canonical combining class 0, with a normalization
+ * boundary before it under NFC, NFKC and NFKC_Casefold (so not a Hangul vowel or final jamo, which
+ * compose with what precedes them), whose compatibility decomposition and full case folding hold
+ * only such chars. Such a char stays a non-empty,
  * non-space, non-mark starter under every normalization Morsel offers (no form, case folding, mark
  * removal, control dropping or space collapsing removes it, joins it with a space or lets it
  * combine across the cut), so the normalization chunks [1] do not straddle the cut. The single
@@ -40,8 +42,11 @@ final class ChunkCuts {
 
     static {
       Normalizer2 nfkd = Normalizer2.getNFKDInstance();
+      Normalizer2[] composing = {Normalizer2.getNFCInstance(), Normalizer2.getNFKCInstance(),
+          Normalizer2.getNFKCCasefoldInstance()};
       for (int c = 0; c < 0x10000; c++) {
-        if (isPlainAlone(c)) {
+        if (isPlainAlone(c) && composing[0].hasBoundaryBefore(c) && composing[1].hasBoundaryBefore(c)
+            && composing[2].hasBoundaryBefore(c)) {
           String d = nfkd.getDecomposition(c);
           String f = UCharacter.foldCase(String.valueOf((char) c), true);
           if ((d == null || allPlainAlone(d)) && allPlainAlone(f)) {

@@ -90,7 +90,7 @@ class ChunkingPropertyTest {
     assertEquals(text.length(), s.finalOffset, msg);
   }
 
-  @RepeatedTest(60)
+  @RepeatedTest(100)
   void chunkedEqualsWholeForEveryPipeline(RepetitionInfo info) throws IOException {
     SplittableRandom r = new SplittableRandom(0x4C55C3L + info.getCurrentRepetition());
     for (String form : NORMALIZATIONS) {
