@@ -15,7 +15,8 @@ import com.ibm.icu.text.Normalizer2;
  *       <em>plain</em>; or
  *   <li>{@code text[c-1]} is LF (U+000A) and {@code text[c]} is plain.
  * </ul>
- * A plain char is a BMP code point of general category L, N, P or S, not
+ * A plain char is a BMP code point of class letters, digits, ideograph, punctuation or symbol
+ * ({@link PieceClass}: general category L, Nd, P or S), not
  * {@code Default_Ignorable_Code_Point}, of canonical combining class 0, with a normalization
  * boundary before it under NFC, NFKC and NFKC_Casefold (so not a Hangul vowel or final jamo, which
  * compose with what precedes them), whose compatibility decomposition and full case folding hold
@@ -71,30 +72,8 @@ final class ChunkCuts {
           || UCharacter.hasBinaryProperty(c, UProperty.WHITE_SPACE)) {
         return false;
       }
-      switch (UCharacter.getType(c)) {
-        case UCharacter.UPPERCASE_LETTER:
-        case UCharacter.LOWERCASE_LETTER:
-        case UCharacter.TITLECASE_LETTER:
-        case UCharacter.MODIFIER_LETTER:
-        case UCharacter.OTHER_LETTER:
-        case UCharacter.DECIMAL_DIGIT_NUMBER:
-        case UCharacter.LETTER_NUMBER:
-        case UCharacter.OTHER_NUMBER:
-        case UCharacter.CONNECTOR_PUNCTUATION:
-        case UCharacter.DASH_PUNCTUATION:
-        case UCharacter.START_PUNCTUATION:
-        case UCharacter.END_PUNCTUATION:
-        case UCharacter.INITIAL_PUNCTUATION:
-        case UCharacter.FINAL_PUNCTUATION:
-        case UCharacter.OTHER_PUNCTUATION:
-        case UCharacter.MATH_SYMBOL:
-        case UCharacter.CURRENCY_SYMBOL:
-        case UCharacter.MODIFIER_SYMBOL:
-        case UCharacter.OTHER_SYMBOL:
-          return true;
-        default:
-          return false;
-      }
+      PieceClass k = PieceClass.classify(c);
+      return k != PieceClass.MARK && k != PieceClass.OTHER;
     }
   }
 

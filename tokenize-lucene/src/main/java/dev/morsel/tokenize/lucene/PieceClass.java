@@ -89,7 +89,7 @@ public enum PieceClass {
   }
 
   /** The class of a code point that is not whitespace. */
-  private static PieceClass classify(int cp) {
+  static PieceClass classify(int cp) {
     if (UCharacter.hasBinaryProperty(cp, UProperty.UNIFIED_IDEOGRAPH)) {
       return IDEOGRAPH;
     }
