@@ -1,10 +1,13 @@
 package dev.morsel.tokenize.lucene;
 
 import dev.morsel.tokenize.Tokenizer;
+import java.io.Reader;
 import java.io.StringReader;
 import java.nio.file.Files;
 import java.nio.file.Path;
+import java.util.concurrent.atomic.AtomicInteger;
 import org.apache.lucene.analysis.Analyzer;
+import org.apache.lucene.analysis.AnalyzerWrapper;
 import org.apache.lucene.analysis.custom.CustomAnalyzer;
 import org.apache.lucene.tests.analysis.BaseTokenStreamTestCase;
 
@@ -33,6 +36,11 @@ public class LuceneConformanceTest extends BaseTokenStreamTestCase {
   private static final String SYMBOL = PieceClass.SYMBOL.type();
   /** Random texts per scheme; the bar is 1,000. */
   private static final int ITERATIONS = 1000;
+  /** Longest random "word" for the chunking runs, in chars (reason: several 16-char chunks per text). */
+  private static final int LONG_WORDS = 100;
+
+  /** JUnit 4 creates the suite through this constructor. */
+  public LuceneConformanceTest() {}
 
   private static Analyzer analyzer(Tokenizer morsel, SubwordSettings settings) {
     return SubwordAnalyzer.of(morsel, settings);
@@ -181,7 +189,7 @@ public class LuceneConformanceTest extends BaseTokenStreamTestCase {
         .idPayload(true).build();
     for (String scheme : TestModels.schemes()) {
       try (Analyzer a = analyzer(TestModels.tokenizer(scheme), s)) {
-        checkRandomData(random(), a, ITERATIONS / 4);
+        checkRandomData(random(), a, ITERATIONS / 4, LONG_WORDS);
       }
     }
   }
@@ -198,8 +206,32 @@ public class LuceneConformanceTest extends BaseTokenStreamTestCase {
   }
 
   private static void random(Tokenizer morsel, SubwordSettings settings) throws Exception {
-    try (Analyzer a = analyzer(morsel, settings)) {
+    try (Analyzer inner = analyzer(morsel, settings); Counting a = new Counting(inner)) {
       checkRandomData(random(), a, ITERATIONS);
+      // every random text is analyzed at least once, so the suite really saw ITERATIONS texts
+      assertTrue("streams opened: " + a.streams.get(), a.streams.get() >= ITERATIONS);
+    }
+  }
+
+  /** Counts the token streams Lucene's checks open (one reader each). */
+  private static final class Counting extends AnalyzerWrapper {
+    final AtomicInteger streams = new AtomicInteger();
+    private final Analyzer inner;
+
+    Counting(Analyzer inner) {
+      super(Analyzer.PER_FIELD_REUSE_STRATEGY);
+      this.inner = inner;
+    }
+
+    @Override
+    protected Analyzer getWrappedAnalyzer(String fieldName) {
+      return inner;
+    }
+
+    @Override
+    protected Reader wrapReader(String fieldName, Reader reader) {
+      streams.incrementAndGet();
+      return reader;
     }
   }
 }
