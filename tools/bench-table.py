@@ -20,6 +20,7 @@ GOALS = {
     "unigram_adversarial_scale": ("<=", 12),
     "batch_2_vs_1": (">=", 1.8),
     "bpe_train_vs_count": ("<=", 15),
+    "lucene_vs_bpe": (">=", 0.7),
 }
 
 

@@ -72,6 +72,7 @@ public final class BenchSummary {
     f.add(new Figure("unigram_prose_1m_s", uni + ".prose1m", 0));
     f.add(new Figure("unigram_adversarial_1m_s", uni + ".adversarial1m", 0));
     f.add(new Figure("unigram_adversarial_100k_s", uni + ".adversarial100k", 0));
+    f.add(new Figure("lucene_analyze", LuceneBenchmarks.class.getName() + ".analyze", corpus));
     String train = TrainingBenchmarks.class.getName();
     f.add(new Figure("count_pieces_s", train + ".countPieces", 0));
     f.add(new Figure("bpe_train_32k_s", train + ".trainBpe32k", 0));
@@ -97,6 +98,7 @@ public final class BenchSummary {
     r.put("unigram_vs_split", new String[] {"unigram_encode", "split"});
     r.put("unigram_adversarial_scale", new String[] {"unigram_adversarial_1m_s", "unigram_adversarial_100k_s"});
     r.put("unigram_adversarial_vs_prose", new String[] {"unigram_adversarial_1m_s", "unigram_prose_1m_s"});
+    r.put("lucene_vs_bpe", new String[] {"lucene_analyze", "bpe_encode"});
     r.put("bpe_train_vs_count", new String[] {"bpe_train_32k_s", "count_pieces_s"});
     return r;
   }
