@@ -198,7 +198,7 @@ public final class SubwordTokenizer extends Tokenizer {
    * not padding. The one place that reads the result's flags.
    */
   private static boolean isContent(Tokens t, int i) {
-    return (t.flags(i) & (Tokens.CONTROL | Tokens.FRAME | Tokens.PADDING)) == 0;
+    return (t.flags(i) & (Tokens.RESERVED | Tokens.FRAME | Tokens.PADDING)) == 0;
   }
 
   private void emit(Tokens t, int i) {

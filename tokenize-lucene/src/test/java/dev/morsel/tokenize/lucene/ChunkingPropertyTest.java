@@ -36,7 +36,7 @@ class ChunkingPropertyTest {
       "nfkc+casefold+remove-marks+drop-controls+collapse-spaces", "none+remove-marks+collapse-spaces",
       "nfkd+drop-controls+collapse-spaces"};
   private static final Splitting[] SPLITTINGS = {
-      Splitting.rules(), Splitting.rules(1), Splitting.words(), Splitting.whitespace()};
+      Splitting.runs(), Splitting.runs(Splitting.Space.NEXT, 1), Splitting.words(), Splitting.whitespace()};
 
   /** Fragments the random text is built from; each targets a rule of the cut or of a step. */
   private static final String[] FRAGMENTS = {

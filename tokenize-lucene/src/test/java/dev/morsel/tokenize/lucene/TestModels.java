@@ -35,7 +35,7 @@ final class TestModels {
   /** A reserved spelling of our own, to show that reserved tokens never reach the index. */
   static final String DOCK = "\u27e8dock\u27e9";
   /** NFKC and rule-based splitting. */
-  static final Pipeline PIPELINE = Pipeline.of(Normalization.of(Normalization.Form.NFKC), Splitting.rules());
+  static final Pipeline PIPELINE = Pipeline.of(Normalization.of(Normalization.Form.NFKC), Splitting.runs());
 
   private TestModels() {}
 
@@ -45,14 +45,14 @@ final class TestModels {
     static final Map<String, Tokenizer> TOKENIZERS = new LinkedHashMap<>();
 
     static {
-      BpeSegmenter bpe = BpeLearner.builder().vocabularySize(VOCABULARY).controlTokens(List.of(DOCK)).threads(1)
+      BpeSegmenter bpe = BpeLearner.builder().vocabularySize(VOCABULARY).reservedTokens(List.of(DOCK)).threads(1)
           .build().train(PIECES);
       TOKENIZERS.put("bpe", framed(Tokenizers.of(PIPELINE, bpe)));
       WordPieceSegmenter wordPiece = WordPieceLearner.builder().vocabularySize(VOCABULARY)
-          .controlTokens(List.of(DOCK)).build().train(PIECES);
+          .reservedTokens(List.of(DOCK)).build().train(PIECES);
       TOKENIZERS.put("wordpiece", framed(Tokenizers.of(PIPELINE, wordPiece)));
       UnigramModel unigram = UnigramLearner.builder().vocabularySize(VOCABULARY).rawBytes(true)
-          .controlTokens(List.of(DOCK)).threads(1).build().train(PIECES);
+          .reservedTokens(List.of(DOCK)).threads(1).build().train(PIECES);
       TOKENIZERS.put("unigram", framed(Tokenizers.of(PIPELINE, unigram)));
     }
   }
