@@ -7,6 +7,7 @@ import dev.morsel.tokenize.bpe.internal.Encoder;
 import dev.morsel.tokenize.bpe.internal.PieceCache;
 import dev.morsel.tokenize.bpe.internal.Vocab;
 import dev.morsel.tokenize.format.ModelFormatException;
+import dev.morsel.tokenize.format.ModelLimits;
 import dev.morsel.tokenize.format.ModelSections;
 import dev.morsel.tokenize.format.ModelWriter;
 import dev.morsel.tokenize.spi.ByteSink;
@@ -129,7 +130,16 @@ public final class BpeSegmenter implements Segmenter {
    * @throws ModelFormatException naming the section and the entry that is wrong
    */
   public static BpeSegmenter read(ModelSections sections) {
-    BpeSections.Read r = BpeSections.read(sections);
+    return read(sections, ModelLimits.defaults());
+  }
+
+  /**
+   * As {@link #read(ModelSections)}, with every count and spelling checked against {@code limits}.
+   *
+   * @throws ModelFormatException naming the section and the entry that is wrong, or the limit exceeded
+   */
+  public static BpeSegmenter read(ModelSections sections, ModelLimits limits) {
+    BpeSections.Read r = BpeSections.read(sections, limits);
     try {
       return create(r.vocab, r.cacheEntries);
     } catch (IllegalArgumentException e) {
