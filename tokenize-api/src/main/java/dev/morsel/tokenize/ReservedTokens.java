@@ -43,8 +43,8 @@ public final class ReservedTokens {
   private static final ReservedTokens NONE = new ReservedTokens(new LinkedHashMap<>(), Automaton.EMPTY);
 
   private final Map<String, Integer> byspelling; // insertion order
-  private final Object2IntOpenHashMap<String> ids = new Object2IntOpenHashMap<>();
-  private final Int2ObjectOpenHashMap<String> spellings = new Int2ObjectOpenHashMap<>();
+  private final Object2IntOpenHashMap<String> ids;
+  private final Int2ObjectOpenHashMap<String> spellings;
   private final Automaton automaton;
   private final int[] idOfSpelling; // spelling index (insertion order) -> id
 
@@ -52,6 +52,8 @@ public final class ReservedTokens {
     this.byspelling = Collections.unmodifiableMap(new LinkedHashMap<>(map));
     this.automaton = automaton;
     this.idOfSpelling = new int[map.size()];
+    this.ids = new Object2IntOpenHashMap<>(map.size());
+    this.spellings = new Int2ObjectOpenHashMap<>(map.size());
     ids.defaultReturnValue(-1);
     int i = 0;
     for (Map.Entry<String, Integer> e : map.entrySet()) {

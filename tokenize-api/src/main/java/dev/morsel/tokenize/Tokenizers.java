@@ -189,19 +189,14 @@ public final class Tokenizers {
       throw new ModelFormatException(PipelineTokenizer.PIPE, e.getMessage(), e);
     }
     SectionReader c = sections.reader(PipelineTokenizer.RSRV);
-    ReservedTokens.Builder cb = ReservedTokens.builder();
     int n = limits.readReservedCount(c, "reserved tokens", 8);
-    ReservedTokens reserved;
-    try {
-      for (int i = 0; i < n; i++) {
-        int id = c.getInt("reserved token id");
-        cb.add(limits.readToken(c, "reserved token " + i + " spelling"), id);
-      }
-      c.expectEnd();
-      reserved = cb.build();
-    } catch (IllegalArgumentException e) {
-      throw new ModelFormatException(PipelineTokenizer.RSRV, e.getMessage(), e);
+    int[] ids = new int[n];
+    String[] spellings = new String[n];
+    for (int i = 0; i < n; i++) {
+      ids[i] = c.getInt("reserved token " + i + " id");
+      spellings[i] = limits.readToken(c, "reserved token " + i + " spelling");
     }
+    c.expectEnd();
     SectionReader f = sections.reader(PipelineTokenizer.FRAM);
     List<List<String>> lists = new ArrayList<>();
     for (String what : List.of("begin markers", "separator markers", "end markers")) {
@@ -214,7 +209,22 @@ public final class Tokenizers {
     }
     f.expectEnd();
     Segmenter segmenter = provider.read(sections, limits);
-    checkAgree(reserved, segmenter, sections);
+    ReservedTokens own = segmenter.reservedTokens();
+    ReservedTokens reserved;
+    if (sameAs(own, ids, spellings)) {
+      reserved = own; // the usual case: one list, already validated by the segmenter, is not built twice
+    } else {
+      ReservedTokens.Builder cb = ReservedTokens.builder();
+      try {
+        for (int i = 0; i < n; i++) {
+          cb.add(spellings[i], ids[i]);
+        }
+        reserved = cb.build();
+      } catch (IllegalArgumentException e) {
+        throw new ModelFormatException(PipelineTokenizer.RSRV, e.getMessage(), e);
+      }
+      checkAgree(reserved, segmenter, sections);
+    }
     try {
       // with another Unicode version allowed, the fingerprint is this runtime's (the file's no longer proves encodings)
       return new PipelineTokenizer(pipeline, segmenter, reserved, Template.of(lists.get(0), lists.get(1), lists.get(2)),
@@ -222,6 +232,20 @@ public final class Tokenizers {
     } catch (IllegalArgumentException e) {
       throw new ModelFormatException(PipelineTokenizer.RSRV, e.getMessage(), e);
     }
+  }
+
+  /** Whether {@code own} holds exactly these (spelling, id) pairs in this order. */
+  private static boolean sameAs(ReservedTokens own, int[] ids, String[] spellings) {
+    if (own.size() != ids.length) {
+      return false;
+    }
+    List<String> order = own.spellings();
+    for (int i = 0; i < ids.length; i++) {
+      if (!order.get(i).equals(spellings[i]) || own.id(spellings[i]) != ids[i]) {
+        return false;
+      }
+    }
+    return true;
   }
 
   /**

@@ -99,8 +99,9 @@ public final class BpeSegmenter implements Segmenter {
 
   static BpeSegmenter create(Vocab vocab, int cacheEntries) {
     ReservedTokens.Builder b = ReservedTokens.builder();
-    for (int i = 0; i < vocab.reservedCount(); i++) {
-      b.add(vocab.reserved().get(i), i);
+    List<String> reserved = vocab.reserved(); // a copy: taken once, not per token
+    for (int i = 0; i < reserved.size(); i++) {
+      b.add(reserved.get(i), i);
     }
     return new BpeSegmenter(vocab, new Encoder(vocab), b.build(), cacheEntries, 0.0, 0L);
   }
