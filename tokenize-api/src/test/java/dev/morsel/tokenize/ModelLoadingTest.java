@@ -44,15 +44,7 @@ class ModelLoadingTest {
 
   /** Every section's payload of a model file, by tag. */
   static Map<String, byte[]> payloads(byte[] model) {
-    ModelSections s = ModelFile.read(model);
-    Map<String, byte[]> out = new TreeMap<>();
-    for (String tag : s.tags()) {
-      ByteBuffer p = s.payload(tag);
-      byte[] b = new byte[p.remaining()];
-      p.get(b);
-      out.put(tag, b);
-    }
-    return out;
+    return dev.morsel.tokenize.testkit.Sections.payloads(model);
   }
 
   /** A PIPE payload with these three strings (the layout of docs/format.md section 4). */

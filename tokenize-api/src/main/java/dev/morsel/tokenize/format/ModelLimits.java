@@ -244,18 +244,6 @@ public final class ModelLimits {
     return in.getLimitedString(what, maxTokenBytes);
   }
 
-  /**
-   * Checks the length of a token made while reading (for example by a merge) against {@code maxTokenBytes}.
-   *
-   * @throws ModelFormatException naming {@code section}, {@code what}, the limit and its setter
-   */
-  public void checkTokenBytes(String section, String what, long bytes) {
-    if (bytes > maxTokenBytes) {
-      throw new ModelFormatException(section, what + " of " + bytes + " bytes exceeds " + setting("maxTokenBytes",
-          maxTokenBytes));
-    }
-  }
-
   @Override
   public boolean equals(Object o) {
     if (!(o instanceof ModelLimits)) {

@@ -38,15 +38,7 @@ class ReservedListsAgreementTest {
   }
 
   private static Map<String, byte[]> payloads(byte[] model) {
-    ModelSections s = ModelFile.read(model);
-    Map<String, byte[]> out = new TreeMap<>();
-    for (String tag : s.tags()) {
-      ByteBuffer p = s.payload(tag);
-      byte[] b = new byte[p.remaining()];
-      p.get(b);
-      out.put(tag, b);
-    }
-    return out;
+    return dev.morsel.tokenize.testkit.Sections.payloads(model);
   }
 
   /** An RSRV payload binding these (id, spelling) pairs, in the layout of docs/format.md section 4. */
