@@ -436,7 +436,8 @@ final class PipelineTokenizer implements Tokenizer {
   ModelWriter sections() {
     ModelWriter w = new ModelWriter();
     w.section(KIND).putString(segmenter.kind());
-    w.section(PIPE).putString(pipeline.normalization().spec()).putString(pipeline.splitting().spec());
+    w.section(PIPE).putString(pipeline.normalization().spec()).putString(pipeline.splitting().spec())
+        .putString(Pipeline.unicodeVersion());
     SectionWriter c = w.section(RSRV);
     List<String> spellings = reserved.spellings();
     c.putInt(spellings.size());

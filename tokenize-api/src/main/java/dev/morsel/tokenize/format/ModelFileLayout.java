@@ -188,8 +188,8 @@ final class ModelFileLayout {
     ByteBuffer f = file.slice().asReadOnlyBuffer().order(ByteOrder.LITTLE_ENDIAN);
     final int size = f.remaining();
     if (size > limits.maxModelBytes()) {
-      throw new ModelFormatException("header", "file of " + size + " bytes exceeds the limit maxModelBytes="
-          + limits.maxModelBytes());
+      throw new ModelFormatException("header", "file of " + size + " bytes exceeds "
+          + ModelLimits.setting("maxModelBytes", limits.maxModelBytes()));
     }
     if (size < HEADER_LENGTH) {
       throw new ModelFormatException("header", "file of " + size + " bytes is shorter than the " + HEADER_LENGTH
@@ -213,7 +213,7 @@ final class ModelFileLayout {
     long count = Integer.toUnsignedLong(f.getInt(COUNT_OFFSET));
     if (count > limits.maxSections()) {
       throw new ModelFormatException("header", "section count " + count + " at offset " + COUNT_OFFSET
-          + " exceeds the limit maxSections=" + limits.maxSections());
+          + " exceeds " + ModelLimits.setting("maxSections", limits.maxSections()));
     }
     long declared = f.getLong(FILE_LENGTH_OFFSET);
     if (declared != size) {

@@ -1,5 +1,6 @@
 package dev.morsel.tokenize.spi;
 
+import dev.morsel.tokenize.format.ModelLimits;
 import dev.morsel.tokenize.format.ModelSections;
 import dev.morsel.tokenize.format.ReviewDocument;
 
@@ -14,11 +15,16 @@ public interface SegmenterProvider {
   String kind();
 
   /**
-   * Builds the segmenter from its sections, validating everything first.
+   * Builds the segmenter from its sections, validating everything first. Every count and entry read
+   * from the file is checked against {@code limits} (vocabulary entries, merges, reserved tokens,
+   * token bytes) before anything proportional to it is allocated, through
+   * {@link ModelLimits#readVocabularyCount}, {@link ModelLimits#readMergeCount},
+   * {@link ModelLimits#readReservedCount} and {@link ModelLimits#readToken}.
    *
-   * @throws dev.morsel.tokenize.format.ModelFormatException naming the section that is wrong
+   * @throws dev.morsel.tokenize.format.ModelFormatException naming the section that is wrong, or the
+   *     limit that is exceeded and how to raise it
    */
-  Segmenter read(ModelSections sections);
+  Segmenter read(ModelSections sections, ModelLimits limits);
 
   /**
    * Builds the segmenter from its sections of a review text (those its {@link

@@ -31,7 +31,7 @@ import org.openjdk.jmh.runner.options.TimeValue;
  *
  * <p>Figures: each JMH benchmark's average time per operation is turned into MB/s with the UTF-8
  * size of the input one operation processes ({@link Figure#bytes}); figures whose name ends in
- * {@code _s} are seconds for one operation. Settings are short enough for 2 cores (one fork, 2
+ * {@code _s} are seconds for one operation, and those ending in {@code _ms} milliseconds. Settings are short enough for 2 cores (one fork, 2
  * warm-up and 3 measured iterations of 1 s each, fixed in the benchmark classes).
  */
 public final class BenchSummary {
@@ -76,6 +76,7 @@ public final class BenchSummary {
     String train = TrainingBenchmarks.class.getName();
     f.add(new Figure("count_pieces_s", train + ".countPieces", 0));
     f.add(new Figure("bpe_train_32k_s", train + ".trainBpe32k", 0));
+    f.add(new Figure("load_reserved_64k_ms", ModelLoadBenchmarks.class.getName() + ".loadReserved64k", 0));
     return f;
   }
 
@@ -131,18 +132,24 @@ public final class BenchSummary {
     long corpusBytes = Corpus.utf8Bytes(Corpus.bodies());
     Map<String, Double> values = new LinkedHashMap<>();
     Map<String, Double> secondsByBenchmark = new LinkedHashMap<>();
-    Models.bpeFile(); // train the benchmark models once, before any fork needs them
-    Models.wordpieceFile();
-    Models.unigramFile();
+    boolean needsModels = false;
+    for (Figure f : figures()) {
+      needsModels |= f.name().matches(only) && !f.benchmark().startsWith(ModelLoadBenchmarks.class.getName());
+    }
+    if (needsModels) { // the load benchmark builds its own model
+      Models.bpeFile(); // train the benchmark models once, before any fork needs them
+      Models.wordpieceFile();
+      Models.unigramFile();
+    }
     for (Figure f : figures()) {
       if (!f.name().matches(only)) {
         continue;
       }
       Double known = secondsByBenchmark.get(f.benchmark());
       if (known != null) {
-        double value = f.bytes() == 0 ? known : f.bytes() / 1e6 / known;
+        double value = value(f, known);
         values.put(f.name(), value);
-        System.out.printf(Locale.ROOT, "%-32s %12.3f %s%n", f.name(), value, f.bytes() == 0 ? "s" : "MB/s");
+        System.out.printf(Locale.ROOT, "%-32s %12.3f %s%n", f.name(), value, unit(f));
         continue;
       }
       ChainedOptionsBuilder o = new OptionsBuilder().include("^" + f.benchmark().replace(".", "\\.") + "$")
@@ -153,9 +160,9 @@ public final class BenchSummary {
         TimeUnit unit = rr.getParams().getTimeUnit();
         double seconds = score * unit.toNanos(1) / 1e9; // seconds per operation
         secondsByBenchmark.put(f.benchmark(), seconds);
-        double value = f.bytes() == 0 ? seconds : f.bytes() / 1e6 / seconds;
+        double value = value(f, seconds);
         values.put(f.name(), value);
-        System.out.printf(Locale.ROOT, "%-32s %12.3f %s%n", f.name(), value, f.bytes() == 0 ? "s" : "MB/s");
+        System.out.printf(Locale.ROOT, "%-32s %12.3f %s%n", f.name(), value, unit(f));
       }
     }
     Map<String, Double> ratioValues = new LinkedHashMap<>();
@@ -168,6 +175,18 @@ public final class BenchSummary {
     }
     write(out, corpusBytes, values, ratioValues);
     System.out.println("wrote " + out.toAbsolutePath());
+  }
+
+  /** A figure's value from the seconds one operation takes: MB/s, seconds, or milliseconds for {@code _ms} names. */
+  static double value(Figure f, double seconds) {
+    if (f.bytes() != 0) {
+      return f.bytes() / 1e6 / seconds;
+    }
+    return f.name().endsWith("_ms") ? seconds * 1e3 : seconds;
+  }
+
+  private static String unit(Figure f) {
+    return f.bytes() != 0 ? "MB/s" : f.name().endsWith("_ms") ? "ms" : "s";
   }
 
   static void write(Path out, long corpusBytes, Map<String, Double> figures, Map<String, Double> ratios) {

@@ -7,6 +7,7 @@ import dev.morsel.tokenize.bpe.internal.Encoder;
 import dev.morsel.tokenize.bpe.internal.PieceCache;
 import dev.morsel.tokenize.bpe.internal.Vocab;
 import dev.morsel.tokenize.format.ModelFormatException;
+import dev.morsel.tokenize.format.ModelLimits;
 import dev.morsel.tokenize.format.ModelSections;
 import dev.morsel.tokenize.format.ModelWriter;
 import dev.morsel.tokenize.format.ReviewDocument;
@@ -98,8 +99,9 @@ public final class BpeSegmenter implements Segmenter {
 
   static BpeSegmenter create(Vocab vocab, int cacheEntries) {
     ReservedTokens.Builder b = ReservedTokens.builder();
-    for (int i = 0; i < vocab.reservedCount(); i++) {
-      b.add(vocab.reserved().get(i), i);
+    List<String> reserved = vocab.reserved(); // a copy: taken once, not per token
+    for (int i = 0; i < reserved.size(); i++) {
+      b.add(reserved.get(i), i);
     }
     return new BpeSegmenter(vocab, new Encoder(vocab), b.build(), cacheEntries, 0.0, 0L);
   }
@@ -129,7 +131,16 @@ public final class BpeSegmenter implements Segmenter {
    * @throws ModelFormatException naming the section and the entry that is wrong
    */
   public static BpeSegmenter read(ModelSections sections) {
-    BpeSections.Read r = BpeSections.read(sections);
+    return read(sections, ModelLimits.defaults());
+  }
+
+  /**
+   * As {@link #read(ModelSections)}, with every count and spelling checked against {@code limits}.
+   *
+   * @throws ModelFormatException naming the section and the entry that is wrong, or the limit exceeded
+   */
+  public static BpeSegmenter read(ModelSections sections, ModelLimits limits) {
+    BpeSections.Read r = BpeSections.read(sections, limits);
     try {
       return create(r.vocab, r.cacheEntries);
     } catch (IllegalArgumentException e) {

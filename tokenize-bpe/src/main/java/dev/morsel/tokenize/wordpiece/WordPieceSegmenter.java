@@ -2,6 +2,7 @@ package dev.morsel.tokenize.wordpiece;
 
 import dev.morsel.tokenize.spi.PieceTable;
 import dev.morsel.tokenize.format.ModelFormatException;
+import dev.morsel.tokenize.format.ModelLimits;
 import dev.morsel.tokenize.format.ModelSections;
 import dev.morsel.tokenize.format.ModelWriter;
 import dev.morsel.tokenize.format.ReviewDocument;
@@ -252,6 +253,15 @@ public final class WordPieceSegmenter implements Segmenter {
    * @throws ModelFormatException naming the section and entry that is wrong
    */
   public static WordPieceSegmenter read(ModelSections sections) {
+    return read(sections, ModelLimits.defaults());
+  }
+
+  /**
+   * As {@link #read(ModelSections)}, with the token count and every token checked against {@code limits}.
+   *
+   * @throws ModelFormatException naming the section and entry that is wrong, or the limit exceeded
+   */
+  public static WordPieceSegmenter read(ModelSections sections, ModelLimits limits) {
     SectionReader st = sections.reader(SETTINGS_TAG);
     int version = st.getInt("format version");
     if (version != FORMAT_VERSION) {
@@ -270,10 +280,10 @@ public final class WordPieceSegmenter implements Segmenter {
       throw new ModelFormatException(SETTINGS_TAG, e.getMessage(), e);
     }
     SectionReader vo = sections.reader(VOCABULARY_TAG);
-    int n = vo.getCount("token", MAX_VOCABULARY_SIZE, 4);
+    int n = limits.readVocabularyCount(vo, "tokens", 4);
     String[] tokens = new String[n];
     for (int i = 0; i < n; i++) {
-      tokens[i] = vo.getString("token " + i);
+      tokens[i] = limits.readToken(vo, "token " + i);
     }
     vo.expectEnd();
     if (reservedCount < 0 || reservedCount >= n) {

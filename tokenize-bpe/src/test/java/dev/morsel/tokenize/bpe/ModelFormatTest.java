@@ -87,7 +87,7 @@ class ModelFormatTest {
       }
     }
     assertTrue(found != null, "no provider of kind bpe");
-    assertSameSegmenter(s, found.read(Sections.of(payloads(s))));
+    assertSameSegmenter(s, found.read(Sections.of(payloads(s)), dev.morsel.tokenize.format.ModelLimits.defaults()));
   }
 
   /** A BPEM payload with these (left, right) pairs. */

@@ -58,7 +58,7 @@ class ModelSectionsRoundTripTest {
       }
     }
     assertTrue(found != null, "no provider of kind wordpiece on the class path");
-    Segmenter back = found.read(Sections.of(save(sample())));
+    Segmenter back = found.read(Sections.of(save(sample())), dev.morsel.tokenize.format.ModelLimits.defaults());
     assertEquals(sample().vocabularySize(), back.vocabularySize());
     assertEquals("wordpiece", back.kind());
   }

@@ -18,6 +18,7 @@ import dev.morsel.tokenize.Truncation;
 import dev.morsel.tokenize.Trust;
 import dev.morsel.tokenize.bpe.BpeSegmenter;
 import dev.morsel.tokenize.bpe.BpeLearner;
+import dev.morsel.tokenize.format.ModelLimits;
 import dev.morsel.tokenize.normalize.Normalization;
 import dev.morsel.tokenize.train.PieceCounter;
 import dev.morsel.tokenize.train.PieceCounts;
@@ -330,6 +331,20 @@ class GuideExamplesTest {
     assertNotEquals(expected, other.fingerprint(), "a different reserved token must change the fingerprint");
   }
 
+  @Test
+  void loadingWithLimits() {
+    Tokenizer tokenizer = smallBpe(Pipeline.defaults(), List.of("⟦crew⟧"));
+    Path modelFile = dir.resolve("limits.morsel");
+    tokenizer.save(modelFile);
+    // @start region="limits"
+    ModelLimits limits = ModelLimits.defaults().withMaxVocabulary(4_000_000);
+    Tokenizer big = Tokenizers.load(modelFile, limits);
+    // @end region="limits"
+    assertEquals(tokenizer.fingerprint(), big.fingerprint());
+    assertThrows(dev.morsel.tokenize.format.ModelFormatException.class,
+        () -> Tokenizers.load(modelFile, ModelLimits.defaults().withMaxMerges(1)));
+  }
+
   // ------------------------------------------------------------------ the guide holds exactly these blocks
 
   @Test
@@ -342,7 +357,8 @@ class GuideExamplesTest {
     while (m.find()) {
       regions.put(m.group(1), m.group(2).lines().map(String::strip).filter(s -> !s.isEmpty()).toList());
     }
-    assertEquals(List.of("start", "schemes", "nfkc", "reserved", "reserved-safe", "lengths", "batch", "tuning", "file"),
+    assertEquals(List.of("start", "schemes", "nfkc", "reserved", "reserved-safe", "lengths", "batch", "tuning", "file",
+        "limits"),
         new ArrayList<>(regions.keySet()));
     List<String> blocks = new ArrayList<>();
     Matcher b = Pattern.compile("```java\\n(.*?)```", Pattern.DOTALL).matcher(guide);

@@ -1,6 +1,7 @@
 package dev.morsel.tokenize.bpe.internal;
 
 import dev.morsel.tokenize.bpe.BpeSegmenter;
+import dev.morsel.tokenize.format.ModelLimits;
 import dev.morsel.tokenize.format.ModelSections;
 import dev.morsel.tokenize.format.ReviewDocument;
 import dev.morsel.tokenize.spi.Segmenter;
@@ -17,8 +18,8 @@ public final class BpeProvider implements SegmenterProvider {
   }
 
   @Override
-  public Segmenter read(ModelSections sections) {
-    return BpeSegmenter.read(sections);
+  public Segmenter read(ModelSections sections, ModelLimits limits) {
+    return BpeSegmenter.read(sections, limits);
   }
 
   @Override

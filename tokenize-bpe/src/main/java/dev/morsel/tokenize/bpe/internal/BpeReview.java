@@ -61,7 +61,7 @@ public final class BpeReview {
     int n = vs.rows().size();
     ReviewDocument.Row[] byId = vs.byIndex(0);
     int k = n - 256;
-    if (k < 0 || k > BpeSections.MAX_RESERVED) {
+    if (k < 0 || k > dev.morsel.tokenize.format.ModelLimits.DEFAULT_MAX_RESERVED_TOKENS) {
       throw vs.fail("holds " + n + " tokens; a BPE vocabulary section holds the reserved tokens and exactly 256"
           + " byte tokens");
     }
@@ -102,8 +102,8 @@ public final class BpeReview {
 
     ReviewDocument.Section ms = doc.section(MERGES, MERGES_COLUMNS);
     int m = ms.rows().size();
-    if (m > BpeSections.MAX_MERGES) {
-      throw ms.fail("holds " + m + " merges; at most " + BpeSections.MAX_MERGES);
+    if (m > dev.morsel.tokenize.format.ModelLimits.DEFAULT_MAX_MERGES) {
+      throw ms.fail("holds " + m + " merges; at most " + dev.morsel.tokenize.format.ModelLimits.DEFAULT_MAX_MERGES);
     }
     ReviewDocument.Row[] byRank = ms.byIndex(0);
     Map<ByteBuffer, Integer> ids = new HashMap<>();

@@ -1,5 +1,6 @@
 package dev.morsel.tokenize.wordpiece.internal;
 
+import dev.morsel.tokenize.format.ModelLimits;
 import dev.morsel.tokenize.format.ModelSections;
 import dev.morsel.tokenize.format.ReviewDocument;
 import dev.morsel.tokenize.spi.Segmenter;
@@ -20,8 +21,8 @@ public final class WordPieceProvider implements SegmenterProvider {
   }
 
   @Override
-  public Segmenter read(ModelSections sections) {
-    return WordPieceSegmenter.read(sections);
+  public Segmenter read(ModelSections sections, ModelLimits limits) {
+    return WordPieceSegmenter.read(sections, limits);
   }
 
   @Override
