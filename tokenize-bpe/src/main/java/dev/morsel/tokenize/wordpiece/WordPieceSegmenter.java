@@ -9,6 +9,8 @@ import dev.morsel.tokenize.format.SectionWriter;
 import dev.morsel.tokenize.spi.ByteSink;
 import dev.morsel.tokenize.spi.Segmenter;
 import dev.morsel.tokenize.spi.TokenSink;
+import dev.morsel.tokenize.spi.Workspace;
+import dev.morsel.tokenize.spi.WorkspacePool;
 import it.unimi.dsi.fastutil.objects.Object2IntOpenHashMap;
 import java.io.IOException;
 import java.io.Reader;
@@ -80,7 +82,8 @@ public final class WordPieceSegmenter implements Segmenter {
    * 22.7 / 21.3 MB/s with.
    */
   private final PieceTable whole;
-  private final ThreadLocal<int[]> scratch;
+  /** Workspaces for calls that bring none; owned by this segmenter. */
+  private final WorkspacePool<Matches> own;
 
   // ------------------------------------------------------------------ life-cycle
 
@@ -174,7 +177,7 @@ public final class WordPieceSegmenter implements Segmenter {
       throw errors.fail(-1, e.getMessage());
     }
     int scratchSize = settings.maxPieceLength();
-    scratch = ThreadLocal.withInitial(() -> new int[scratchSize]);
+    own = WorkspacePool.of(() -> new Matches(scratchSize));
   }
 
   /** Maps a validation failure at an entry (or -1 for the whole) to an exception. */
@@ -382,6 +385,26 @@ public final class WordPieceSegmenter implements Segmenter {
    */
   @Override
   public void segment(CharSequence text, int start, int end, TokenSink sink) {
+    Matches m = own.take();
+    try {
+      segment(text, start, end, sink, m);
+    } finally {
+      own.give(m);
+    }
+  }
+
+  /** A workspace of one int per char of {@link WordPieceSettings#maxPieceLength()}. */
+  @Override
+  public Workspace newWorkspace() {
+    return new Matches(settings.maxPieceLength());
+  }
+
+  @Override
+  public void segment(CharSequence text, int start, int end, TokenSink sink, Workspace workspace) {
+    if (!(workspace instanceof Matches)) {
+      segment(text, start, end, sink);
+      return;
+    }
     Objects.checkFromToIndex(start, end, text.length());
     int len = end - start;
     if (len == 0) {
@@ -396,7 +419,7 @@ public final class WordPieceSegmenter implements Segmenter {
       sink.token(id0, start, end);
       return;
     }
-    int[] buf = scratch.get();
+    int[] buf = ((Matches) workspace).ids;
     int n = trie.match(text, start, end, buf);
     if (n < 0) {
       sink.token(unknownId, start, end);
@@ -435,6 +458,15 @@ public final class WordPieceSegmenter implements Segmenter {
   }
 
   // ------------------------------------------------------------------ internals (diagnostics)
+
+  /** One encode call's match buffer: the ids of one piece, at most one per char. */
+  private static final class Matches extends Workspace {
+    final int[] ids;
+
+    Matches(int size) {
+      ids = new int[size];
+    }
+  }
 
   /** Number of trie nodes (both roots included); for memory diagnostics and benchmarks. */
   int trieNodeCount() {
