@@ -36,7 +36,7 @@ class GraphemeStreamConformanceTest {
   private static final String RESOURCE = "/unicode/GraphemeBreakTest-15.0.0.txt.gz";
 
   private static final Tokenizer BYTES =
-      Tokenizers.of(Pipeline.of(Normalization.none(), Splitting.rules()), new ByteSegmenter(0));
+      Tokenizers.of(Pipeline.of(Normalization.none(), Splitting.runs()), new ByteSegmenter(0));
 
   /** One line of the conformance file: its number, text and expected boundaries (UTF-16 indices). */
   record Case(int line, String text, BitSet boundaries) {}

@@ -16,7 +16,7 @@ import org.junit.jupiter.api.Test;
 /** {@link Tokenizer#count} and {@link Tokenizer#cutToFit} on the byte segmenter (one token per UTF-8 byte). */
 class TokenBudgetUnitTest {
   private static Tokenizer bytes(Normalization.Form form) {
-    return Tokenizers.of(Pipeline.of(Normalization.of(form), Splitting.rules()), new ByteSegmenter(0));
+    return Tokenizers.of(Pipeline.of(Normalization.of(form), Splitting.runs()), new ByteSegmenter(0));
   }
 
   @Test
@@ -48,7 +48,7 @@ class TokenBudgetUnitTest {
   @Test
   void framingMarkersCountAgainstTheBudget() {
     ReservedTokens r = ReservedTokens.builder().add("\u27e6go\u27e7", 256).add("\u27e6halt\u27e7", 257).build();
-    Tokenizer t = Tokenizers.of(Pipeline.of(Normalization.none(), Splitting.rules()), new ByteSegmenter(2), r,
+    Tokenizer t = Tokenizers.of(Pipeline.of(Normalization.none(), Splitting.runs()), new ByteSegmenter(2), r,
         Template.of(List.of("\u27e6go\u27e7"), List.of(), List.of("\u27e6halt\u27e7")));
     assertEquals(7, t.count("ferry"));
     assertEquals(3, t.cutToFit("ferry", 5));

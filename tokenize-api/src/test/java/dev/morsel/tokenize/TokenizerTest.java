@@ -33,7 +33,7 @@ class TokenizerTest {
 
   private static Tokenizer tokenizer(Normalization n) {
     ReservedTokens c = ReservedTokens.builder().add(OPEN, 256).add(CLOSE, 257).add(JOIN, 258).build();
-    return Tokenizers.of(Pipeline.of(n, Splitting.rules()), new ByteSegmenter(3), c, Template.none());
+    return Tokenizers.of(Pipeline.of(n, Splitting.runs()), new ByteSegmenter(3), c, Template.none());
   }
 
   private static Tokenizer framed() {

@@ -14,14 +14,14 @@ package dev.morsel.tokenize.spi;
  * model's own clusters.
  *
  * <p>Shared by the segmenters: a piece that is one whole token (about three quarters of Europarl pieces
- * under the rule-based splitter) is answered with one probe instead of merging, a trie walk or Viterbi.
+ * under the class-run splitter) is answered with one probe instead of merging, a trie walk or Viterbi.
  *
  * @since 0.1.0
  */
 public final class PieceTable {
   /**
    * Longest key, in UTF-16 units. Pieces of at most 32 units are 99.9% of the Europarl bodies' pieces
-   * under the rule-based splitter; longer ones skip the table.
+   * under the class-run splitter; longer ones skip the table.
    */
   public static final int MAX_CHARS = 32;
 

@@ -19,7 +19,9 @@ import java.util.Objects;
  *
  * <h2>Modes</h2>
  * <ul>
- *   <li>{@link Mode#RULES} ({@code "rules:N"}): Morsel's own rules on Unicode properties, below.
+ *   <li>{@link Mode#RUNS} ({@code "runs:space=S,digits=D"}): class runs, Morsel's own rules on
+ *       Unicode properties, below. {@link #runs()} is the default of {@link
+ *       dev.morsel.tokenize.Pipeline#defaults()}, chosen by measurement (docs/splitting.md).
  *   <li>{@link Mode#WORDS} ({@code "words"}): the default word boundaries of UAX #29 [1], as
  *       implemented by ICU's root-locale word break iterator (which adds dictionary-based breaks
  *       inside runs of Thai, Lao, Khmer, Burmese and CJK text). Every boundary is a piece boundary,
@@ -29,7 +31,7 @@ import java.util.Objects;
  *   <li>{@link Mode#NONE} ({@code "none"}): the whole range is one piece (none if it is empty).
  * </ul>
  *
- * <h2>The RULES rule set</h2>
+ * <h2>Class runs</h2>
  * Each code point gets one class, checked in this order:
  * <ol>
  *   <li><b>newline</b>: U+000A..U+000D, U+0085, U+2028, U+2029;
@@ -55,13 +57,23 @@ import java.util.Objects;
  *       between letters: {@code "ferry's"} is {@code "ferry" "'" "s"} (kept simple on purpose).
  *       A mark with nothing before it in its piece (at the start, or after whitespace) starts a
  *       piece of marks;
- *   <li>a run of digits, cut into groups of at most {@code maxDigits} digits counted from the start
- *       of the run: with 3, {@code "20260"} is {@code "202" "60"};
+ *   <li>a run of digits, cut into groups of at most {@link #digitGroup()} digits counted from the
+ *       start of the run ({@code digits=2}: {@code "20260"} is {@code "20" "26" "0"}), or kept
+ *       whole ({@code digits=whole}, {@link #WHOLE_DIGIT_RUNS});
  *   <li>each ideograph alone (with its marks);
- *   <li>a run of newlines; a run of spaces. If a space run ends with U+0020 and a non-whitespace
- *       piece follows, that last U+0020 is moved to the front of the following piece:
- *       {@code "the ferry"} is {@code "the" " ferry"}, {@code "a   ferry"} is
- *       {@code "a" "  " " ferry"}, and a space run at the end of the range stays its own piece.
+ *   <li>a run of newlines; a run of spaces, which lends one U+0020 to a neighbour as
+ *       {@link #space()} says:
+ *       <ul>
+ *         <li>{@link Space#OWN} ({@code space=own}): never; {@code "the ferry"} is
+ *             {@code "the" " " "ferry"};
+ *         <li>{@link Space#NEXT} ({@code space=next}): if the run ends with U+0020 and a
+ *             non-whitespace piece follows, that last U+0020 joins the front of the following piece:
+ *             {@code "the" " ferry"}, {@code "a   ferry"} is {@code "a" "  " " ferry"};
+ *         <li>{@link Space#PREVIOUS} ({@code space=previous}): if the run starts with U+0020 right
+ *             after a non-whitespace piece, that first U+0020 joins the end of that piece:
+ *             {@code "the " "ferry"}, {@code "a   ferry"} is {@code "a " "  " "ferry"}.
+ *       </ul>
+ *       Newlines never lend or take a space; what is left of a run is its own piece.
  * </ul>
  * Characters below U+0080 are classified by a 128-entry table in a tight loop; the rest of the BMP
  * by a 64 KiB table built from ICU properties on first use; supplementary code points by ICU
@@ -78,48 +90,103 @@ public final class Splitting {
    *
    * @since 0.1.0
    */
-  public enum Mode { RULES, WORDS, WHITESPACE, NONE }
+  public enum Mode {
+    /** Class runs: runs of one character class, with a space policy and a digit group. */
+    RUNS,
+    /** UAX #29 word boundaries. */
+    WORDS,
+    /** Runs of whitespace and runs of everything else. */
+    WHITESPACE,
+    /** The whole text is one piece. */
+    NONE
+  }
+
+  /**
+   * Where the class-run rules put one U+0020 of a space run.
+   *
+   * @since 0.1.0
+   */
+  public enum Space {
+    /** Space runs are always pieces of their own (spec {@code space=own}). */
+    OWN("own"),
+    /** The last U+0020 of a run joins the front of the following word (spec {@code space=next}). */
+    NEXT("next"),
+    /** The first U+0020 of a run joins the end of the preceding word (spec {@code space=previous}). */
+    PREVIOUS("previous");
+
+    private final String spec;
+
+    Space(String spec) {
+      this.spec = spec;
+    }
+
+    /** The spelling in a spec string: {@code own}, {@code next} or {@code previous}. */
+    public String spec() {
+      return spec;
+    }
+  }
 
   // ---------------------------------------------------------------- configuration
 
-  /** Default digit group length of {@link #rules()}; a common choice (thousands grouping). */
-  private static final int DEFAULT_MAX_DIGITS = 3;
+  /** {@link #digitGroup()} value meaning digit runs are never cut by length (spec {@code digits=whole}). */
+  public static final int WHOLE_DIGIT_RUNS = 0;
+  /**
+   * Space policy of {@link #runs()}: chosen by the held-out measurement in docs/splitting.md
+   * ({@code SplittingStudy} in tokenize-bench).
+   */
+  private static final Space DEFAULT_SPACE = Space.NEXT;
+  /** Digit group of {@link #runs()}: chosen by the same measurement. */
+  private static final int DEFAULT_DIGIT_GROUP = WHOLE_DIGIT_RUNS;
   /** Longest digit group allowed; a limit so a group always fits a small scratch buffer. */
-  private static final int MAX_MAX_DIGITS = 64;
+  private static final int MAX_DIGIT_GROUP = 64;
 
-  private static final Splitting WORDS = new Splitting(Mode.WORDS, 0, "words");
-  private static final Splitting WHITESPACE = new Splitting(Mode.WHITESPACE, 0, "whitespace");
-  private static final Splitting NONE = new Splitting(Mode.NONE, 0, "none");
+  private static final String RUNS_PREFIX = "runs:space=";
+  private static final String DIGITS_KEY = ",digits=";
+  private static final String WHOLE = "whole";
+
+  private static final Splitting WORDS = new Splitting(Mode.WORDS, Space.OWN, 0, "words");
+  private static final Splitting WHITESPACE = new Splitting(Mode.WHITESPACE, Space.OWN, 0, "whitespace");
+  private static final Splitting NONE = new Splitting(Mode.NONE, Space.OWN, 0, "none");
 
   // ---------------------------------------------------------------- state
 
   private final Mode mode;
-  private final int maxDigits;
+  private final Space space;
+  private final int digitGroup;
   private final String spec;
 
   // ---------------------------------------------------------------- life-cycle
 
-  private Splitting(Mode mode, int maxDigits, String spec) {
+  private Splitting(Mode mode, Space space, int digitGroup, String spec) {
     this.mode = mode;
-    this.maxDigits = maxDigits;
+    this.space = space;
+    this.digitGroup = digitGroup;
     this.spec = spec;
   }
 
-  /** Morsel's rule set with digit groups of at most 3. */
-  public static Splitting rules() {
-    return rules(DEFAULT_MAX_DIGITS);
+  /**
+   * The default class runs, {@code runs:space=next,digits=whole}: the last U+0020 of a space run
+   * joins the next word, digit runs stay whole. Chosen by the held-out measurement in
+   * docs/splitting.md.
+   */
+  public static Splitting runs() {
+    return runs(DEFAULT_SPACE, DEFAULT_DIGIT_GROUP);
   }
 
   /**
-   * Morsel's rule set with digit groups of at most {@code maxDigits} (1..64).
+   * Class runs with the given space policy and digit groups of at most {@code digitGroup} digits
+   * (1..64), or whole digit runs ({@link #WHOLE_DIGIT_RUNS}).
    *
-   * @throws IllegalArgumentException if {@code maxDigits} is outside 1..64
+   * @throws IllegalArgumentException if {@code digitGroup} is outside 0..64
    */
-  public static Splitting rules(int maxDigits) {
-    if (maxDigits < 1 || maxDigits > MAX_MAX_DIGITS) {
-      throw new IllegalArgumentException("maxDigits=" + maxDigits + " is outside 1.." + MAX_MAX_DIGITS);
+  public static Splitting runs(Space space, int digitGroup) {
+    Objects.requireNonNull(space, "space");
+    if (digitGroup < 0 || digitGroup > MAX_DIGIT_GROUP) {
+      throw new IllegalArgumentException("digitGroup=" + digitGroup + " is outside 1.." + MAX_DIGIT_GROUP
+          + " (or " + WHOLE_DIGIT_RUNS + " for whole digit runs)");
     }
-    return new Splitting(Mode.RULES, maxDigits, "rules:" + maxDigits);
+    String digits = digitGroup == WHOLE_DIGIT_RUNS ? WHOLE : Integer.toString(digitGroup);
+    return new Splitting(Mode.RUNS, space, digitGroup, RUNS_PREFIX + space.spec() + DIGITS_KEY + digits);
   }
 
   /** UAX #29 word boundaries. */
@@ -138,10 +205,12 @@ public final class Splitting {
   }
 
   /**
-   * Parses a {@link #spec()} string: {@code "rules:N"} with N in 1..64 written without sign or
-   * leading zeros, {@code "words"}, {@code "whitespace"} or {@code "none"}.
+   * Parses a {@link #spec()} string: {@code "runs:space=S,digits=D"} with S one of {@code own},
+   * {@code next}, {@code previous} and D either {@code whole} or 1..64 written without sign or
+   * leading zeros (both keys, in this order); or {@code "words"}, {@code "whitespace"},
+   * {@code "none"}. Only these canonical spellings are accepted.
    *
-   * @throws IllegalArgumentException for any other string, quoting it
+   * @throws IllegalArgumentException for any other string, quoting it and saying what was wrong
    */
   public static Splitting parse(String spec) {
     Objects.requireNonNull(spec, "spec");
@@ -155,23 +224,50 @@ public final class Splitting {
       default:
         break;
     }
-    if (spec.startsWith("rules:")) {
-      String digits = spec.substring("rules:".length());
-      if (!digits.isEmpty() && digits.length() <= 2 && digits.charAt(0) != '0'
-          && digits.chars().allMatch(c -> c >= '0' && c <= '9')) {
-        int n = Integer.parseInt(digits);
-        if (n <= MAX_MAX_DIGITS) {
-          return rules(n);
-        }
+    if (!spec.startsWith("runs")) {
+      throw badSpec(spec, "unknown mode");
+    }
+    if (!spec.startsWith(RUNS_PREFIX)) {
+      throw badSpec(spec, "class runs are written 'runs:space=S,digits=D'");
+    }
+    int comma = spec.indexOf(DIGITS_KEY, RUNS_PREFIX.length());
+    if (comma < 0) {
+      throw badSpec(spec, "missing ',digits=' after the space policy");
+    }
+    String spaceName = spec.substring(RUNS_PREFIX.length(), comma);
+    Space space = null;
+    for (Space s : Space.values()) {
+      if (s.spec().equals(spaceName)) {
+        space = s;
       }
     }
-    throw new IllegalArgumentException("unknown splitting spec '" + spec
-        + "'; expected 'rules:N' (N = 1.." + MAX_MAX_DIGITS + "), 'words', 'whitespace' or 'none'");
+    if (space == null) {
+      throw badSpec(spec, "space policy '" + spaceName + "' is not own, next or previous");
+    }
+    String digits = spec.substring(comma + DIGITS_KEY.length());
+    if (digits.equals(WHOLE)) {
+      return runs(space, WHOLE_DIGIT_RUNS);
+    }
+    if (!digits.isEmpty() && digits.length() <= 2 && digits.charAt(0) != '0'
+        && digits.chars().allMatch(c -> c >= '0' && c <= '9')) {
+      int n = Integer.parseInt(digits);
+      if (n <= MAX_DIGIT_GROUP) {
+        return runs(space, n);
+      }
+    }
+    throw badSpec(spec, "digit group '" + digits + "' is not 'whole' or 1.." + MAX_DIGIT_GROUP
+        + " without sign or leading zeros");
+  }
+
+  private static IllegalArgumentException badSpec(String spec, String why) {
+    return new IllegalArgumentException("unknown splitting spec '" + spec + "' (" + why
+        + "); expected 'runs:space=own|next|previous,digits=whole|1.." + MAX_DIGIT_GROUP
+        + "', 'words', 'whitespace' or 'none'");
   }
 
   // ---------------------------------------------------------------- API
 
-  /** Canonical text form, for example {@code "rules:3"}, {@code "words"}. */
+  /** Canonical text form, for example {@code "runs:space=own,digits=whole"}, {@code "words"}. */
   public String spec() {
     return spec;
   }
@@ -182,12 +278,23 @@ public final class Splitting {
   }
 
   /**
-   * The longest digit group of {@link Mode#RULES}; 0 for the other modes.
+   * The space policy of {@link Mode#RUNS}; {@link Space#OWN} for the other modes (none of them
+   * joins a space to a word).
    *
    * @since 0.1.0
    */
-  public int maxDigits() {
-    return maxDigits;
+  public Space space() {
+    return space;
+  }
+
+  /**
+   * The longest digit group of {@link Mode#RUNS}; {@link #WHOLE_DIGIT_RUNS} (0) when digit runs
+   * are not cut by length, as in the other modes.
+   *
+   * @since 0.1.0
+   */
+  public int digitGroup() {
+    return digitGroup;
   }
 
   /**
@@ -204,8 +311,8 @@ public final class Splitting {
       return;
     }
     switch (mode) {
-      case RULES:
-        splitRules(text, start, end, maxDigits, sink);
+      case RUNS:
+        splitRuns(text, start, end, space, digitGroup == WHOLE_DIGIT_RUNS ? Integer.MAX_VALUE : digitGroup, sink);
         break;
       case WHITESPACE:
         splitWhitespace(text, start, end, sink);
@@ -270,7 +377,7 @@ public final class Splitting {
     }
   }
 
-  /** The RULES class of a code point, from ICU properties (the slow path). */
+  /** The class-run class of a code point, from ICU properties (the slow path). */
   static byte classifyIcu(int cp) {
     if (cp == 0x0A || cp == 0x0B || cp == 0x0C || cp == 0x0D || cp == 0x85 || cp == 0x2028 || cp == 0x2029) {
       return NEWLINE;
@@ -377,10 +484,12 @@ public final class Splitting {
     return c < 128 ? ASCII[c] : classifyNonAscii(codePointAt(text, i, end));
   }
 
-  // ---------------------------------------------------------------- internals: RULES
+  // ---------------------------------------------------------------- internals: RUNS
 
-  private static void splitRules(CharSequence text, int start, int end, int maxDigits, PieceSink sink) {
+  private static void splitRuns(CharSequence text, int start, int end, Space space, int digitGroup, PieceSink sink) {
     final byte[] ascii = ASCII;
+    final boolean toNext = space == Space.NEXT;
+    final boolean toPrevious = space == Space.PREVIOUS;
     int i = start;
     int pending = -1; // index of a U+0020 detached from a space run, waiting for the next piece
     while (i < end) {
@@ -404,7 +513,7 @@ public final class Splitting {
           break;
         case SPACE:
           j = scanSame(text, i + n, end, SPACE);
-          if (j < end && text.charAt(j - 1) == ' ' && classAt(text, j, end) > SPACE) {
+          if (toNext && j < end && text.charAt(j - 1) == ' ' && classAt(text, j, end) > SPACE) {
             if (j - 1 > pieceStart) {
               sink.piece(pieceStart, j - 1);
             }
@@ -414,20 +523,32 @@ public final class Splitting {
           }
           break;
         case DIGIT:
-          j = scanDigits(text, i, i + n, end, maxDigits - 1);
-          sink.piece(pieceStart, j);
+          j = scanDigits(text, i, i + n, end, digitGroup - 1);
+          j = emit(text, pieceStart, j, end, toPrevious, sink);
           break;
         case IDEOGRAPH:
           j = scanRun(text, i, i + n, end, MARK);
-          sink.piece(pieceStart, j);
+          j = emit(text, pieceStart, j, end, toPrevious, sink);
           break;
         default:
           j = scanRun(text, i, i + n, end, cls);
-          sink.piece(pieceStart, j);
+          j = emit(text, pieceStart, j, end, toPrevious, sink);
           break;
       }
       i = j;
     }
+  }
+
+  /**
+   * Reports the non-whitespace piece {@code [from, to)}, taking the U+0020 right after it when
+   * {@code takeSpace}; returns where the next piece starts.
+   */
+  private static int emit(CharSequence text, int from, int to, int end, boolean takeSpace, PieceSink sink) {
+    if (takeSpace && to < end && text.charAt(to) == ' ') {
+      to++;
+    }
+    sink.piece(from, to);
+    return to;
   }
 
   /** End of the run of whitespace class {@code cls} from {@code i} (whitespace takes no marks). */

@@ -79,7 +79,7 @@ class LimitsViolationTest {
   @Test
   void pieceLengthNamesTheLimitSettingAndSpan() {
     Tokenizer t = BYTES.withLimits(Limits.defaults().withMaxPieceLength(8));
-    // rules splitting: "the", " overcrowded" (12 chars, from original index 3), " ferry"
+    // class runs: "the", " overcrowded" (12 chars, from original index 3), " ferry"
     String text = "the overcrowded ferry";
     IllegalArgumentException e = assertThrows(IllegalArgumentException.class, () -> t.encode(text));
     assertNames(e, "maxPieceLength=8", "Limits.withMaxPieceLength");

@@ -49,7 +49,7 @@ class PipelinePropertyTest {
   @ValueSource(strings = {"none", "nfc", "nfkc", "nfkc+casefold", "nfd+remove-marks"})
   void everyPropertyHoldsForEveryForm(String form) {
     Normalization n = Normalization.parse(form);
-    Splitting[] splits = {Splitting.rules(), Splitting.words(), Splitting.whitespace(), Splitting.none()};
+    Splitting[] splits = {Splitting.runs(), Splitting.words(), Splitting.whitespace(), Splitting.none()};
     long[] seeds = Seeds.cases(BASE_SEED + form.hashCode() * 1_000_003L, CASES_PER_FORM);
     List<String> texts = new ArrayList<>();
     List<Tokens> results = new ArrayList<>();

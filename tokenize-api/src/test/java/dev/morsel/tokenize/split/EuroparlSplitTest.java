@@ -16,7 +16,7 @@ import org.junit.jupiter.params.provider.ValueSource;
 class EuroparlSplitTest {
 
   @ParameterizedTest
-  @ValueSource(strings = {"rules:3", "words", "whitespace", "none"})
+  @ValueSource(strings = {"runs:space=next,digits=whole", "runs:space=next,digits=3", "runs:space=own,digits=whole", "runs:space=previous,digits=whole", "words", "whitespace", "none"})
   void splitThenJoinGivesBackEveryBody(String spec) {
     Splitting s = Splitting.parse(spec);
     List<String> bodies = Europarl.bodies();

@@ -33,7 +33,9 @@ class SplittingPropertyTest {
   };
 
   private static final Splitting[] MODES = {
-      Splitting.rules(), Splitting.rules(1), Splitting.rules(2), Splitting.rules(64),
+      Splitting.runs(), Splitting.runs(Splitting.Space.NEXT, 1), Splitting.runs(Splitting.Space.NEXT, 3),
+      Splitting.runs(Splitting.Space.OWN, 2), Splitting.runs(Splitting.Space.OWN, Splitting.WHOLE_DIGIT_RUNS),
+      Splitting.runs(Splitting.Space.PREVIOUS, 3), Splitting.runs(Splitting.Space.PREVIOUS, 64),
       Splitting.words(), Splitting.whitespace(), Splitting.none()};
 
   static String randomText(SplittableRandom r, int[] alphabet, int maxLen) {
@@ -100,7 +102,7 @@ class SplittingPropertyTest {
     }
   }
 
-  // ------------------------------------------------------------ RULES-specific properties
+  // ------------------------------------------------------------ class-run properties
 
   private static boolean isIdeograph(int cp) {
     return cp == 0x6E2F || cp == 0x6E21 || cp == 0x20000; // the ideographs of ALPHABET
@@ -116,14 +118,28 @@ class SplittingPropertyTest {
     return cp == ' ' || cp == '\t' || cp == '\n' || cp == '\r' || cp == 0x00A0 || cp == 0x3000 || cp == 0x2028 || cp == 0x0085;
   }
 
-  static Stream<Arguments> rulesSeeds() {
-    return Stream.of(1, 2, 3, 7).flatMap(d -> IntStream.range(0, 3).mapToObj(k -> Arguments.of(d, 0xFE11AL + 97L * d + k)));
+  /** Every space policy with digit groups 1, 2, 3, 7 and whole runs (0), three seeds each. */
+  static Stream<Arguments> runsSeeds() {
+    return Stream.of(Splitting.Space.values()).flatMap(sp -> Stream.of(1, 2, 3, 7, 0).flatMap(d -> IntStream.range(0, 3)
+        .mapToObj(k -> Arguments.of(sp, d, 0xFE11AL + 97L * d + 7919L * sp.ordinal() + k))));
   }
 
-  @ParameterizedTest(name = "rules:{0} seed {1}")
-  @MethodSource("rulesSeeds")
-  void rulesDigitGroupsIdeographsAndSpaces(int maxDigits, long seed) {
-    Splitting s = Splitting.rules(maxDigits);
+  /** The piece without the one U+0020 its space policy may have added to it. */
+  private static String withoutLentSpace(Splitting.Space space, String piece) {
+    if (space == Splitting.Space.NEXT && piece.startsWith(" ")) {
+      return piece.substring(1);
+    }
+    if (space == Splitting.Space.PREVIOUS && piece.endsWith(" ")) {
+      return piece.substring(0, piece.length() - 1);
+    }
+    return piece;
+  }
+
+  @ParameterizedTest(name = "space={0} digits={1} seed {2}")
+  @MethodSource("runsSeeds")
+  void runsDigitGroupsIdeographsAndSpaces(Splitting.Space space, int digitGroup, long seed) {
+    Splitting s = Splitting.runs(space, digitGroup);
+    int longestGroup = digitGroup == Splitting.WHOLE_DIGIT_RUNS ? Integer.MAX_VALUE : digitGroup;
     SplittableRandom r = new SplittableRandom(seed);
     for (int n = 0; n < CASES_PER_MODE; n++) {
       String text = randomText(r, ALPHABET, 40);
@@ -132,18 +148,18 @@ class SplittingPropertyTest {
       for (int[] p : pieces) {
         String piece = text.substring(p[0], p[1]);
         long digits = piece.codePoints().filter(Character::isDigit).count();
-        assertTrue(digits <= maxDigits, () -> "digit group '" + escape(piece) + "' too long: " + where);
+        assertTrue(digits <= longestGroup, () -> "digit group '" + escape(piece) + "' too long: " + where);
         boolean hasIdeograph = piece.codePoints().anyMatch(SplittingPropertyTest::isIdeograph);
         if (hasIdeograph) {
-          String rest = piece.startsWith(" ") ? piece.substring(1) : piece;
+          String rest = withoutLentSpace(space, piece);
           int first = rest.codePointAt(0);
           assertTrue(isIdeograph(first) && rest.codePoints().skip(1).allMatch(SplittingPropertyTest::isJoining),
               () -> "ideograph not alone in '" + escape(piece) + "': " + where);
         }
-        // whitespace never mixes with other text, except one leading U+0020
+        // whitespace never mixes with other text, except the one U+0020 the policy lends
         boolean allWs = piece.codePoints().allMatch(SplittingPropertyTest::isWs);
         if (!allWs) {
-          String rest = piece.startsWith(" ") ? piece.substring(1) : piece;
+          String rest = withoutLentSpace(space, piece);
           assertTrue(rest.codePoints().noneMatch(SplittingPropertyTest::isWs),
               () -> "whitespace inside '" + escape(piece) + "': " + where);
         }
@@ -152,7 +168,11 @@ class SplittingPropertyTest {
         int b = pieces.get(k)[0];
         int after = text.codePointAt(b);
         int before = text.codePointBefore(b);
-        assertTrue(!(before == ' ' && !isWs(after)), () -> "space left before non-space at " + b + ": " + where);
+        if (space == Splitting.Space.NEXT) {
+          assertTrue(!(before == ' ' && !isWs(after)), () -> "space left before non-space at " + b + ": " + where);
+        } else if (space == Splitting.Space.PREVIOUS) {
+          assertTrue(!(!isWs(before) && after == ' '), () -> "space left after non-space at " + b + ": " + where);
+        }
         assertTrue(!(isJoining(after) && !isWs(before)), () -> "mark cut from its base at " + b + ": " + where);
       }
     }
@@ -161,20 +181,30 @@ class SplittingPropertyTest {
   // ------------------------------------------------------------ independent ASCII oracle
 
   /**
-   * RULES on ASCII written again as one regular expression, sharing no code with Splitting. ASCII
-   * general categories (UnicodeData.txt): letters A-Z a-z; digits 0-9; punctuation
-   * {@code !"#%&'()*,-./:;?@[\]_{}}; symbols {@code $+<=>^`|~}; controls other than TAB..CR.
+   * Class runs on ASCII written again as one regular expression per space policy, sharing no code
+   * with Splitting. ASCII general categories (UnicodeData.txt): letters A-Z a-z; digits 0-9;
+   * punctuation {@code !"#%&'()*,-./:;?@[\]_{}}; symbols {@code $+<=>^`|~}; controls other than
+   * TAB..CR.
    */
-  static Pattern asciiOracle(int maxDigits) {
+  static Pattern asciiOracle(Splitting.Space space, int digitGroup) {
     String ws = " \\t\\n\\x0B\\f\\r";
-    String afterSpace = "(?: ?(?:[A-Za-z]+|[0-9]{1," + maxDigits + "}|[!\"#%&'()*,\\-./:;?@\\[\\\\\\]_{}]+|[$+<=>^`|~]+"
-        + "|[\\x00-\\x08\\x0E-\\x1F\\x7F]+))";
-    return Pattern.compile(
-        "[\\n\\x0B\\f\\r]+"                         // newline runs
-        + "|[ \\t]++(?![^" + ws + "])"               // a space run before a newline or the end
-        + "|[ \\t]*\\t(?=[^" + ws + "])"             // a space run ending in TAB before text: whole
-        + "|[ \\t]*[ \\t](?= [^" + ws + "])"         // the part of a run before its last U+0020
-        + "|" + afterSpace);
+    String digits = digitGroup == Splitting.WHOLE_DIGIT_RUNS ? "[0-9]+" : "[0-9]{1," + digitGroup + "}";
+    String word = "(?:[A-Za-z]+|" + digits + "|[!\"#%&'()*,\\-./:;?@\\[\\\\\\]_{}]+|[$+<=>^`|~]+"
+        + "|[\\x00-\\x08\\x0E-\\x1F\\x7F]+)";
+    String newlines = "[\\n\\x0B\\f\\r]+";
+    switch (space) {
+      case OWN:
+        return Pattern.compile(newlines + "|[ \\t]+|" + word);
+      case PREVIOUS:
+        return Pattern.compile(newlines + "|[ \\t]+|" + word + " ?");
+      default:
+        return Pattern.compile(
+            newlines                                     // newline runs
+            + "|[ \\t]++(?![^" + ws + "])"               // a space run before a newline or the end
+            + "|[ \\t]*\\t(?=[^" + ws + "])"             // a space run ending in TAB before text: whole
+            + "|[ \\t]*[ \\t](?= [^" + ws + "])"         // the part of a run before its last U+0020
+            + "| ?" + word);
+    }
   }
 
   static List<String> oracle(Pattern p, String text) {
@@ -191,11 +221,11 @@ class SplittingPropertyTest {
     return out;
   }
 
-  @ParameterizedTest(name = "rules:{0} seed {1}")
-  @MethodSource("rulesSeeds")
-  void rulesAgreeWithAsciiOracle(int maxDigits, long seed) {
-    Splitting s = Splitting.rules(maxDigits);
-    Pattern p = asciiOracle(maxDigits);
+  @ParameterizedTest(name = "space={0} digits={1} seed {2}")
+  @MethodSource("runsSeeds")
+  void runsAgreeWithAsciiOracle(Splitting.Space space, int digitGroup, long seed) {
+    Splitting s = Splitting.runs(space, digitGroup);
+    Pattern p = asciiOracle(space, digitGroup);
     String asciiAlphabet = "ferryFERRY0123456789       \t\t\n\r\u000B\f.,'!?-_()$+<=>^`|~#%&@\u0001\u001F\u007F";
     int[] alphabet = asciiAlphabet.chars().toArray();
     SplittableRandom r = new SplittableRandom(seed);

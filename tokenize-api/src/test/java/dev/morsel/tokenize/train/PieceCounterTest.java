@@ -120,15 +120,15 @@ class PieceCounterTest {
   }
 
   @Test
-  void rulesCountsDoNotDependOnThreadsWithoutPruning() {
+  void classRunCountsDoNotDependOnThreadsWithoutPruning() {
     List<String> bodies = Europarl.bodies().subList(0, 2_000);
-    PieceCounts one = counter(Splitting.rules(), 1).count(bodies);
-    PieceCounts two = counter(Splitting.rules(), 2).count(bodies);
+    PieceCounts one = counter(Splitting.runs(), 1).count(bodies);
+    PieceCounts two = counter(Splitting.runs(), 2).count(bodies);
     assertEquals(one, two);
     // cross-check the total against the splitter itself: pieces counted = pieces produced
     long[] produced = {0};
     for (String b : bodies) {
-      Splitting.rules().split(b, 0, b.length(), (s, e) -> produced[0]++);
+      Splitting.runs().split(b, 0, b.length(), (s, e) -> produced[0]++);
     }
     assertEquals(produced[0], one.total());
     assertTrue(one.count(" the") > 1_000, "' the' is frequent in Europarl English: " + one.count(" the"));

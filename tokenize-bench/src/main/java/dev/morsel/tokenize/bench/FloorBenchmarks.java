@@ -23,7 +23,7 @@ import org.openjdk.jmh.infra.Blackhole;
 /**
  * The floors every segmenter is measured against, on the whole Europarl body corpus (one operation
  * = one pass over all 17,597 bodies, about 19.3 MB of UTF-8): {@code utf8} ({@code String.getBytes}),
- * {@code normalize_nfkc}, {@code split} (rule-based splitting, normalization off) and
+ * {@code normalize_nfkc}, {@code split} (class-run splitting, normalization off) and
  * {@code count_pieces} (the training counter on one thread).
  *
  * <p>Run all figures with {@code tokenize-bench/summary.sh}; this class alone with
@@ -38,7 +38,7 @@ import org.openjdk.jmh.infra.Blackhole;
 public class FloorBenchmarks {
   List<String> bodies;
   Normalization nfkc;
-  Splitting rules;
+  Splitting runs;
   PieceCounter counter;
   final int[] pieces = new int[1];
   final PieceSink sink = (s, e) -> pieces[0] += e - s;
@@ -47,8 +47,8 @@ public class FloorBenchmarks {
   public void setup() {
     bodies = Corpus.bodies();
     nfkc = Normalization.of(Normalization.Form.NFKC);
-    rules = Splitting.rules();
-    counter = PieceCounter.builder().pipeline(Pipeline.of(Normalization.none(), rules)).threads(1).build();
+    runs = Splitting.runs();
+    counter = PieceCounter.builder().pipeline(Pipeline.of(Normalization.none(), runs)).threads(1).build();
   }
 
   /** {@code utf8}: encode every body to UTF-8 with the JDK. */
@@ -67,12 +67,12 @@ public class FloorBenchmarks {
     }
   }
 
-  /** {@code split}: the rule-based splitter, normalization off. */
+  /** {@code split}: the class-run splitter, normalization off. */
   @Benchmark
   public int split() {
     pieces[0] = 0;
     for (String s : bodies) {
-      rules.split(s, 0, s.length(), sink);
+      runs.split(s, 0, s.length(), sink);
     }
     return pieces[0];
   }

@@ -27,7 +27,7 @@ import java.util.function.Supplier;
  * The benchmark models, trained once on the whole Europarl body corpus and kept as model files in
  * {@code tokenize-bench/target/bench-models} (system property {@code morsel.bench.models}), so that
  * every JMH fork loads instead of retraining. All use {@link #pipeline()}: normalization off and the
- * rule-based splitter, the same steps as the {@code split} floor, so that a segmenter's ratio to
+ * class-run splitter, the same steps as the {@code split} floor, so that a segmenter's ratio to
  * {@code split} measures segmentation alone.
  */
 public final class Models {
@@ -42,9 +42,9 @@ public final class Models {
 
   private Models() {}
 
-  /** Normalization off, rule-based splitting. */
+  /** Normalization off, class-run splitting. */
   public static Pipeline pipeline() {
-    return Pipeline.of(Normalization.none(), Splitting.rules());
+    return Pipeline.of(Normalization.none(), Splitting.runs());
   }
 
   /** The same pipeline with splitting off: the adversarial inputs stay one piece. */

@@ -69,12 +69,12 @@ final class Models {
     dev.morsel.tokenize.spi.Segmenter s = segmenter(kind);
     dev.morsel.tokenize.ReservedTokens reserved = kind == Kind.BPE ? Trained.BPE.reservedTokens()
         : Trained.WORDPIECE.reservedTokens();
-    return Tokenizers.of(Pipeline.of(Normalization.parse(form), Splitting.rules()), s, reserved, Spellings.template());
+    return Tokenizers.of(Pipeline.of(Normalization.parse(form), Splitting.runs()), s, reserved, Spellings.template());
   }
 
   /** Same as {@link #tokenizer} over a given segmenter instance of the kind. */
   static Tokenizer tokenizer(Kind kind, String form, dev.morsel.tokenize.spi.Segmenter s) {
-    return Tokenizers.of(Pipeline.of(Normalization.parse(form), Splitting.rules()), s, tokenizer(kind, form)
+    return Tokenizers.of(Pipeline.of(Normalization.parse(form), Splitting.runs()), s, tokenizer(kind, form)
         .reservedTokens(), Spellings.template());
   }
 

@@ -43,7 +43,7 @@ final class SweepCommand implements Callable<Integer> {
   @Option(names = "--normalize", defaultValue = "nfc", description = "Normalization (default: ${DEFAULT-VALUE}).")
   String normalize;
 
-  @Option(names = "--split", defaultValue = "rules:3", description = "Splitting (default: ${DEFAULT-VALUE}).")
+  @Option(names = "--split", defaultValue = "runs:space=next,digits=whole", description = "Splitting (default: ${DEFAULT-VALUE}).")
   String split;
 
   @Option(names = "--threads", description = "Threads for counting and training (default: all cores).")

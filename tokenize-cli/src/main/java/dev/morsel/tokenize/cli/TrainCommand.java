@@ -43,7 +43,8 @@ final class TrainCommand implements Callable<Integer> {
   @Option(names = "--normalize", defaultValue = "nfc", description = "Normalization, e.g. none, nfc, nfkc+casefold (default: ${DEFAULT-VALUE}).")
   String normalize;
 
-  @Option(names = "--split", defaultValue = "rules:3", description = "Splitting: rules:N, words, whitespace, none (default: ${DEFAULT-VALUE}).")
+  @Option(names = "--split", defaultValue = "runs:space=next,digits=whole",
+      description = "Splitting: runs:space=own|next|previous,digits=whole|1..64, words, whitespace, none (default: ${DEFAULT-VALUE}).")
   String split;
 
   @Option(names = "--reserved", paramLabel = "SPELLING", description = "Add a reserved token, a spelling only trusted input can produce (repeatable); ids 0.. in order.")

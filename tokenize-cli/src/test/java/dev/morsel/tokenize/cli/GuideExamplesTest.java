@@ -84,7 +84,7 @@ class GuideExamplesTest {
   void gettingStarted() {
     Path modelFile = dir.resolve("ferry.morsel");
     // @start region="start"
-    Pipeline pipeline = Pipeline.defaults();                          // NFC, rule-based splitting
+    Pipeline pipeline = Pipeline.defaults();                          // NFC, class-run splitting
     PieceCounts counts = PieceCounter.builder().pipeline(pipeline).build().countFiles(List.of(corpus));
     BpeSegmenter bpe = BpeLearner.builder().vocabularySize(1000).build().train(counts);
     Tokenizer tokenizer = Tokenizers.of(pipeline, bpe);

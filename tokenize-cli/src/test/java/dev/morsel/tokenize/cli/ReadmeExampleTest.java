@@ -38,7 +38,7 @@ class ReadmeExampleTest {
     Path modelFile = dir.resolve("ferry.morsel");
 
     // @start region="readme"
-    // Count pieces with the same pipeline that encoding will use (NFC, rule-based splitting).
+    // Count pieces with the same pipeline that encoding will use (NFC, class-run splitting).
     Pipeline pipeline = Pipeline.defaults();
     PieceCounts counts = PieceCounter.builder().pipeline(pipeline).build().countFiles(List.of(corpus));
 

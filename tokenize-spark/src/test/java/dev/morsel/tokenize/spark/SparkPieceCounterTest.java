@@ -78,7 +78,7 @@ class SparkPieceCounterTest {
   static Stream<Pipeline> pipelines() {
     return Stream.of(
         Pipeline.of(Normalization.parse("nfkc+casefold+collapse-spaces"), Splitting.words()),
-        Pipeline.of(Normalization.parse("nfd+remove-marks+drop-controls"), Splitting.rules(2)),
+        Pipeline.of(Normalization.parse("nfd+remove-marks+drop-controls"), Splitting.runs(Splitting.Space.NEXT, 2)),
         Pipeline.of(Normalization.none(), Splitting.whitespace()));
   }
 
@@ -164,7 +164,7 @@ class SparkPieceCounterTest {
     assertEquals(3, r.texts());
     List<String> nonNull = Arrays.asList(texts.get(0), texts.get(2), texts.get(4));
     assertEquals(PieceCounter.builder().threads(1).build().count(nonNull), r.counts());
-    assertEquals(2, r.counts().count(" sailing"), "' sailing' occurs twice (rules splitting moves the space forward)");
+    assertEquals(2, r.counts().count(" sailing"), "' sailing' occurs twice (class runs move the space forward)");
   }
 
   @Test

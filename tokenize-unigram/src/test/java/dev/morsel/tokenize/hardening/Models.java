@@ -59,7 +59,7 @@ final class Models {
 
   /** A tokenizer over {@code model} with normalization {@code form}, rule splitting and the test template. */
   static Tokenizer tokenizer(String form, UnigramModel model) {
-    return Tokenizers.of(Pipeline.of(Normalization.parse(form), Splitting.rules()), model, model.reservedTokens(),
+    return Tokenizers.of(Pipeline.of(Normalization.parse(form), Splitting.runs()), model, model.reservedTokens(),
         Spellings.template());
   }
 
