@@ -223,12 +223,14 @@ final class PipelineTokenizer implements Tokenizer {
   private void plain(Context s, CharSequence text, int from, int to) {
     NormalizedText norm = pipeline.normalization().apply(text, from, to);
     s.norm = norm;
+    s.cursor.reset(norm);
     String t = norm.text();
     s.normalized = t;
     if (!t.isEmpty()) {
       pipeline.splitting().split(t, 0, t.length(), s.pieceSink);
     }
     s.norm = null;
+    s.cursor.reset(null);
     s.normalized = null;
   }
 
@@ -585,6 +587,7 @@ final class PipelineTokenizer implements Tokenizer {
     final Segmenter segmenter;
     PipelineTokenizer owner; // set while a call runs
     private Utf8Input input; // made on the first bytes-in call
+    final NormalizedText.Cursor cursor = new NormalizedText.Cursor();
     NormalizedText norm;
     String normalized;
     int segment;
@@ -623,8 +626,8 @@ final class PipelineTokenizer implements Tokenizer {
         counted++;
         return;
       }
-      NormalizedText n = norm;
-      builder.add(id, n.spanStart(start), n.spanEnd(end), segment, 0);
+      NormalizedText.Cursor c = cursor;
+      builder.add(id, c.spanStart(start), c.spanEnd(end), segment, 0);
     }
   }
 
@@ -640,6 +643,7 @@ final class PipelineTokenizer implements Tokenizer {
   private void give(Context s) {
     s.owner = null;
     s.norm = null;
+    s.cursor.reset(null);
     s.normalized = null;
     s.counting = false;
     if (s.input != null && s.input.oversized()) {
