@@ -36,7 +36,9 @@ final class IdealTable {
   /** The table of every distinct piece of {@code texts} under {@code splitting}, answered by {@code segmenter}. */
   static IdealTable build(List<String> texts, Splitting splitting, Segmenter segmenter) {
     java.util.LinkedHashMap<String, int[]> pieces = new java.util.LinkedHashMap<>();
+    long[] total = {0};
     for (String t : texts) {
+      splitting.split(t, 0, t.length(), (a, b) -> total[0]++);
       splitting.split(t, 0, t.length(), (a, b) -> pieces.computeIfAbsent(t.substring(a, b), p -> {
         int[][] acc = {new int[8]};
         int[] n = {0};
@@ -95,6 +97,10 @@ final class IdealTable {
     }
     keyStart[e] = k;
     tokStart[e] = t;
+    long tableBytes = 2L * keys.length + 4L * (keyStart.length + tokStart.length + ids.length + rel.length)
+        + 8L * cap;
+    System.err.printf(java.util.Locale.ROOT, "ideal table: %d pieces, %d distinct, %d tokens, %.1f MiB of arrays%n",
+        total[0], entries, ids.length, tableBytes / 1048576.0);
     return new IdealTable(keys, keyStart, tokStart, ids, rel, slots, slotHash);
   }
 
@@ -108,7 +114,8 @@ final class IdealTable {
     for (int i = from; i < to; i++) {
       h = 31 * h + s.charAt(i);
     }
-    return h * 0x9E3779B9; // Fibonacci hashing (Knuth, TAOCP vol. 3, section 6.4)
+    h *= 0x9E3779B9; // Fibonacci hashing (Knuth, TAOCP vol. 3, section 6.4) ...
+    return h ^ (h >>> 15); // ... whose good bits are the high ones: fold them into the low ones the slots use
   }
 
   /**

@@ -146,7 +146,7 @@ public final class Encoder {
       }
     }
     int m = merge(s, s.load(text, start, end));
-    if (cacheable) {
+    if (cacheable && cache.admit(hash)) {
       cache.store(hash, text, start, end, s, m);
     }
     s.emit(m, start, sink);
