@@ -7,29 +7,22 @@ import java.util.List;
 
 /**
  * The ceiling of per-piece segmentation: every distinct piece of a corpus with its tokens (ids and
- * piece-relative spans), precomputed from a real segmenter's output and held in flat arrays, so that
- * answering a piece is one hash over its chars, one probe (linear probing, at most half full), one
- * char compare and a copy of its tokens: no trie, no merge, no object. A segmenter has to do at least
- * this much for a piece it knows by heart, so no per-piece segmenter can beat it.
+ * piece-relative spans), precomputed from a real segmenter's output and held in two flat arrays, so
+ * that answering a piece is one hash over its chars, one probe of a slot array (linear probing, at
+ * most half full; a slot holds the hash and the record's offset side by side), one compare against
+ * the record and a copy of its tokens. A record is contiguous ({@code [chars, tokens, chars packed
+ * two per int..., (id, start << 16 | end) per token]}), so a lookup touches the slot's cache line
+ * and the record's one or two. No trie, no merge, no object: a segmenter has to do at least this
+ * much for a piece it knows by heart, so no per-piece segmenter can beat it.
  */
 final class IdealTable {
-  private final char[] keys;
-  private final int[] keyStart; // per entry, into keys; keyStart[e + 1] is its end
-  private final int[] tokStart; // per entry, into ids/rel; tokStart[e + 1] is its end
-  private final int[] ids;
-  private final int[] rel; // (start << 16 | end) relative to the piece, per token
-  private final int[] slots; // entry + 1, 0 = empty
-  private final int[] slotHash;
+  private final int[] records;
+  private final long[] slots; // hash << 32 | (record offset + 1); 0 = empty
   private final int mask;
 
-  private IdealTable(char[] keys, int[] keyStart, int[] tokStart, int[] ids, int[] rel, int[] slots, int[] slotHash) {
-    this.keys = keys;
-    this.keyStart = keyStart;
-    this.tokStart = tokStart;
-    this.ids = ids;
-    this.rel = rel;
+  private IdealTable(int[] records, long[] slots) {
+    this.records = records;
     this.slots = slots;
-    this.slotHash = slotHash;
     this.mask = slots.length - 1;
   }
 
@@ -38,75 +31,56 @@ final class IdealTable {
     java.util.LinkedHashMap<String, int[]> pieces = new java.util.LinkedHashMap<>();
     long[] total = {0};
     for (String t : texts) {
-      splitting.split(t, 0, t.length(), (a, b) -> total[0]++);
-      splitting.split(t, 0, t.length(), (a, b) -> pieces.computeIfAbsent(t.substring(a, b), p -> {
-        int[][] acc = {new int[8]};
-        int[] n = {0};
-        segmenter.segment(p, 0, p.length(), (id, s, e) -> {
-          if (n[0] + 3 > acc[0].length) {
-            acc[0] = Arrays.copyOf(acc[0], acc[0].length * 2);
-          }
-          acc[0][n[0]++] = id;
-          acc[0][n[0]++] = s;
-          acc[0][n[0]++] = e;
+      splitting.split(t, 0, t.length(), (a, b) -> {
+        total[0]++;
+        pieces.computeIfAbsent(t.substring(a, b), p -> {
+          int[][] acc = {new int[8]};
+          int[] n = {0};
+          segmenter.segment(p, 0, p.length(), (id, s, e) -> {
+            if (n[0] + 2 > acc[0].length) {
+              acc[0] = Arrays.copyOf(acc[0], acc[0].length * 2);
+            }
+            acc[0][n[0]++] = id;
+            acc[0][n[0]++] = s << 16 | e;
+          });
+          return Arrays.copyOf(acc[0], n[0]);
         });
-        return Arrays.copyOf(acc[0], n[0]);
-      }));
+      });
     }
-    int entries = pieces.size();
-    long chars = 0;
-    long toks = 0;
+    long size = 0;
     for (java.util.Map.Entry<String, int[]> e : pieces.entrySet()) {
-      chars += e.getKey().length();
-      toks += e.getValue().length / 3;
+      if (e.getKey().length() > 0xFFFF) {
+        throw new IllegalArgumentException("a piece of " + e.getKey().length() + " chars does not fit the 16-bit spans");
+      }
+      size += 2 + (e.getKey().length() + 1) / 2 + e.getValue().length;
     }
-    char[] keys = new char[Math.toIntExact(chars)];
-    int[] keyStart = new int[entries + 1];
-    int[] tokStart = new int[entries + 1];
-    int[] ids = new int[Math.toIntExact(toks)];
-    int[] rel = new int[ids.length];
-    int cap = Integer.highestOneBit(Math.max(4, entries * 2 - 1)) << 1;
-    int[] slots = new int[cap];
-    int[] slotHash = new int[cap];
-    int e = 0;
-    int k = 0;
-    int t = 0;
+    int[] records = new int[Math.toIntExact(size)];
+    int cap = Integer.highestOneBit(Math.max(4, pieces.size() * 2 - 1)) << 1;
+    long[] slots = new long[cap];
+    int r = 0;
+    long tokens = 0;
     for (java.util.Map.Entry<String, int[]> en : pieces.entrySet()) {
       String p = en.getKey();
-      if (p.length() > 0xFFFF) {
-        throw new IllegalArgumentException("a piece of " + p.length() + " chars does not fit the 16-bit spans");
-      }
-      p.getChars(0, p.length(), keys, k);
-      keyStart[e] = k;
-      k += p.length();
-      tokStart[e] = t;
       int[] v = en.getValue();
-      for (int j = 0; j < v.length; j += 3) {
-        ids[t] = v[j];
-        rel[t] = v[j + 1] << 16 | v[j + 2];
-        t++;
+      int at = r;
+      records[r++] = p.length();
+      records[r++] = v.length / 2;
+      for (int i = 0; i < p.length(); i += 2) {
+        records[r++] = p.charAt(i) | (i + 1 < p.length() ? p.charAt(i + 1) << 16 : 0);
       }
+      System.arraycopy(v, 0, records, r, v.length);
+      r += v.length;
+      tokens += v.length / 2;
       int h = hash(p, 0, p.length());
       int s = h & (cap - 1);
       while (slots[s] != 0) {
         s = (s + 1) & (cap - 1);
       }
-      slots[s] = e + 1;
-      slotHash[s] = h;
-      e++;
+      slots[s] = (long) h << 32 | (at + 1);
     }
-    keyStart[e] = k;
-    tokStart[e] = t;
-    long tableBytes = 2L * keys.length + 4L * (keyStart.length + tokStart.length + ids.length + rel.length)
-        + 8L * cap;
     System.err.printf(java.util.Locale.ROOT, "ideal table: %d pieces, %d distinct, %d tokens, %.1f MiB of arrays%n",
-        total[0], entries, ids.length, tableBytes / 1048576.0);
-    return new IdealTable(keys, keyStart, tokStart, ids, rel, slots, slotHash);
-  }
-
-  /** Number of distinct pieces. */
-  int size() {
-    return keyStart.length - 1;
+        total[0], pieces.size(), tokens, (4.0 * records.length + 8.0 * cap) / 1048576.0);
+    return new IdealTable(records, slots);
   }
 
   static int hash(String s, int from, int to) {
@@ -123,22 +97,26 @@ final class IdealTable {
    * the new count, or -1 if the piece is not in the table.
    */
   int emit(String text, int from, int to, int[] outIds, int[] outStarts, int[] outEnds, int at) {
-    int h = hash(text, from, to);
-    int s = h & mask;
+    final int h = hash(text, from, to);
     final int len = to - from;
+    final long[] sl = slots;
+    final int[] rec = records;
+    int s = h & mask;
     while (true) {
-      int e = slots[s] - 1;
-      if (e < 0) {
+      long v = sl[s];
+      if (v == 0) {
         return -1;
       }
-      if (slotHash[s] == h) {
-        int k = keyStart[e];
-        if (keyStart[e + 1] - k == len && same(text, from, len, k)) {
-          for (int j = tokStart[e], end = tokStart[e + 1]; j < end; j++) {
-            int r = rel[j];
-            outIds[at] = ids[j];
-            outStarts[at] = from + (r >>> 16);
-            outEnds[at] = from + (r & 0xFFFF);
+      if ((int) (v >>> 32) == h) {
+        int r = (int) v - 1;
+        if (rec[r] == len && same(text, from, len, r + 2)) {
+          int n = rec[r + 1];
+          int t = r + 2 + (len + 1) / 2;
+          for (int j = 0; j < n; j++, t += 2) {
+            int sp = rec[t + 1];
+            outIds[at] = rec[t];
+            outStarts[at] = from + (sp >>> 16);
+            outEnds[at] = from + (sp & 0xFFFF);
             at++;
           }
           return at;
@@ -149,9 +127,10 @@ final class IdealTable {
   }
 
   private boolean same(String text, int from, int len, int k) {
-    final char[] c = keys;
-    for (int i = 0; i < len; i++) {
-      if (c[k + i] != text.charAt(from + i)) {
+    final int[] rec = records;
+    for (int i = 0; i < len; i += 2) {
+      int w = rec[k + (i >>> 1)];
+      if ((char) w != text.charAt(from + i) || (i + 1 < len && (char) (w >>> 16) != text.charAt(from + i + 1))) {
         return false;
       }
     }
