@@ -45,36 +45,10 @@ final class Utf8Input {
         at[o++] = i++;
         continue;
       }
-      int need;
-      int lo = 0x80;
-      int hi = 0xBF;
-      int cp;
-      if (b0 >= 0xC2 && b0 <= 0xDF) {
-        need = 1;
-        cp = b0 & 0x1F;
-      } else if (b0 >= 0xE0 && b0 <= 0xEF) {
-        need = 2;
-        cp = b0 & 0x0F;
-        lo = b0 == 0xE0 ? 0xA0 : 0x80;
-        hi = b0 == 0xED ? 0x9F : 0xBF;
-      } else if (b0 >= 0xF0 && b0 <= 0xF4) {
-        need = 3;
-        cp = b0 & 0x07;
-        lo = b0 == 0xF0 ? 0x90 : 0x80;
-        hi = b0 == 0xF4 ? 0x8F : 0xBF;
-      } else {
-        need = 0;
-        cp = -1;
-      }
-      int j = 1;
-      for (; j <= need && i + j < len; j++) {
-        int c = b[off + i + j] & 0xFF;
-        if (c < (j == 1 ? lo : 0x80) || c > (j == 1 ? hi : 0xBF)) {
-          break;
-        }
-        cp = (cp << 6) | (c & 0x3F);
-      }
-      if (need == 0 || j <= need) {
+      long seq = sequence(b, off + i, off + len);
+      int cp = (int) seq;
+      int j = (int) (seq >>> 32);
+      if (cp < 0) {
         if (policy == Decoding.STRICT) {
           throwIllFormed(i, b0);
         }
@@ -92,11 +66,51 @@ final class Utf8Input {
         out[o] = (char) cp;
         at[o++] = i;
       }
-      i += need + 1;
+      i += j;
     }
     at[o] = len;
     length = o;
     return new String(out, 0, o);
+  }
+
+  /**
+   * The UTF-8 sequence with its lead byte (not ASCII) at {@code b[i]}, reading no byte at or after
+   * {@code end}: {@code length << 32 | codePoint} when it is well-formed, and {@code subpart << 32 |
+   * 0xFFFFFFFF} (code point -1) when it is not, where {@code subpart} is the length of the maximal
+   * subpart to replace by one U+FFFD (Unicode Standard, section 3.9, Table 3-7 for the well-formed
+   * byte ranges): the lead byte and the continuation bytes that were still valid.
+   */
+  static long sequence(byte[] b, int i, int end) {
+    int b0 = b[i] & 0xFF;
+    int need;
+    int lo = 0x80;
+    int hi = 0xBF;
+    int cp;
+    if (b0 >= 0xC2 && b0 <= 0xDF) {
+      need = 1;
+      cp = b0 & 0x1F;
+    } else if (b0 >= 0xE0 && b0 <= 0xEF) {
+      need = 2;
+      cp = b0 & 0x0F;
+      lo = b0 == 0xE0 ? 0xA0 : 0x80;
+      hi = b0 == 0xED ? 0x9F : 0xBF;
+    } else if (b0 >= 0xF0 && b0 <= 0xF4) {
+      need = 3;
+      cp = b0 & 0x07;
+      lo = b0 == 0xF0 ? 0x90 : 0x80;
+      hi = b0 == 0xF4 ? 0x8F : 0xBF;
+    } else {
+      return 1L << 32 | 0xFFFFFFFFL;
+    }
+    int j = 1;
+    for (; j <= need && i + j < end; j++) {
+      int c = b[i + j] & 0xFF;
+      if (c < (j == 1 ? lo : 0x80) || c > (j == 1 ? hi : 0xBF)) {
+        break;
+      }
+      cp = (cp << 6) | (c & 0x3F);
+    }
+    return j <= need ? (long) j << 32 | 0xFFFFFFFFL : (long) (need + 1) << 32 | cp;
   }
 
   /** Copies {@code n} bytes at absolute {@code index} of {@code buf} into a reusable array. */
