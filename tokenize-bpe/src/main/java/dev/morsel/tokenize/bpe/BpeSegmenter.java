@@ -15,6 +15,8 @@ import dev.morsel.tokenize.format.ReviewWriter;
 import dev.morsel.tokenize.spi.ByteSink;
 import dev.morsel.tokenize.spi.Segmenter;
 import dev.morsel.tokenize.spi.TokenSink;
+import dev.morsel.tokenize.spi.Workspace;
+import dev.morsel.tokenize.spi.WorkspacePool;
 import java.nio.charset.StandardCharsets;
 import java.util.HashMap;
 import java.util.List;
@@ -73,7 +75,8 @@ public final class BpeSegmenter implements Segmenter {
   private final double dropout;
   private final long seed;
   private final SplittableRandom dropoutRoot; // null when dropout is off
-  private final ThreadLocal<SplittableRandom> dropoutRandom;
+  /** Workspaces for calls that bring none; owned by this segmenter. */
+  private final WorkspacePool<Encoder.Scratch> own;
 
   private BpeSegmenter(Vocab vocab, Encoder encoder, ReservedTokens reserved, int cacheEntries, double dropout, long seed) {
     this.vocab = vocab;
@@ -83,18 +86,8 @@ public final class BpeSegmenter implements Segmenter {
     this.cache = cacheEntries == 0 || dropout > 0 ? null : new PieceCache(cacheEntries); // dropout bypasses it
     this.dropout = dropout;
     this.seed = seed;
-    if (dropout > 0) {
-      SplittableRandom root = new SplittableRandom(seed);
-      this.dropoutRoot = root;
-      this.dropoutRandom = ThreadLocal.withInitial(() -> {
-        synchronized (root) {
-          return root.split();
-        }
-      });
-    } else {
-      this.dropoutRoot = null;
-      this.dropoutRandom = null;
-    }
+    this.dropoutRoot = dropout > 0 ? new SplittableRandom(seed) : null;
+    this.own = WorkspacePool.of(encoder::newScratch);
   }
 
   static BpeSegmenter create(Vocab vocab, int cacheEntries) {
@@ -183,9 +176,9 @@ public final class BpeSegmenter implements Segmenter {
    * adjacent pair occurrence that has a rank) is skipped independently with probability {@code p};
    * the lowest-ranked remaining candidate, leftmost among equals, is applied; when every candidate of
    * a step is skipped, the piece's segmentation ends there. {@code p = 0} gives plain segmentation,
-   * {@code p = 1} single bytes. The cache is bypassed. Each thread draws from its own generator,
-   * split from a root {@code SplittableRandom(seed)} in the order threads first use it, so a
-   * single-threaded run is reproducible for a given seed.
+   * {@code p = 1} single bytes. The cache is bypassed. Each encode workspace draws from its own
+   * generator, split from a root {@code SplittableRandom(seed)} in the order workspaces are first
+   * used, so a single-threaded run (which reuses one workspace) is reproducible for a given seed.
    *
    * @throws IllegalArgumentException if {@code p} is not in [0, 1]
    */
@@ -255,11 +248,39 @@ public final class BpeSegmenter implements Segmenter {
 
   @Override
   public void segment(CharSequence text, int start, int end, TokenSink sink) {
+    Encoder.Scratch s = own.take();
+    try {
+      segment(text, start, end, sink, s);
+    } finally {
+      own.give(s);
+    }
+  }
+
+  /** A workspace of a few hundred bytes; it grows with the pieces it sees (see {@link Encoder.Scratch}). */
+  @Override
+  public Workspace newWorkspace() {
+    return encoder.newScratch();
+  }
+
+  @Override
+  public void segment(CharSequence text, int start, int end, TokenSink sink, Workspace workspace) {
     Objects.checkFromToIndex(start, end, text.length());
+    if (!(workspace instanceof Encoder.Scratch)) {
+      segment(text, start, end, sink);
+      return;
+    }
+    Encoder.Scratch s = (Encoder.Scratch) workspace;
     if (dropout > 0) {
-      encoder.segmentDropout(text, start, end, sink, dropout, dropoutRandom.get());
+      SplittableRandom r = s.random;
+      if (r == null) {
+        synchronized (dropoutRoot) {
+          r = dropoutRoot.split();
+        }
+        s.random = r;
+      }
+      encoder.segmentDropout(text, start, end, sink, dropout, r, s);
     } else {
-      encoder.segment(text, start, end, sink, cache);
+      encoder.segment(text, start, end, sink, cache, s);
     }
   }
 

@@ -6,6 +6,8 @@ import dev.morsel.tokenize.format.SectionWriter;
 import dev.morsel.tokenize.spi.ByteSink;
 import dev.morsel.tokenize.spi.PieceTable;
 import dev.morsel.tokenize.spi.TokenSink;
+import dev.morsel.tokenize.spi.Workspace;
+import dev.morsel.tokenize.spi.WorkspacePool;
 import dev.morsel.tokenize.unigram.Segmentation;
 import dev.morsel.tokenize.unigram.UnigramModel;
 import it.unimi.dsi.fastutil.ints.IntHeapPriorityQueue;
@@ -18,15 +20,15 @@ import java.util.Objects;
 import java.util.random.RandomGenerator;
 
 /**
- * The {@link UnigramModel} implementation. Immutable and thread-safe; encoding uses per-thread
- * scratch arrays and allocates nothing per token.
+ * The {@link UnigramModel} implementation. Immutable and thread-safe; encoding works in a
+ * {@link Scratch} workspace lent to each call and allocates nothing per token.
  *
  * <p>Design notes. Viterbi [1, section 3.1; 2] runs left to right: from every reachable position
  * the piece trie lists the tokens that start there, O(n · L) for a piece of n chars and longest
  * token L. Where the character at a position is not itself a token an extra edge of one code point
  * carries the unknown token (byte tokens on output with byte fallback), so every piece has a path.
  * Ties keep the first relaxation (the path whose last token starts earliest). Pieces of up to
- * {@value PieceCache#MAX_CHARS} chars go through a per-thread {@link PieceCache} first. The n-best list is
+ * {@value PieceCache#MAX_CHARS} chars go through the workspace's {@link PieceCache} first. The n-best list is
  * A* search from the start with the exact best-suffix score as heuristic. Sampling filters backward
  * (log-sum-exp of {@code alpha * score} over all suffixes) and then samples forward token by token
  * [1, section 2.2 and 3.1]; this is the mirror image of forward filtering with backward sampling and
@@ -46,7 +48,7 @@ public final class UnigramSegmenter implements UnigramModel {
   static final int FORMAT_VERSION = 1;
   /** How far below the lowest piece the unknown token scores (common practice: a clear penalty, in nats). */
   static final double UNKNOWN_PENALTY = 10.0;
-  /** Pieces longer than this are kept in a throw-away scratch rather than the per-thread one (chars). */
+  /** Pieces longer than this are segmented in a throw-away scratch rather than the workspace's (chars). */
   private static final int KEEP_SCRATCH = 1 << 16;
   /** A* pops allowed per result and position before n-best gives up (bounds time on tied lattices). */
   private static final int POPS_PER_RESULT_AND_POSITION = 8;
@@ -69,7 +71,8 @@ public final class UnigramSegmenter implements UnigramModel {
   private final String[] reserved;
   private final String[] pieces;
   private final double[] pieceScores;
-  private final ThreadLocal<Scratch> scratch = ThreadLocal.withInitial(Scratch::new);
+  /** Workspaces for calls that bring none (n-best, sampling, direct use); owned by this segmenter. */
+  private final WorkspacePool<Scratch> own = WorkspacePool.of(Scratch::new);
 
   // ------------------------------------------------------------------ life-cycle
 
@@ -167,6 +170,7 @@ public final class UnigramSegmenter implements UnigramModel {
    */
   private PieceTable wholePieces(String[] pieces) {
     String[] keep = new String[score.length];
+    Scratch probe = new Scratch();
     int[] found = new int[2]; // the first token, the token count
     TokenSink count = (tid, a, b) -> {
       if (found[1]++ == 0) {
@@ -180,7 +184,7 @@ public final class UnigramSegmenter implements UnigramModel {
         continue;
       }
       found[1] = 0;
-      viterbi(p, 0, n, scratchFor(n), count);
+      viterbi(p, 0, n, scratchFor(n, probe), count);
       if (found[1] == 1 && found[0] == firstPiece + i) {
         keep[firstPiece + i] = p;
       }
@@ -300,6 +304,26 @@ public final class UnigramSegmenter implements UnigramModel {
 
   @Override
   public void segment(CharSequence text, int start, int end, TokenSink sink) {
+    Scratch s = own.take();
+    try {
+      segment(text, start, end, sink, s);
+    } finally {
+      own.give(s);
+    }
+  }
+
+  /** A workspace of a few hundred bytes; Viterbi arrays grow with the pieces, the cache comes on first use. */
+  @Override
+  public Workspace newWorkspace() {
+    return new Scratch();
+  }
+
+  @Override
+  public void segment(CharSequence text, int start, int end, TokenSink sink, Workspace workspace) {
+    if (!(workspace instanceof Scratch)) {
+      segment(text, start, end, sink);
+      return;
+    }
     checkRange(text, start, end);
     int n = end - start;
     if (n == 0) {
@@ -310,12 +334,12 @@ public final class UnigramSegmenter implements UnigramModel {
       sink.token(id, start, end);
       return;
     }
-    Scratch s = scratchFor(n);
+    Scratch s = scratchFor(n, (Scratch) workspace);
     if (n > PieceCache.MAX_CHARS) {
       viterbi(text, start, end, s, sink);
       return;
     }
-    PieceCache cache = s.cache;
+    PieceCache cache = s.cache();
     int slot = cache.slot(text, start, end);
     if (cache.matches(slot, text, start, end)) {
       cache.replay(slot, start, sink);
@@ -404,7 +428,7 @@ public final class UnigramSegmenter implements UnigramModel {
       out.add(new Segmentation0().build(0));
       return out;
     }
-    Scratch s = scratchFor(n);
+    Scratch s = scratchFor(n, new Scratch()); // n-best allocates its search nodes anyway
     double[] suffix = new double[n + 1];
     int[] edgeEnd = s.edgeEnd;
     int[] edgeId = s.edgeId;
@@ -463,7 +487,17 @@ public final class UnigramSegmenter implements UnigramModel {
     if (n == 0) {
       return;
     }
-    Scratch s = scratchFor(n);
+    Scratch taken = own.take();
+    try {
+      sample(text, start, end, alpha, random, sink, scratchFor(n, taken));
+    } finally {
+      own.give(taken);
+    }
+  }
+
+  private void sample(CharSequence text, int start, int end, double alpha, RandomGenerator random, TokenSink sink,
+      Scratch s) {
+    int n = end - start;
     double[] beta = s.best;
     int[] edgeEnd = s.edgeEnd;
     int[] edgeId = s.edgeId;
@@ -603,13 +637,11 @@ public final class UnigramSegmenter implements UnigramModel {
     return b.build(nodes.g[last]);
   }
 
-  private Scratch scratchFor(int n) {
+  /** {@code s} ready for a piece of {@code n} chars, or a throw-away scratch for a huge piece. */
+  private Scratch scratchFor(int n, Scratch s) {
     if (n > KEEP_SCRATCH) {
-      Scratch s = new Scratch();
-      s.ensure(n, trie.maxDepth());
-      return s;
+      s = new Scratch();
     }
-    Scratch s = scratch.get();
     s.ensure(n, trie.maxDepth());
     return s;
   }
@@ -630,8 +662,8 @@ public final class UnigramSegmenter implements UnigramModel {
 
   // ------------------------------------------------------------------ helper types
 
-  /** Per-thread work arrays, grown on demand. */
-  private static final class Scratch {
+  /** One encode call's work arrays, grown on demand; the piece cache is made on first use. */
+  private static final class Scratch extends Workspace {
     double[] best = new double[0];
     int[] backPos = new int[0];
     int[] backId = new int[0];
@@ -639,8 +671,17 @@ public final class UnigramSegmenter implements UnigramModel {
     int[] pathId = new int[0];
     int[] edgeEnd = new int[0];
     int[] edgeId = new int[0];
-    final PieceCache cache = new PieceCache();
+    private PieceCache cache;
     final Recorder recorder = new Recorder();
+
+    PieceCache cache() {
+      PieceCache c = cache;
+      if (c == null) {
+        c = new PieceCache();
+        cache = c;
+      }
+      return c;
+    }
 
     void ensure(int n, int depth) {
       if (best.length < n + 1) {
