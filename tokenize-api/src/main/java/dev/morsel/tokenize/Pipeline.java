@@ -1,5 +1,7 @@
 package dev.morsel.tokenize;
 
+import com.ibm.icu.lang.UCharacter;
+import com.ibm.icu.util.VersionInfo;
 import dev.morsel.tokenize.normalize.Normalization;
 import dev.morsel.tokenize.split.Splitting;
 import java.util.Objects;
@@ -7,7 +9,8 @@ import java.util.Objects;
 /**
  * The text-processing steps before segmentation: normalization, then splitting into pieces. The
  * same pipeline is used for counting training pieces and for encoding, so that training and
- * encoding see the same pieces. Immutable and thread-safe; saved in the model file.
+ * encoding see the same pieces. Immutable and thread-safe; saved in the model file together with
+ * the {@linkplain #unicodeVersion() Unicode version} of the data both steps use.
  *
  * @since 0.1.0
  */
@@ -52,6 +55,28 @@ public final class Pipeline {
   /** This pipeline with another splitting. */
   public Pipeline withSplitting(Splitting s) {
     return new Pipeline(normalization, s);
+  }
+
+  /**
+   * The Unicode version of the character data that normalization and splitting use on this runtime,
+   * as {@code major.minor.update} (for example {@code "17.0.0"}). Both steps take all their tables
+   * from the bundled ICU (normalization data, character properties, word-break rules), which builds
+   * them from one Unicode version and reports it through {@link UCharacter#getUnicodeVersion()}; a
+   * Spark cluster or an application server that brings another ICU reports its own. Model files
+   * record this value in their pipeline section, so it is part of the fingerprint, and loading a
+   * model made with another version is refused unless
+   * {@link dev.morsel.tokenize.format.ModelLimits#withUnicodeMismatchAllowed(boolean) allowed}.
+   *
+   * @since 0.1.0
+   */
+  public static String unicodeVersion() {
+    return UNICODE_VERSION;
+  }
+
+  private static final String UNICODE_VERSION = format(UCharacter.getUnicodeVersion());
+
+  private static String format(VersionInfo v) {
+    return v.getMajor() + "." + v.getMinor() + "." + v.getMilli();
   }
 
   @Override

@@ -7,6 +7,8 @@ import dev.morsel.tokenize.normalize.NormalizedText;
 import dev.morsel.tokenize.spi.PieceSegmentation;
 import dev.morsel.tokenize.spi.Segmenter;
 import dev.morsel.tokenize.spi.TokenSink;
+import dev.morsel.tokenize.spi.Workspace;
+import dev.morsel.tokenize.spi.WorkspacePool;
 import dev.morsel.tokenize.split.PieceSink;
 import java.io.IOException;
 import java.io.UncheckedIOException;
@@ -25,7 +27,9 @@ import java.util.concurrent.ForkJoinPool;
 /**
  * The one {@link Tokenizer} implementation: reserved-token scan, normalization with alignment,
  * splitting, segmentation, assembly of original offsets, framing. Immutable and thread-safe; all
- * per-call state lives in a per-thread {@link Scratch}.
+ * per-call state lives in an encode {@link Context} drawn from a bounded pool that this tokenizer
+ * owns (and shares with its {@code withTemplate}/{@code withLimits} copies, which have the same
+ * segmenter): no thread keeps anything, and a dropped tokenizer is garbage with its pool.
  */
 final class PipelineTokenizer implements Tokenizer {
   /** Model section tags written by the api (see docs/format.md). */
@@ -50,12 +54,19 @@ final class PipelineTokenizer implements Tokenizer {
   // ------------------------------------------------------------------ state
 
   private volatile String fingerprint;
-  private final ThreadLocal<Scratch> scratch = ThreadLocal.withInitial(Scratch::new);
+  /** Encode contexts, shared by the copies that share the segmenter. */
+  private final WorkspacePool<Context> contexts;
 
   // ------------------------------------------------------------------ life-cycle
 
   PipelineTokenizer(Pipeline pipeline, Segmenter segmenter, ReservedTokens reserved, Template template, Limits limits,
       String fingerprint) {
+    this(pipeline, segmenter, reserved, template, limits, fingerprint, null);
+  }
+
+  private PipelineTokenizer(Pipeline pipeline, Segmenter segmenter, ReservedTokens reserved, Template template,
+      Limits limits, String fingerprint, WorkspacePool<Context> contexts) {
+    this.contexts = contexts != null ? contexts : WorkspacePool.of(() -> new Context(segmenter));
     this.pipeline = Objects.requireNonNull(pipeline, "pipeline");
     this.segmenter = Objects.requireNonNull(segmenter, "segmenter");
     this.reserved = Objects.requireNonNull(reserved, "reservedTokens");
@@ -95,14 +106,29 @@ final class PipelineTokenizer implements Tokenizer {
 
   @Override
   public Tokens encode(CharSequence text, Trust trust) {
+    return encode(text, trust, null);
+  }
+
+  /** Like {@link #encode(CharSequence, Trust)}, each piece segmented by {@code how}. */
+  Tokens encodeWith(CharSequence text, Trust trust, PieceSegmentation how) {
+    return encode(text, trust, Objects.requireNonNull(how, "how"));
+  }
+
+  /** One text, framed; each piece segmented by {@code how}, or by the segmenter when it is null. */
+  private Tokens encode(CharSequence text, Trust trust, PieceSegmentation how) {
     limits.checkText(text, "text");
     Objects.requireNonNull(trust, "trust");
-    Scratch s = scratch();
-    Tokens.Builder b = s.builder;
-    frame(b, beginIds, 0, 0);
-    content(s, text, trust, 0);
-    frame(b, endIds, text.length(), 0);
-    return b.build();
+    Context s = take();
+    s.how = how;
+    try {
+      Tokens.Builder b = s.builder;
+      frame(b, beginIds, 0, 0);
+      content(s, text, trust, 0);
+      frame(b, endIds, text.length(), 0);
+      return b.build();
+    } finally {
+      give(s);
+    }
   }
 
   @Override
@@ -110,13 +136,68 @@ final class PipelineTokenizer implements Tokenizer {
     limits.checkText(first, "first");
     limits.checkText(second, "second");
     Objects.requireNonNull(trust, "trust");
-    Scratch s = scratch();
+    Context s = take();
+    try {
+      Tokens.Builder b = s.builder;
+      frame(b, beginIds, 0, 0);
+      content(s, first, trust, 0);
+      frame(b, separatorIds, first.length(), 0);
+      content(s, second, trust, 1);
+      frame(b, endIds, second.length(), 1);
+      return b.build();
+    } finally {
+      give(s);
+    }
+  }
+
+  @Override
+  public Tokens encodeUtf8(byte[] utf8, int offset, int length, Trust trust, Decoding decoding) {
+    Objects.requireNonNull(utf8, "utf8");
+    Objects.checkFromIndexSize(offset, length, utf8.length);
+    Objects.requireNonNull(trust, "trust");
+    Objects.requireNonNull(decoding, "decoding");
+    Context s = take();
+    try {
+      return utf8(s, utf8, offset, length, trust, decoding);
+    } finally {
+      give(s);
+    }
+  }
+
+  @Override
+  public Tokens encodeUtf8(java.nio.ByteBuffer utf8, Trust trust, Decoding decoding) {
+    Objects.requireNonNull(utf8, "utf8");
+    Objects.requireNonNull(trust, "trust");
+    Objects.requireNonNull(decoding, "decoding");
+    int pos = utf8.position();
+    int n = utf8.remaining();
+    Context s = take();
+    try {
+      if (utf8.hasArray()) {
+        return utf8(s, utf8.array(), utf8.arrayOffset() + pos, n, trust, decoding);
+      }
+      return utf8(s, s.input().copyOf(utf8, pos, n), 0, n, trust, decoding);
+    } finally {
+      give(s);
+    }
+  }
+
+  /** Decodes into the context, encodes, and maps every span to byte offsets (one array read per offset). */
+  private Tokens utf8(Context s, byte[] bytes, int offset, int length, Trust trust, Decoding decoding) {
+    Utf8Input in = s.input();
+    String text = in.decode(bytes, offset, length, decoding);
+    limits.checkText(text, "text");
     Tokens.Builder b = s.builder;
     frame(b, beginIds, 0, 0);
-    content(s, first, trust, 0);
-    frame(b, separatorIds, first.length(), 0);
-    content(s, second, trust, 1);
-    frame(b, endIds, second.length(), 1);
+    content(s, text, trust, 0);
+    frame(b, endIds, text.length(), 0);
+    final int[] at = in.byteAt;
+    final int[] st = b.starts;
+    final int[] en = b.ends;
+    for (int i = 0, n = b.size; i < n; i++) {
+      st[i] = at[st[i]];
+      en[i] = at[en[i]];
+    }
     return b.build();
   }
 
@@ -127,7 +208,7 @@ final class PipelineTokenizer implements Tokenizer {
   }
 
   /** Encodes one text's content into the scratch builder. */
-  private void content(Scratch s, CharSequence text, Trust trust, int segment) {
+  private void content(Context s, CharSequence text, Trust trust, int segment) {
     s.segment = segment;
     int n = text.length();
     if (trust == Trust.TRUSTED && !reserved.isEmpty()) {
@@ -151,15 +232,17 @@ final class PipelineTokenizer implements Tokenizer {
   }
 
   /** Normalizes, splits and segments {@code text[from, to)}, which holds no reserved token. */
-  private void plain(Scratch s, CharSequence text, int from, int to) {
+  private void plain(Context s, CharSequence text, int from, int to) {
     NormalizedText norm = pipeline.normalization().apply(text, from, to);
     s.norm = norm;
+    s.cursor.reset(norm);
     String t = norm.text();
     s.normalized = t;
     if (!t.isEmpty()) {
       pipeline.splitting().split(t, 0, t.length(), s.pieceSink);
     }
     s.norm = null;
+    s.cursor.reset(null);
     s.normalized = null;
   }
 
@@ -213,9 +296,14 @@ final class PipelineTokenizer implements Tokenizer {
     if (size < 1 || step < 1 || step > size) {
       throw new IllegalArgumentException("windows need 0 < step <= size, got size=" + size + ", step=" + step);
     }
-    Scratch s = scratch();
-    content(s, text, Trust.UNTRUSTED, 0);
-    Tokens all = s.builder.build();
+    Tokens all;
+    Context s = take();
+    try {
+      content(s, text, Trust.UNTRUSTED, 0);
+      all = s.builder.build();
+    } finally {
+      give(s);
+    }
     int n = all.size();
     List<Tokens> out = new ArrayList<>();
     for (int start = 0; ; start += step) {
@@ -236,37 +324,20 @@ final class PipelineTokenizer implements Tokenizer {
     return out;
   }
 
-  /** Like {@link #encode(CharSequence, Trust)}, each piece segmented by {@code how}. */
-  Tokens encodeWith(CharSequence text, Trust trust, PieceSegmentation how) {
-    limits.checkText(text, "text");
-    Objects.requireNonNull(trust, "trust");
-    Objects.requireNonNull(how, "how");
-    Scratch s = scratch();
-    s.how = how;
-    try {
-      Tokens.Builder b = s.builder;
-      frame(b, beginIds, 0, 0);
-      content(s, text, trust, 0);
-      frame(b, endIds, text.length(), 0);
-      return b.build();
-    } finally {
-      s.how = null;
-    }
-  }
-
   @Override
   public int count(CharSequence text, Trust trust) {
     limits.checkText(text, "text");
     Objects.requireNonNull(trust, "trust");
-    Scratch s = scratch();
+    Context s = take();
     s.counting = true;
     s.counted = 0;
     try {
       content(s, text, trust, 0);
+      return beginIds.length + s.builder.size + s.counted + endIds.length;
     } finally {
       s.counting = false;
+      give(s);
     }
-    return beginIds.length + s.builder.size + s.counted + endIds.length;
   }
 
   @Override
@@ -278,17 +349,24 @@ final class PipelineTokenizer implements Tokenizer {
       throw new IllegalArgumentException("budget=" + budget + " is smaller than the " + markers
           + " framing markers of one text");
     }
-    Scratch s = scratch();
-    content(s, text, trust, 0);
-    Tokens.Builder b = s.builder;
-    int n = b.size;
-    int k = budget - markers;
-    if (k >= n) {
-      return text.length();
+    int n;
+    int[] starts;
+    int[] ends;
+    Context s = take();
+    try {
+      content(s, text, trust, 0);
+      Tokens.Builder b = s.builder;
+      n = b.size;
+      if (budget - markers >= n) {
+        return text.length();
+      }
+      // copies: the context goes back to the pool before the counts below
+      starts = Arrays.copyOf(b.starts, n);
+      ends = Arrays.copyOf(b.ends, n);
+    } finally {
+      give(s);
     }
-    // copies: the counts below reuse this thread's scratch
-    int[] starts = Arrays.copyOf(b.starts, n);
-    int[] ends = Arrays.copyOf(b.ends, n);
+    int k = budget - markers;
     k = boundaryAtOrBefore(k, starts, ends);
     // A prefix usually encodes to exactly the first k tokens, but a splitting rule that looks past
     // the cut (the last space of a run joins the next word) can segment its last piece differently:
@@ -437,12 +515,12 @@ final class PipelineTokenizer implements Tokenizer {
 
   @Override
   public Tokenizer withTemplate(Template t) {
-    return new PipelineTokenizer(pipeline, segmenter, reserved, t, limits, null);
+    return new PipelineTokenizer(pipeline, segmenter, reserved, t, limits, null, contexts);
   }
 
   @Override
   public Tokenizer withLimits(Limits l) {
-    return new PipelineTokenizer(pipeline, segmenter, reserved, template, l, fingerprint);
+    return new PipelineTokenizer(pipeline, segmenter, reserved, template, l, fingerprint, contexts);
   }
 
   /** The segmenter (for modules that need their own segmenter's extra features). */
@@ -455,7 +533,8 @@ final class PipelineTokenizer implements Tokenizer {
   ModelWriter sections() {
     ModelWriter w = new ModelWriter();
     w.section(KIND).putString(segmenter.kind());
-    w.section(PIPE).putString(pipeline.normalization().spec()).putString(pipeline.splitting().spec());
+    w.section(PIPE).putString(pipeline.normalization().spec()).putString(pipeline.splitting().spec())
+        .putString(Pipeline.unicodeVersion());
     SectionWriter c = w.section(RSRV);
     List<String> spellings = reserved.spellings();
     c.putInt(spellings.size());
@@ -499,6 +578,12 @@ final class PipelineTokenizer implements Tokenizer {
   }
 
   @Override
+  public void writeReview(Appendable out) {
+    Objects.requireNonNull(out, "out");
+    Review.write(this, null, out);
+  }
+
+  @Override
   public String toString() {
     return "Tokenizer[kind=" + kind() + ", vocabulary=" + vocabularySize() + ", " + pipeline + ", reserved tokens="
         + reserved.size() + "]";
@@ -506,10 +591,22 @@ final class PipelineTokenizer implements Tokenizer {
 
   // ------------------------------------------------------------------ internals
 
-  /** Per-thread state for one encode call: the result builder and the callbacks, allocated once. */
-  private final class Scratch {
-    final Tokens.Builder builder = new Tokens.Builder(256);
+  /**
+   * The state of one encode call: the result builder, the segmenter's workspace, the callbacks, made
+   * once and reused through the pool. It holds no reference to a tokenizer or a text between calls,
+   * so copies of a tokenizer can share one pool.
+   */
+  static final class Context {
+    /** A builder grown past this many tokens (1.1 MB of arrays at 17 bytes a token) is replaced. */
+    static final int RETAINED_TOKENS = 1 << 16;
+
+    Tokens.Builder builder = new Tokens.Builder(64);
     final int[] hit = new int[2];
+    final Workspace workspace;
+    final Segmenter segmenter;
+    PipelineTokenizer owner; // set while a call runs
+    private Utf8Input input; // made on the first bytes-in call
+    final NormalizedText.Cursor cursor = new NormalizedText.Cursor();
     NormalizedText norm;
     String normalized;
     int segment;
@@ -517,38 +614,70 @@ final class PipelineTokenizer implements Tokenizer {
     int counted;
     PieceSegmentation how; // encodeWith() only: segments each piece instead of the segmenter
 
-    final TokenSink tokenSink = (id, start, end) -> {
+    final TokenSink tokenSink;
+    final PieceSink pieceSink;
+
+    Context(Segmenter segmenter) {
+      this.segmenter = segmenter;
+      Workspace ws = segmenter.newWorkspace();
+      this.workspace = ws;
+      this.tokenSink = this::token;
+      this.pieceSink = (start, end) -> {
+        PipelineTokenizer t = owner;
+        if (end - start > t.maxPieceLength) {
+          NormalizedText n = norm;
+          t.limits.throwPieceTooLong(end - start, n.spanStart(start), n.spanEnd(end));
+        }
+        PieceSegmentation h = how;
+        if (h == null) {
+          segmenter.segment(normalized, start, end, tokenSink, ws);
+        } else {
+          h.segment(segmenter, normalized, start, end, tokenSink, ws);
+        }
+      };
+    }
+
+    Utf8Input input() {
+      Utf8Input in = input;
+      if (in == null) {
+        in = new Utf8Input();
+        input = in;
+      }
+      return in;
+    }
+
+    private void token(int id, int start, int end) {
       if (counting) {
         counted++;
         return;
       }
-      NormalizedText n = norm;
-      builder.add(id, n.spanStart(start), n.spanEnd(end), segment, 0);
-    };
-
-    final PieceSink pieceSink = (start, end) -> {
-      if (end - start > maxPieceLength) {
-        NormalizedText n = norm;
-        limits.throwPieceTooLong(end - start, n.spanStart(start), n.spanEnd(end));
-      }
-      PieceSegmentation h = how;
-      if (h == null) {
-        segmenter.segment(normalized, start, end, tokenSink);
-      } else {
-        h.segment(segmenter, normalized, start, end, tokenSink);
-      }
-    };
-
+      NormalizedText.Cursor c = cursor;
+      builder.add(id, c.spanStart(start), c.spanEnd(end), segment, 0);
+    }
   }
 
-  /** This thread's scratch, emptied; a scratch grown past 64 Ki tokens (1.1 MB of arrays) is replaced. */
-  private Scratch scratch() {
-    Scratch s = scratch.get();
-    if (s.builder.ids.length > 1 << 16) {
-      s = new Scratch();
-      scratch.set(s);
-    }
+  /** A context from the pool, emptied and bound to this tokenizer. */
+  private Context take() {
+    Context s = contexts.take();
     s.builder.clear();
+    s.owner = this;
     return s;
+  }
+
+  /** Returns {@code s} to the pool, unless it grew for a huge input (then it is left to the collector). */
+  private void give(Context s) {
+    s.owner = null;
+    s.norm = null;
+    s.cursor.reset(null);
+    s.normalized = null;
+    s.counting = false;
+    s.how = null;
+    if (s.input != null && s.input.oversized()) {
+      s.input = null;
+    }
+    if (s.builder.ids.length > Context.RETAINED_TOKENS || (s.workspace != null && !s.workspace.keep())) {
+      return;
+    }
+    contexts.give(s);
   }
 }

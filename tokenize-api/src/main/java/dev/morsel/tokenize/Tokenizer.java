@@ -37,6 +37,45 @@ public interface Tokenizer {
   /** Encodes two texts (segments 0 and 1), framed as {@code begin first separator second end}. */
   Tokens encodePair(CharSequence first, CharSequence second, Trust trust);
 
+  /**
+   * Encodes untrusted UTF-8 text straight from bytes (what a service reads off the wire), with ill-
+   * formed input replaced ({@link Decoding#REPLACE}). Same as {@link #encodeUtf8(byte[], int, int,
+   * Trust, Decoding) encodeUtf8(utf8, 0, utf8.length, UNTRUSTED, REPLACE)}.
+   *
+   * @since 0.2.0
+   */
+  default Tokens encodeUtf8(byte[] utf8) {
+    return encodeUtf8(utf8, 0, utf8.length, Trust.UNTRUSTED, Decoding.REPLACE);
+  }
+
+  /**
+   * Encodes the UTF-8 text {@code utf8[offset, offset + length)}. The ids are those of {@link
+   * #encode(CharSequence, Trust)} on the decoded text; the offsets are <b>UTF-8 byte offsets</b>
+   * relative to {@code offset} (0 is the first byte given), on code point boundaries, so
+   * {@code [start(i), end(i))} slices the input bytes.
+   *
+   * <p>Ill-formed UTF-8 follows {@code decoding}: {@link Decoding#REPLACE} turns each maximal
+   * ill-formed subpart into one U+FFFD (Unicode Standard, section 3.9), whose tokens span exactly the
+   * bad bytes; {@link Decoding#STRICT} throws an {@link IllegalArgumentException} naming the byte
+   * offset (relative to {@code offset}) where the first ill-formed sequence starts. The input is
+   * never changed.
+   *
+   * @throws IndexOutOfBoundsException if the range is outside {@code utf8}
+   * @throws IllegalArgumentException if the decoded text exceeds {@link Limits#maxInputLength()}, or
+   *     for ill-formed input under {@link Decoding#STRICT}
+   * @since 0.2.0
+   */
+  Tokens encodeUtf8(byte[] utf8, int offset, int length, Trust trust, Decoding decoding);
+
+  /**
+   * As {@link #encodeUtf8(byte[], int, int, Trust, Decoding)} over the buffer's remaining bytes
+   * ({@code position()} to {@code limit()}); offsets are relative to {@code position()}. The buffer's
+   * position, limit and contents are left as they were; direct and read-only buffers work too.
+   *
+   * @since 0.2.0
+   */
+  Tokens encodeUtf8(java.nio.ByteBuffer utf8, Trust trust, Decoding decoding);
+
   /** Encodes untrusted texts in parallel on the common pool; results in input order. */
   List<Tokens> encodeAll(List<? extends CharSequence> texts);
 
@@ -177,4 +216,15 @@ public interface Tokenizer {
 
   /** Writes the model file. */
   void save(Path path);
+
+  /**
+   * Writes the model as a review text (UTF-8 when stored; see {@code docs/format.md}, "Review text
+   * format"): pipeline settings, reserved tokens, framing and the segmenter's vocabulary with its
+   * merge ranks or scores, one entry a row. {@link Tokenizers#modelFromReview} turns it back into a
+   * model file with the same {@link #fingerprint()}.
+   *
+   * @throws UnsupportedOperationException if the segmenter has no review text form
+   * @throws java.io.UncheckedIOException if {@code out} fails
+   */
+  void writeReview(Appendable out);
 }

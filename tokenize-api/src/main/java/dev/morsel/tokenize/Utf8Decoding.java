@@ -44,38 +44,10 @@ final class Utf8Decoding {
         i++;
         continue;
       }
-      int need;
-      int lo = 0x80;
-      int hi = 0xBF;
-      int cp;
-      if (b0 >= 0xC2 && b0 <= 0xDF) {
-        need = 1;
-        cp = b0 & 0x1F;
-      } else if (b0 >= 0xE0 && b0 <= 0xEF) {
-        need = 2;
-        cp = b0 & 0x0F;
-        lo = b0 == 0xE0 ? 0xA0 : 0x80;
-        hi = b0 == 0xED ? 0x9F : 0xBF;
-      } else if (b0 >= 0xF0 && b0 <= 0xF4) {
-        need = 3;
-        cp = b0 & 0x07;
-        lo = b0 == 0xF0 ? 0x90 : 0x80;
-        hi = b0 == 0xF4 ? 0x8F : 0xBF;
-      } else {
-        need = 0;
-        cp = -1;
-      }
-      int j = 1;
-      if (need > 0) {
-        for (; j <= need && i + j < size; j++) {
-          int c = bytes[i + j] & 0xFF;
-          if (c < (j == 1 ? lo : 0x80) || c > (j == 1 ? hi : 0xBF)) {
-            break;
-          }
-          cp = (cp << 6) | (c & 0x3F);
-        }
-      }
-      if (need == 0 || j <= need) {
+      long seq = Utf8Input.sequence(bytes, i, size);
+      int cp = (int) seq;
+      int j = (int) (seq >>> 32);
+      if (cp < 0) {
         if (decoding == Decoding.STRICT) {
           throwIllFormed(i, tokenStarts, tokenCount, tokenBase);
         }
@@ -89,7 +61,7 @@ final class Utf8Decoding {
       } else {
         out[o++] = (char) cp;
       }
-      i += need + 1;
+      i += j;
     }
     return new String(out, 0, o);
   }

@@ -4,6 +4,7 @@ import java.io.IOException;
 import java.io.UncheckedIOException;
 import java.nio.ByteBuffer;
 import java.nio.channels.FileChannel;
+import java.nio.file.Files;
 import java.nio.file.Path;
 import java.nio.file.StandardOpenOption;
 import java.util.Map;
@@ -111,20 +112,35 @@ public final class ModelFile {
    * @throws ModelFormatException naming the path and the section if the content is wrong
    */
   public static ModelSections read(Path path) {
+    return read(path, ModelLimits.defaults());
+  }
+
+  /**
+   * As {@link #read(Path)} with explicit limits; a file over {@code maxModelBytes} is refused before it is mapped.
+   *
+   * @throws UncheckedIOException naming the path if the file cannot be opened or mapped
+   * @throws ModelFormatException naming the path and the section if the content is wrong or a limit is exceeded
+   */
+  public static ModelSections read(Path path, ModelLimits limits) {
     Objects.requireNonNull(path, "path");
+    Objects.requireNonNull(limits, "limits");
+    if (Files.isDirectory(path)) {
+      throw new UncheckedIOException("cannot read model file " + path + ": it is a folder, not a file",
+          new IOException(path + " is a directory"));
+    }
     ByteBuffer mapped;
     try (FileChannel ch = FileChannel.open(path, StandardOpenOption.READ)) {
       long size = ch.size();
-      if (size > MAX_MODEL_BYTES) {
-        throw new ModelFormatException("header", path + ": file of " + size
-            + " bytes exceeds the limit maxModelBytes=" + MAX_MODEL_BYTES);
+      if (size > limits.maxModelBytes()) {
+        throw new ModelFormatException("header", path + ": file of " + size + " bytes exceeds "
+            + ModelLimits.setting("maxModelBytes", limits.maxModelBytes()));
       }
       mapped = ch.map(FileChannel.MapMode.READ_ONLY, 0, size);
     } catch (IOException e) {
-      throw new UncheckedIOException("cannot read model file " + path + ": " + e.getMessage(), e);
+      throw new UncheckedIOException("cannot read model file " + path + ": " + reason(e), e);
     }
     try {
-      return read(mapped);
+      return read(mapped, limits);
     } catch (ModelFormatException e) {
       throw new ModelFormatException(e.section(), path + ": " + e.detail(), e);
     }
@@ -150,5 +166,17 @@ public final class ModelFile {
       sorted.put(e.getKey(), ByteBuffer.wrap(e.getValue()));
     }
     return Digests.fingerprint(sorted);
+  }
+
+  /** Why a file cannot be read, in words: the exception's message alone is often just the path. */
+  private static String reason(IOException e) {
+    if (e instanceof java.nio.file.NoSuchFileException) {
+      return "no such file";
+    }
+    if (e instanceof java.nio.file.AccessDeniedException) {
+      return "permission denied";
+    }
+    String m = e.getMessage();
+    return m == null ? e.getClass().getSimpleName() : m;
   }
 }

@@ -62,8 +62,22 @@ final class ModelFileLayout {
   static final int ALIGNMENT = 8;
 
   /**
-   * The magic: a byte with the high bit set (caught if a 7-bit channel strips it), "MORS", CR LF
-   * (caught if line endings are rewritten either way), NUL (caught if the file is handled as a C string).
+   * The magic. It answers one question before anything else is read: are these the bytes of a Morsel
+   * model, untouched by text handling? Models travel as objects fetched by key from a store, as byte
+   * arrays broadcast to Spark executors, and as resources packed into JARs; the failures seen on
+   * those paths are the wrong bytes altogether (an error page saved under the model's key, another
+   * broadcast, a review text) and bytes that some tool treated as text. Byte by byte:
+   * <ul>
+   *   <li>{@code 0x9E}: a UTF-8 continuation byte, which no text file starts with (so neither a
+   *       review text nor an error page looks like a model) and which any decode-and-re-encode as
+   *       UTF-8 turns into U+FFFD's three bytes;
+   *   <li>{@code "MORS"}: names the format in a hex dump;
+   *   <li>CR LF: changes if a checkout or a build step converts line endings of a resource it takes
+   *       for text;
+   *   <li>{@code 0x00}: no guard, it fills the magic to eight bytes so the header fields after it are
+   *       aligned.
+   * </ul>
+   * Damage inside the file is for the CRCs to find, not the magic.
    */
   static final byte[] MAGIC = {(byte) 0x9E, 'M', 'O', 'R', 'S', 0x0D, 0x0A, 0x00};
 
@@ -174,8 +188,8 @@ final class ModelFileLayout {
     ByteBuffer f = file.slice().asReadOnlyBuffer().order(ByteOrder.LITTLE_ENDIAN);
     final int size = f.remaining();
     if (size > limits.maxModelBytes()) {
-      throw new ModelFormatException("header", "file of " + size + " bytes exceeds the limit maxModelBytes="
-          + limits.maxModelBytes());
+      throw new ModelFormatException("header", "file of " + size + " bytes exceeds "
+          + ModelLimits.setting("maxModelBytes", limits.maxModelBytes()));
     }
     if (size < HEADER_LENGTH) {
       throw new ModelFormatException("header", "file of " + size + " bytes is shorter than the " + HEADER_LENGTH
@@ -199,7 +213,7 @@ final class ModelFileLayout {
     long count = Integer.toUnsignedLong(f.getInt(COUNT_OFFSET));
     if (count > limits.maxSections()) {
       throw new ModelFormatException("header", "section count " + count + " at offset " + COUNT_OFFSET
-          + " exceeds the limit maxSections=" + limits.maxSections());
+          + " exceeds " + ModelLimits.setting("maxSections", limits.maxSections()));
     }
     long declared = f.getLong(FILE_LENGTH_OFFSET);
     if (declared != size) {

@@ -1,7 +1,7 @@
 package dev.morsel.tokenize.format;
 
 /**
- * A model file (or a text export, token list or pair list) is malformed. The message names the
+ * A model file (or a review text or token list) is malformed. The message names the
  * section (or line) and the offset where the problem was found; nothing was built from it.
  *
  * @since 0.1.0
@@ -36,8 +36,11 @@ public final class ModelFormatException extends RuntimeException {
     this.detail = message;
   }
 
-  /** A text-format error at {@code source:line} (1-based line). */
-  static ModelFormatException atLine(String source, long line, String message) {
+  /**
+   * A text-format error at {@code source:line} (1-based line); the message is {@code
+   * "<source>:<line>: <message>"} and {@link #section()} is {@code "<source>:<line>"}.
+   */
+  public static ModelFormatException atLine(String source, long line, String message) {
     return new ModelFormatException(source + ":" + line, message, true);
   }
 

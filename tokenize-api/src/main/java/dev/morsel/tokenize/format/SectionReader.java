@@ -90,6 +90,36 @@ public final class SectionReader {
     return n;
   }
 
+  /**
+   * Reads a count (u32) that must not exceed {@code limit} (the {@link ModelLimits} setting
+   * {@code setting}; {@code shape} formats the count, e.g. {@code "vocabulary of %d entries"}) and
+   * for which {@code count * minBytesEach} bytes remain.
+   */
+  int getLimitedCount(String what, String shape, int limit, String setting, int minBytesEach) {
+    int at = buf.position();
+    long n = Integer.toUnsignedLong(getInt(what));
+    if (n > limit) {
+      throw new ModelFormatException(tag, what + ": " + String.format(java.util.Locale.ROOT, shape, n) + " at offset "
+          + at + " exceeds " + ModelLimits.setting(setting, limit));
+    }
+    need(n * minBytesEach, what);
+    return (int) n;
+  }
+
+  /** Reads a length-prefixed UTF-8 string of at most {@code maxBytes} bytes ({@link ModelLimits#maxTokenBytes()}). */
+  String getLimitedString(String what, int maxBytes) {
+    int at = buf.position();
+    long n = Integer.toUnsignedLong(getInt(what));
+    if (n > maxBytes) {
+      throw new ModelFormatException(tag, what + " of " + n + " bytes at offset " + at + " exceeds "
+          + ModelLimits.setting("maxTokenBytes", maxBytes));
+    }
+    need(n, what);
+    byte[] b = new byte[(int) n];
+    buf.get(b);
+    return utf8(b, what, at);
+  }
+
   /** Reads a length-prefixed byte array. */
   public byte[] getBytes(String what) {
     int n = getCount(what, Integer.MAX_VALUE, 1);
@@ -117,6 +147,10 @@ public final class SectionReader {
   public String getString(String what) {
     int at = buf.position();
     byte[] b = getBytes(what);
+    return utf8(b, what, at);
+  }
+
+  private String utf8(byte[] b, String what, int at) {
     try {
       return StandardCharsets.UTF_8.newDecoder().onMalformedInput(CodingErrorAction.REPORT)
           .onUnmappableCharacter(CodingErrorAction.REPORT).decode(ByteBuffer.wrap(b)).toString();

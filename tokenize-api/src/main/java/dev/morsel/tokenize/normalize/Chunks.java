@@ -75,6 +75,24 @@ final class Chunks {
   }
 
   /**
+   * As {@link #find(int)}, starting from chunk {@code hint} (the answer for an earlier, smaller
+   * index): a forward scan when {@code i} has not moved back, so a run of queries in order costs
+   * O(chunks + queries) in all; a binary search otherwise.
+   */
+  int find(int i, int hint) {
+    if (hint < 0 || hint >= size || out[hint] > i) {
+      return find(i);
+    }
+    int k = hint;
+    final int[] o = out;
+    final int last = size - 1;
+    while (k < last && o[k + 1] <= i) {
+      k++;
+    }
+    return k;
+  }
+
+  /**
    * Composes two alignments: {@code a} maps a middle string to the original, {@code b} maps the
    * final string to the middle string ({@code b}'s input coordinates are {@code a}'s output
    * coordinates; {@code b} never has an empty input chunk). The result maps final to original.

@@ -18,6 +18,7 @@ public interface PieceSegmentation {
    * them apart (an n-best list does).
    *
    * @param segmenter the tokenizer's segmenter
+   * @param workspace the segmenter's workspace for this encode call (see {@link Segmenter#newWorkspace()}), or null
    */
-  void segment(Segmenter segmenter, CharSequence text, int start, int end, TokenSink sink);
+  void segment(Segmenter segmenter, CharSequence text, int start, int end, TokenSink sink, Workspace workspace);
 }

@@ -1,11 +1,14 @@
 package dev.morsel.tokenize.spi;
 
 import dev.morsel.tokenize.format.ModelWriter;
+import dev.morsel.tokenize.format.ReviewWriter;
 
 /**
  * Splits one piece of normalized text into vocabulary tokens. Implementations are immutable and
- * thread-safe (per-thread scratch state is their own business) and allocate nothing per token in
- * steady state.
+ * thread-safe and allocate nothing per token in steady state. Mutable working memory lives in a
+ * {@link Workspace} the caller passes in ({@link #segment(CharSequence, int, int, TokenSink,
+ * Workspace)}): the tokenizer draws one from a pool it owns for each encode call, so no state is kept
+ * per thread and nothing outlives the tokenizer.
  *
  * <p>A segmenter owns a vocabulary of {@link #vocabularySize()} ids, {@code 0..size-1}. Reserved
  * tokens reserved by a trainer are part of that vocabulary, but {@link #segment} never produces them
@@ -55,6 +58,29 @@ public interface Segmenter {
   void segment(CharSequence text, int start, int end, TokenSink sink);
 
   /**
+   * A new, empty working memory for {@link #segment(CharSequence, int, int, TokenSink, Workspace)},
+   * or null if this segmenter needs none (the default). It should start small (a few KiB) and grow
+   * on demand: a tokenizer makes one for every encode call that runs while all pooled ones are busy.
+   *
+   * @since 0.2.0
+   */
+  default Workspace newWorkspace() {
+    return null;
+  }
+
+  /**
+   * As {@link #segment(CharSequence, int, int, TokenSink)}, with working memory from {@link
+   * #newWorkspace()} that the caller lends to this one call (one thread at a time). The result is the
+   * same for every workspace, new or reused. The default ignores the workspace.
+   *
+   * @param workspace a workspace of this segmenter, or null (then the segmenter finds its own)
+   * @since 0.2.0
+   */
+  default void segment(CharSequence text, int start, int end, TokenSink sink, Workspace workspace) {
+    segment(text, start, end, sink);
+  }
+
+  /**
    * Writes the UTF-8 bytes that token {@code id} contributes to decoded text (for example without a
    * continuation marker, or the raw byte of a byte token).
    *
@@ -76,4 +102,16 @@ public interface Segmenter {
 
   /** Writes this segmenter's sections of the model file. */
   void write(ModelWriter out);
+
+  /**
+   * Writes this segmenter's sections of a review text (see {@code docs/format.md}, "Review text
+   * format"): everything {@link #write} puts in the model file, one entry a row, so that its
+   * provider's {@link SegmenterProvider#readReview} rebuilds a segmenter that writes the same bytes.
+   * The api writes the header and its own sections around them.
+   *
+   * @throws UnsupportedOperationException by default: the segmenter has no review text form
+   */
+  default void writeReview(ReviewWriter out) {
+    throw new UnsupportedOperationException("segmenters of kind " + kind() + " have no review text form");
+  }
 }

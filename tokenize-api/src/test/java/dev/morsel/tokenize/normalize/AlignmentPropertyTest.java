@@ -81,6 +81,37 @@ class AlignmentPropertyTest {
     }
   }
 
+  /**
+   * The forward cursor gives the answers of {@code spanStart}/{@code spanEnd} (binary search) for
+   * every span, asked in order as a segmenter reports tokens, and again in a random order; one
+   * cursor is reused across all texts of a setting.
+   */
+  @ParameterizedTest
+  @MethodSource("settings")
+  void cursorAgreesWithSpanQueries(Normalization n) {
+    long seed = n.spec().hashCode() * 0xC2B2AE3D27D4EB4FL;
+    SplittableRandom rnd = new SplittableRandom(seed);
+    NormalizedText.Cursor cursor = new NormalizedText.Cursor();
+    for (int k = 0; k < CASES; k++) {
+      String s = TextGen.next(rnd, 40, true, cp -> true);
+      NormalizedText nt = n.apply(s);
+      int len = nt.length();
+      String where = "spec " + n.spec() + ", seed " + seed + ", case " + k + ", input " + AlignmentChecks.escape(s);
+      cursor.reset(nt);
+      for (int a = 0; a < len; ) { // spans in order, random lengths
+        int b = Math.min(len, a + 1 + rnd.nextInt(4));
+        assertEquals(nt.spanStart(a), cursor.spanStart(a), "start " + a + ", " + where);
+        assertEquals(nt.spanEnd(b), cursor.spanEnd(b), "end " + b + ", " + where);
+        a = b;
+      }
+      for (int q = 0; q < 20 && len > 0; q++) { // any order
+        int i = rnd.nextInt(len + 1);
+        assertEquals(nt.spanStart(i), cursor.spanStart(i), "random start " + i + ", " + where);
+        assertEquals(nt.spanEnd(i), cursor.spanEnd(i), "random end " + i + ", " + where);
+      }
+    }
+  }
+
   private static int cpBoundary(String s, int i) {
     return i > 0 && i < s.length() && Character.isLowSurrogate(s.charAt(i)) && Character.isHighSurrogate(s.charAt(i - 1))
         ? i - 1 : i;

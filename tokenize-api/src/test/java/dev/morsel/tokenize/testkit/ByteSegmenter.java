@@ -88,9 +88,9 @@ public final class ByteSegmenter implements Segmenter {
     }
 
     @Override
-    public Segmenter read(ModelSections sections) {
+    public Segmenter read(ModelSections sections, dev.morsel.tokenize.format.ModelLimits limits) {
       SectionReader r = sections.reader("TBYT");
-      int extra = r.getCount("extra ids", 1 << 20, 0);
+      int extra = limits.readVocabularyCount(r, "extra ids", 0);
       r.expectEnd();
       return new ByteSegmenter(extra);
     }

@@ -31,7 +31,7 @@ import org.openjdk.jmh.runner.options.TimeValue;
  *
  * <p>Figures: each JMH benchmark's average time per operation is turned into MB/s with the UTF-8
  * size of the input one operation processes ({@link Figure#bytes}); figures whose name ends in
- * {@code _s} are seconds for one operation. Settings are short enough for 2 cores (one fork, 2
+ * {@code _s} are seconds for one operation, and those ending in {@code _ms} milliseconds. Settings are short enough for 2 cores (one fork, 2
  * warm-up and 3 measured iterations of 1 s each, fixed in the benchmark classes).
  */
 public final class BenchSummary {
@@ -72,9 +72,22 @@ public final class BenchSummary {
     f.add(new Figure("unigram_prose_1m_s", uni + ".prose1m", 0));
     f.add(new Figure("unigram_adversarial_1m_s", uni + ".adversarial1m", 0));
     f.add(new Figure("unigram_adversarial_100k_s", uni + ".adversarial100k", 0));
+    f.add(new Figure("lucene_analyze", LuceneBenchmarks.class.getName() + ".analyze", corpus));
+    String eng = EngineBenchmarks.class.getName();
+    f.add(new Figure("ideal_table", eng + ".idealTable", corpus));
+    f.add(new Figure("bpe_utf8_in", eng + ".bpeBytes", corpus));
+    f.add(new Figure("fresh_threads_bpe", eng + ".freshThreadsBpe", corpus));
+    f.add(new Figure("fresh_threads_wordpiece", eng + ".freshThreadsWordpiece", corpus));
+    f.add(new Figure("fresh_threads_unigram", eng + ".freshThreadsUnigram", corpus));
+    String vt = VirtualThreadBenchmarks.class.getName();
+    for (String scheme : List.of("bpe", "wordpiece", "unigram")) {
+      f.add(new Figure("vthreads_" + scheme, vt + "." + scheme, corpus));
+      f.add(new Figure("vthreads_base_" + scheme, vt + "." + scheme + "Base", corpus));
+    }
     String train = TrainingBenchmarks.class.getName();
     f.add(new Figure("count_pieces_s", train + ".countPieces", 0));
     f.add(new Figure("bpe_train_32k_s", train + ".trainBpe32k", 0));
+    f.add(new Figure("load_reserved_64k_ms", ModelLoadBenchmarks.class.getName() + ".loadReserved64k", 0));
     return f;
   }
 
@@ -97,7 +110,19 @@ public final class BenchSummary {
     r.put("unigram_vs_split", new String[] {"unigram_encode", "split"});
     r.put("unigram_adversarial_scale", new String[] {"unigram_adversarial_1m_s", "unigram_adversarial_100k_s"});
     r.put("unigram_adversarial_vs_prose", new String[] {"unigram_adversarial_1m_s", "unigram_prose_1m_s"});
+    r.put("lucene_vs_bpe", new String[] {"lucene_analyze", "bpe_encode"});
     r.put("bpe_train_vs_count", new String[] {"bpe_train_32k_s", "count_pieces_s"});
+    r.put("bpe_vs_ideal", new String[] {"bpe_encode", "ideal_table"});
+    r.put("wordpiece_vs_ideal", new String[] {"wordpiece_encode", "ideal_table"});
+    r.put("unigram_vs_ideal", new String[] {"unigram_encode", "ideal_table"});
+    r.put("ideal_vs_split", new String[] {"ideal_table", "split"});
+    r.put("bytes_vs_string_bpe", new String[] {"bpe_utf8_in", "bpe_encode"});
+    r.put("fresh_threads_bpe_vs_1thread", new String[] {"fresh_threads_bpe", "batch_1thread"});
+    r.put("fresh_threads_wordpiece_vs_1thread", new String[] {"fresh_threads_wordpiece", "wordpiece_encode"});
+    r.put("fresh_threads_unigram_vs_1thread", new String[] {"fresh_threads_unigram", "unigram_encode"});
+    for (String scheme : List.of("bpe", "wordpiece", "unigram")) {
+      r.put("vthreads_" + scheme + "_vs_2threads", new String[] {"vthreads_" + scheme, "vthreads_base_" + scheme});
+    }
     return r;
   }
 
@@ -113,6 +138,7 @@ public final class BenchSummary {
     }
     Path out = Paths.get("tokenize-bench/target/bench-summary.json");
     String only = ".*";
+    String vthreadsJvm = null;
     for (int i = 0; i < args.length; i++) {
       switch (args[i]) {
         case "--out":
@@ -121,39 +147,66 @@ public final class BenchSummary {
         case "--only":
           only = args[++i];
           break;
+        case "--vthreads-jvm":
+          vthreadsJvm = args[++i];
+          break;
         default:
-          System.err.println("unknown option " + args[i] + "; usage: [--out FILE] [--only REGEX] | --jmh ARGS...");
+          System.err.println("unknown option " + args[i] + "; usage: [--out FILE] [--only REGEX] [--vthreads-jvm JAVA] | --jmh ARGS...");
           System.exit(2);
       }
     }
     long corpusBytes = Corpus.utf8Bytes(Corpus.bodies());
     Map<String, Double> values = new LinkedHashMap<>();
     Map<String, Double> secondsByBenchmark = new LinkedHashMap<>();
-    Models.bpeFile(); // train the benchmark models once, before any fork needs them
-    Models.wordpieceFile();
-    Models.unigramFile();
+    boolean needsModels = false;
+    for (Figure f : figures()) {
+      needsModels |= f.name().matches(only) && !f.benchmark().startsWith(ModelLoadBenchmarks.class.getName());
+    }
+    if (needsModels) { // the load benchmark builds its own model
+      Models.bpeFile(); // train the benchmark models once, before any fork needs them
+      Models.wordpieceFile();
+      Models.unigramFile();
+    }
+    Map<String, String> notes = new LinkedHashMap<>();
     for (Figure f : figures()) {
       if (!f.name().matches(only)) {
         continue;
       }
+      boolean virtual = f.benchmark().startsWith(VirtualThreadBenchmarks.class.getName() + ".");
+      if (virtual && vthreadsJvm == null) {
+        notes.put(f.name(), "skipped: no JDK 21+ found for virtual threads (pass --vthreads-jvm JAVA)");
+        System.out.printf(Locale.ROOT, "%-32s %12s%n", f.name(), "skipped (no JDK 21+)");
+        continue;
+      }
       Double known = secondsByBenchmark.get(f.benchmark());
       if (known != null) {
-        double value = f.bytes() == 0 ? known : f.bytes() / 1e6 / known;
+        double value = value(f, known);
         values.put(f.name(), value);
-        System.out.printf(Locale.ROOT, "%-32s %12.3f %s%n", f.name(), value, f.bytes() == 0 ? "s" : "MB/s");
+        System.out.printf(Locale.ROOT, "%-32s %12.3f %s%n", f.name(), value, unit(f));
         continue;
       }
       ChainedOptionsBuilder o = new OptionsBuilder().include("^" + f.benchmark().replace(".", "\\.") + "$")
           .shouldFailOnError(true);
+      if (virtual) {
+        o = o.jvm(vthreadsJvm);
+        notes.putIfAbsent("vthreads", "virtual-thread figures ran on " + vthreadsJvm);
+      }
       Collection<RunResult> results = new Runner(o.build()).run();
       for (RunResult rr : results) {
         double score = rr.getPrimaryResult().getScore();
         TimeUnit unit = rr.getParams().getTimeUnit();
         double seconds = score * unit.toNanos(1) / 1e9; // seconds per operation
         secondsByBenchmark.put(f.benchmark(), seconds);
-        double value = f.bytes() == 0 ? seconds : f.bytes() / 1e6 / seconds;
+        double value = value(f, seconds);
         values.put(f.name(), value);
-        System.out.printf(Locale.ROOT, "%-32s %12.3f %s%n", f.name(), value, f.bytes() == 0 ? "s" : "MB/s");
+        System.out.printf(Locale.ROOT, "%-32s %12.3f %s%n", f.name(), value, unit(f));
+      }
+    }
+    for (Map.Entry<String, java.util.function.Supplier<Double>> p : probes().entrySet()) {
+      if (p.getKey().matches(only)) {
+        double value = p.getValue().get();
+        values.put(p.getKey(), value);
+        System.out.printf(Locale.ROOT, "%-32s %12.3f %s%n", p.getKey(), value, unit(p.getKey()));
       }
     }
     Map<String, Double> ratioValues = new LinkedHashMap<>();
@@ -164,17 +217,56 @@ public final class BenchSummary {
         ratioValues.put(e.getKey(), a / b);
       }
     }
-    write(out, corpusBytes, values, ratioValues);
+    write(out, corpusBytes, values, ratioValues, notes);
     System.out.println("wrote " + out.toAbsolutePath());
   }
 
-  static void write(Path out, long corpusBytes, Map<String, Double> figures, Map<String, Double> ratios) {
+  /** A figure's value from the seconds one operation takes: MB/s, seconds, or milliseconds for {@code _ms} names. */
+  static double value(Figure f, double seconds) {
+    if (f.bytes() != 0) {
+      return f.bytes() / 1e6 / seconds;
+    }
+    return f.name().endsWith("_ms") ? seconds * 1e3 : seconds;
+  }
+
+  private static String unit(Figure f) {
+    return f.bytes() != 0 ? "MB/s" : unit(f.name());
+  }
+
+  /**
+   * Figures measured in this JVM, not by JMH (they count bytes): first encode on a fresh thread, heap
+   * retained per model reload (see {@link MemoryProbes}).
+   */
+  static Map<String, java.util.function.Supplier<Double>> probes() {
+    Map<String, java.util.function.Supplier<Double>> p = new LinkedHashMap<>();
+    p.put("first_encode_bytes_bpe", () -> MemoryProbes.firstEncodeBytes(Models.with(Models.pipeline(), Models.bpe())));
+    p.put("first_encode_bytes_wordpiece", () -> MemoryProbes.firstEncodeBytes(Models.with(Models.pipeline(), Models.wordpiece())));
+    p.put("first_encode_bytes_unigram", () -> MemoryProbes.firstEncodeBytes(Models.with(Models.pipeline(), Models.unigram())));
+    p.put("reload_retained_kib", () -> MemoryProbes.reloadRetainedKib(Models.bpeFile()));
+    return p;
+  }
+
+  /** The unit of a figure, from its name's suffix. */
+  static String unit(String name) {
+    return name.endsWith("_s") ? "s" : name.endsWith("_ms") ? "ms" : name.startsWith("first_encode_bytes_") ? "bytes"
+        : name.endsWith("_kib") ? "KiB" : "MB/s";
+  }
+
+  static void write(Path out, long corpusBytes, Map<String, Double> figures, Map<String, Double> ratios,
+      Map<String, String> notes) {
     StringBuilder sb = new StringBuilder();
     sb.append("{\n  \"corpus_bytes\": ").append(corpusBytes).append(",\n  \"figures\": {");
     appendMap(sb, figures);
     sb.append("},\n  \"ratios\": {");
     appendMap(sb, ratios);
-    sb.append("}\n}\n");
+    sb.append("},\n  \"notes\": {");
+    boolean first = true;
+    for (Map.Entry<String, String> e : notes.entrySet()) {
+      sb.append(first ? "\n" : ",\n").append("    \"").append(e.getKey()).append("\": \"")
+          .append(e.getValue().replace("\\", "\\\\").replace("\"", "\\\"")).append('"');
+      first = false;
+    }
+    sb.append(first ? "" : "\n  ").append("}\n}\n");
     try {
       Path parent = out.toAbsolutePath().getParent();
       if (parent != null) {

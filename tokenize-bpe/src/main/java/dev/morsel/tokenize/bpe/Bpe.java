@@ -56,7 +56,7 @@ public final class Bpe {
       throw new IllegalArgumentException("p=" + p + " is not a probability in [0, 1]");
     }
     SplittableRandom random = new SplittableRandom(seed);
-    return Tokenizers.encodeWith(tokenizer, text, trust, (seg, t, start, end, sink) -> s.segmentDropout(t, start, end, sink, p, random));
+    return Tokenizers.encodeWith(tokenizer, text, trust, (seg, t, start, end, sink, ws) -> s.segmentDropout(t, start, end, sink, p, random, ws));
   }
 
   /**

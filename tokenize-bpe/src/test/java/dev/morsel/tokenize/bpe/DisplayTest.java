@@ -22,14 +22,14 @@ class DisplayTest {
     BpeSegmenter s = BpeSegmenter.of(List.of("«dock»"), new int[0], new int[0]);
     assertEquals("«dock»", s.token(0));
     assertEquals("A", s.token(1 + 'A'));
-    assertEquals(" ", s.token(1 + ' '));
+    assertEquals("\\s", s.token(1 + ' '));
     assertEquals("\\\\", s.token(1 + '\\'));
-    assertEquals("\\x0a", s.token(1 + '\n'));
-    assertEquals("\\x00", s.token(1));
-    assertEquals("\\x7f", s.token(1 + 0x7F));
+    assertEquals("\\n", s.token(1 + '\n'));
+    assertEquals("\\{U+0000}", s.token(1));
+    assertEquals("\\{U+007F}", s.token(1 + 0x7F));
     // RFC 3629 section 4: bytes 0x80..0xFF alone are never a complete UTF-8 character.
     for (int b = 0x80; b < 0x100; b++) {
-      assertEquals(String.format("\\x%02x", b), s.token(1 + b));
+      assertEquals(String.format("\\{%02X}", b), s.token(1 + b));
     }
     assertThrows(IndexOutOfBoundsException.class, () -> s.token(257));
     assertThrows(IndexOutOfBoundsException.class, () -> s.decodeToken(-1, (b, o, l) -> {}));
@@ -44,15 +44,16 @@ class DisplayTest {
       assertTrue(seen.add(t), "spelling '" + t + "' repeats at id " + id);
       assertEquals(id, s.id(t), t);
     }
-    assertEquals(-1, s.id("\\x41")); // not canonical: 'A' is spelled A
+    assertEquals(-1, s.id("\\{41}")); // not canonical: 'A' is spelled A
     assertEquals(-1, s.id("no such ferry token at all"));
     assertEquals(-1, s.id(null));
   }
 
   /**
-   * Against the JDK's strict UTF-8 decoder (java.nio.charset, REPORT on malformed input): a byte
-   * string that decodes strictly and holds no backslash, C0 control or DEL is displayed as exactly
-   * the decoded text; any other string has an escape in its display.
+   * Against the JDK's strict UTF-8 decoder (java.nio.charset, REPORT on malformed input) and the
+   * JDK's own general categories (java.lang.Character): a byte string that decodes strictly and holds
+   * no backslash, space, control, format, private-use, unassigned or separator character is displayed
+   * as exactly the decoded text; any other string has an escape in its display.
    */
   @Test
   void wellFormedTokensDisplayAsTheirTextAgainstTheJdkDecoder() {
@@ -78,13 +79,24 @@ class DisplayTest {
       BpeSegmenter s = chainOf(b);
       String shown = s.token(b.length == 1 ? b[0] & 0xFF : s.vocabularySize() - 1);
       String strict = strictDecode(b);
-      boolean plain = strict != null && strict.chars().noneMatch(c -> c == '\\' || c < 0x20 || c == 0x7F);
+      boolean plain = strict != null && strict.codePoints().noneMatch(DisplayTest::escaped);
       if (plain) {
         assertEquals(strict, shown, java.util.Arrays.toString(b));
       } else {
         assertTrue(shown.contains("\\"), java.util.Arrays.toString(b) + " shown as " + shown);
       }
       assertArrayEquals(b, s.tokenBytes(s.id(shown)));
+    }
+  }
+
+  private static boolean escaped(int cp) {
+    switch (Character.getType(cp)) {
+      case Character.CONTROL: case Character.FORMAT: case Character.PRIVATE_USE: case Character.UNASSIGNED:
+      case Character.SPACE_SEPARATOR: case Character.LINE_SEPARATOR: case Character.PARAGRAPH_SEPARATOR:
+      case Character.SURROGATE:
+        return true;
+      default:
+        return cp == '\\';
     }
   }
 

@@ -12,6 +12,10 @@ import dev.morsel.tokenize.format.ModelFormatException;
 import dev.morsel.tokenize.format.ModelWriter;
 import dev.morsel.tokenize.spi.Segmenter;
 import dev.morsel.tokenize.spi.SegmenterProvider;
+import dev.morsel.tokenize.Tokenizer;
+import dev.morsel.tokenize.Tokenizers;
+import dev.morsel.tokenize.format.ReviewDocument;
+import java.io.BufferedReader;
 import java.io.StringReader;
 import java.nio.ByteBuffer;
 import java.nio.ByteOrder;
@@ -22,7 +26,7 @@ import java.util.Map;
 import java.util.ServiceLoader;
 import org.junit.jupiter.api.Test;
 
-/** Model sections (BPEC, BPEM), the provider, and the ranked pair list text format. */
+/** Model sections (BPEC, BPEM), the provider, and the BPE sections of the review text. */
 class ModelFormatTest {
   private static final List<String> RESERVED = List.of("«dock»", "«sail»");
 
@@ -84,7 +88,7 @@ class ModelFormatTest {
       }
     }
     assertTrue(found != null, "no provider of kind bpe");
-    assertSameSegmenter(s, found.read(Sections.of(payloads(s))));
+    assertSameSegmenter(s, found.read(Sections.of(payloads(s)), dev.morsel.tokenize.format.ModelLimits.defaults()));
   }
 
   /** A BPEM payload with these (left, right) pairs. */
@@ -157,43 +161,74 @@ class ModelFormatTest {
         "BPEC", "contains");
   }
 
-  @Test
-  void mergeListRoundTripsIncludingSpacesAndPartialCharacters() {
-    BpeSegmenter s = withReserved();
+  /** The review text of a bare segmenter inside a tokenizer with the default pipeline. */
+  private static String review(BpeSegmenter s) {
     StringBuilder sb = new StringBuilder();
-    s.writeMergeList(sb);
-    String text = sb.toString();
-    assertEquals(s.mergeCount(), text.split("\n", -1).length - 1);
-    assertTrue(text.contains("\\x20"), "pieces with leading spaces are in the list");
-    BpeSegmenter back = BpeSegmenter.readMergeList(new StringReader(text), "merges.txt", RESERVED);
-    assertSameSegmenter(s, back);
-    // a merge of two partial-character bytes uses \xHH in both display and line form
-    BpeSegmenter partial = BpeSegmenter.of(List.of(), new int[] {0xC3, 0xE2}, new int[] {0xA9, 0x82});
-    StringBuilder p = new StringBuilder();
-    partial.writeMergeList(p);
-    assertEquals("\\xc3 \\xa9\n\\xe2 \\x82\n", p.toString());
-    assertEquals("é", partial.token(256)); // C3 A9 is U+00E9 (RFC 3629)
-    assertEquals("\\xe2\\x82", partial.token(257)); // truncated 3-byte sequence
+    Tokenizers.of(s).writeReview(sb);
+    return sb.toString();
+  }
+
+  private static byte[] fromReview(String text, String source) {
+    return Tokenizers.modelFromReview(new BufferedReader(new StringReader(text)), source);
   }
 
   @Test
-  void mergeListErrorsNameTheLine() {
-    ModelFormatException unknown = assertThrows(ModelFormatException.class,
-        () -> BpeSegmenter.readMergeList(new StringReader("f e\nfe r\nfer zz\n"), "ferry.txt", List.of()));
-    assertNames(unknown, "ferry.txt line 3", "unknown token 'zz'");
-    ModelFormatException repeated = assertThrows(ModelFormatException.class,
-        () -> BpeSegmenter.readMergeList(new StringReader("f e\nq u\nf e\n"), "ferry.txt", List.of()));
-    assertNames(repeated, "ferry.txt line 3", "repeated pair, first given on line 1");
-    ModelFormatException malformed = assertThrows(ModelFormatException.class,
-        () -> BpeSegmenter.readMergeList(new StringReader("f e\nq  u\n"), "ferry.txt", List.of()));
-    assertNames(malformed, "ferry.txt line 2", "one space");
-    ModelFormatException escape = assertThrows(ModelFormatException.class,
-        () -> BpeSegmenter.readMergeList(new StringReader("\\q e\n"), "ferry.txt", List.of()));
-    assertNames(escape, "ferry.txt line 1", "malformed escape");
-    ModelFormatException twice = assertThrows(ModelFormatException.class,
-        () -> BpeSegmenter.readMergeList(new StringReader("a b\nab c\nb c\na bc\n"), "ferry.txt", List.of()));
-    assertNames(twice, "ferry.txt line 4", "already exists");
-    assertEquals(2, BpeSegmenter.readMergeList(new StringReader("\\\\ n\n\\x0a \\x20\n"), "ok.txt", List.of()).mergeCount());
+  void reviewTextRoundTripsIncludingSpacesAndPartialCharacters() {
+    BpeSegmenter s = withReserved();
+    String text = review(s);
+    assertTrue(text.startsWith("morsel-review\t1\tbpe\n"), text.substring(0, 40));
+    assertTrue(text.contains("\n0\treserved\t«dock»\n"), "reserved rows");
+    assertTrue(text.contains("\tbyte\t\\s\n"), "the space byte is written \\s");
+    Tokenizer back = Tokenizers.load(fromReview(text, "ferry.tsv"));
+    assertEquals(Tokenizers.of(s).fingerprint(), back.fingerprint());
+    assertSameSegmenter(s, BpeSegmenter.readReview(ReviewDocument.read(new BufferedReader(new StringReader(text)),
+        "ferry.tsv")));
+    // a merge of two partial-character bytes: raw bytes in braces, in the review text and the display
+    BpeSegmenter partial = BpeSegmenter.of(List.of(), new int[] {0xC3, 0xE2}, new int[] {0xA9, 0x82});
+    String p = review(partial);
+    assertTrue(p.contains("\n0\t\\{C3}\t\\{A9}\té\n"), p); // C3 A9 is U+00E9 (RFC 3629)
+    assertTrue(p.contains("\n1\t\\{E2}\t\\{82}\t\\{E2}\\{82}\n"), p); // a truncated 3-byte sequence
+    assertEquals("é", partial.token(256));
+    assertEquals("\\{E2}\\{82}", partial.token(257));
+    assertEquals(Tokenizers.of(partial).fingerprint(), Tokenizers.load(fromReview(p, "partial.tsv")).fingerprint());
+  }
+
+  /** The review text of the empty model with these merge rows (rank, left, right, token). */
+  private static String withMerges(String rows) {
+    String head = review(BpeSegmenter.of(List.of(), new int[0], new int[0]));
+    return head + rows;
+  }
+
+  private static void assertAt(String text, String section, String part) {
+    ModelFormatException e = assertThrows(ModelFormatException.class, () -> fromReview(text, "ferry.tsv"));
+    assertEquals(section, e.section(), e.getMessage());
+    assertTrue(e.getMessage().contains(part), "message '" + e.getMessage() + "' lacks '" + part + "'");
+  }
+
+  @Test
+  void reviewErrorsNameTheLineAndColumn() {
+    String head = review(BpeSegmenter.of(List.of(), new int[0], new int[0]));
+    long lines = head.chars().filter(c -> c == '\n').count();
+    String l1 = "ferry.tsv:" + (lines + 1);
+    String l3 = "ferry.tsv:" + (lines + 3);
+    assertAt(withMerges("0\tf\te\tfe\n1\tfe\tr\tfer\n2\tfer\tzz\tferzz\n"), l3, "column 3 (right): no byte token");
+    assertAt(withMerges("0\tf\te\tfe\n1\tq\tu\tqu\n0\tf\te\tfe\n"), l3, "column 1 (rank): rank 0 repeats line");
+    assertAt(withMerges("0\tf\te\tfe\n1\tq u\tqu\n"), "ferry.tsv:" + (lines + 2), "the row has 3 columns");
+    assertAt(withMerges("0\t\\q\te\tqe\n"), l1, "column 2 (left): character 1: unknown escape \\q");
+    assertAt(withMerges("0\ta\tb\tab\n1\tab\tc\tabc\n2\tb\tc\tbc\n3\ta\tbc\tabc\n"), "ferry.tsv:" + (lines + 4),
+        "column 4 (token): token abc is already made by rank 1");
+    assertAt(withMerges("0\tf\te\tef\n"), l1, "column 4 (token): the token must be left and right joined, fe");
+    assertAt(withMerges("1\tf\te\tfe\n"), l1, "column 1 (rank): 1 is outside [0, 0]");
+    assertAt(withMerges("0\tf\te\tfe \n"), l1, "column 4 (token): character 3: character U+0020 must be written");
+    // the old layout (one pair a line, one space) is no review text
+    assertAt("f e\nfe r\n", "ferry.tsv:1", "column 1: not a Morsel review text");
+    // escapes, out-of-order ranks and notes are fine
+    byte[] ok = fromReview(withMerges("¶ merges of the Oskevik quay model\n1\t\\n\t\\s\t\\n\\s\n"
+        + "0\t\\\\\tn\t\\\\n\n"), "ok.tsv");
+    BpeSegmenter two = (BpeSegmenter) Tokenizers.segmenterOf(dev.morsel.tokenize.format.ModelFile.read(ok));
+    assertEquals(2, two.mergeCount());
+    assertEquals("\\\\n", two.token(256));
+    assertEquals("\\n\\s", two.token(257));
   }
 
   @Test

@@ -55,7 +55,8 @@ class TrainerTest {
       merged.add(spell(s, s.mergeLeft(r)) + "+" + spell(s, s.mergeRight(r)));
     }
     assertEquals(List.of("e+s", "es+t", "est+~", "l+o", "lo+w"), merged);
-    assertEquals(List.of("e+s 9", "es+t 9", "est+~ 9", "l+o 7", "lo+w 7"), details);
+    assertEquals(List.of("'es' = 'e' + 's' (9)", "'est' = 'es' + 't' (9)", "'est~' = 'est' + '~' (9)",
+        "'lo' = 'l' + 'o' (7)", "'low' = 'lo' + 'w' (7)"), details);
     assertEquals(List.of(1L, 2L, 3L, 4L, 5L), done);
     // The paper's example segments the unseen "lowest" as low + est (section 3.2 discussion) — from memory.
     Fixtures.Collected c = Fixtures.segment(s, "lowest" + END, 0, 7);
@@ -111,7 +112,7 @@ class TrainerTest {
     BpeSegmenter s = BpeTraining.builder().vocabularySize(259).minPairCount(1).threads(1)
         .listener((st, d, t, detail) -> details.add(detail)).build().segmenter(PieceCounts.of(corpus));
     // (a,a): 3*3 + 1*2 = 11; then aaaa -> [aa,aa] x3, aaa -> [aa,a] x1: (aa,aa)=3, (aa,a)=1
-    assertEquals(List.of("a+a 11", "aa+aa 3", "aa+a 1"), details);
+    assertEquals(List.of("'aa' = 'a' + 'a' (11)", "'aaaa' = 'aa' + 'aa' (3)", "'aaa' = 'aa' + 'a' (1)"), details);
     assertEquals(3, s.mergeCount());
   }
 

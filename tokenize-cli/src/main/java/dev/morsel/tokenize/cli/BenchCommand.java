@@ -23,45 +23,63 @@ import picocli.CommandLine.Model.CommandSpec;
 
 /**
  * {@code morsel bench}: measures encoding with the user's model on the user's text before deployment.
- * Harness: each thread count gets a warm-up of at least {@code --warmup} seconds (JIT compilation,
- * caches), then {@code --rounds} timed passes over the whole corpus; throughput is the median pass,
- * latency percentiles come from every text of every timed pass (System.nanoTime around each encode).
+ * Harness: each thread count is warmed up until the rate is stable ({@link Steady}: three
+ * consecutive passes over the whole corpus within {@code --stable-within}, after at least {@code
+ * --warmup} seconds, giving up after {@code --max-warmup} seconds and saying so), then {@code
+ * --rounds} timed passes; throughput is the median pass, latency percentiles come from every text of
+ * every timed pass (System.nanoTime around each encode). The warm-up used is printed with the results.
  */
-@Command(name = "bench", mixinStandardHelpOptions = true,
+@Command(name = "bench", mixinStandardHelpOptions = true, separator = " ",
     description = "Benchmark encoding with your model on your text for 1..N threads: MB/s, tokens/s, and per-text"
-        + " latency p50/p99/max.",
+        + " latency p50/p99/max, measured after a warm-up that lasts until the rate is stable.",
     footer = {"", "Examples:", "  morsel bench --model ferry.morsel --threads 2 messages.txt",
         "  morsel bench --model ferry.morsel --json messages.txt > bench.json"})
 final class BenchCommand implements Callable<Integer> {
   @Spec
   CommandSpec spec;
 
-  @Option(names = {"-m", "--model"}, required = true, description = "The model file.")
+  @Option(names = {"-m", "--model"}, required = true, paramLabel = "FILE", description = "The model file.")
   Path model;
 
   @Parameters(paramLabel = "CORPUS", arity = "1..*", description = "Files, folders or globs (one text a line).")
   List<String> corpus = new ArrayList<>();
 
-  @Option(names = "--threads", defaultValue = "2", description = "Measure 1 up to this many threads (default: ${DEFAULT-VALUE}).")
+  @Option(names = "--threads", paramLabel = "N", defaultValue = "2", description = "Measure 1 up to this many threads (default: ${DEFAULT-VALUE}).")
   int threads;
 
-  @Option(names = "--warmup", defaultValue = "2", description = "Warm-up seconds per thread count (default: ${DEFAULT-VALUE}).")
+  @Option(names = "--warmup", paramLabel = "SECONDS", defaultValue = "1",
+      description = "Least warm-up per thread count; the warm-up goes on until the rate is stable (default: ${DEFAULT-VALUE}).")
   double warmup;
 
-  @Option(names = "--rounds", defaultValue = "5", description = "Timed passes per thread count (default: ${DEFAULT-VALUE}).")
+  @Option(names = "--stable-within", paramLabel = "PERCENT", defaultValue = "5",
+      description = "Stable: 3 consecutive warm-up passes whose rates differ by at most this (default: ${DEFAULT-VALUE}).")
+  double stableWithin;
+
+  @Option(names = "--max-warmup", paramLabel = "SECONDS", defaultValue = "60",
+      description = "Most warm-up per thread count; past it the results are marked not stable (default: ${DEFAULT-VALUE}).")
+  double maxWarmup;
+
+  @Option(names = "--rounds", paramLabel = "N", defaultValue = "5", description = "Timed passes per thread count (default: ${DEFAULT-VALUE}).")
   int rounds;
+
+  @picocli.CommandLine.Mixin
+  Corpus.BadUtf8 badUtf8;
+
+  private final List<Steady.Warmup> warmups = new ArrayList<>();
 
   @Option(names = "--json", description = "Print the results as one JSON object.")
   boolean json;
 
   @Override
   public Integer call() throws Exception {
-    if (threads < 1 || rounds < 1 || warmup < 0) {
-      throw new Morsel.UsageException("--threads and --rounds must be at least 1 and --warmup not negative");
+    if (threads < 1 || rounds < 1 || warmup < 0 || maxWarmup < warmup || stableWithin <= 0) {
+      throw new Morsel.UsageException("--threads and --rounds must be at least 1, --warmup not negative, --max-warmup at"
+          + " least --warmup, and --stable-within positive");
     }
     Tokenizer t = Tokenizers.load(model);
     List<String> texts = new ArrayList<>();
-    for (List<String> g : SweepCommand.read(Inputs.expand(corpus)).values()) {
+    for (List<String> g : SweepCommand.read(Inputs.expand(corpus), badUtf8.policy(), spec.commandLine().getErr(), "bench")
+        .values()) {
       texts.addAll(g);
     }
     if (texts.isEmpty()) {
@@ -94,6 +112,9 @@ final class BenchCommand implements Callable<Integer> {
           g.writeNumberField("latency_p50_us", r[2]);
           g.writeNumberField("latency_p99_us", r[3]);
           g.writeNumberField("latency_max_us", r[4]);
+          g.writeNumberField("warmup_passes", warmups.get(i).passes());
+          g.writeNumberField("warmup_seconds", warmups.get(i).seconds());
+          g.writeBooleanField("stable", warmups.get(i).stable());
           g.writeEndObject();
         }
         g.writeEndArray();
@@ -101,13 +122,18 @@ final class BenchCommand implements Callable<Integer> {
       }
       o.println(w);
     } else {
-      o.printf(Locale.ROOT, "%s on %,d texts (%,d bytes), warm-up %.1f s, %d timed passes%n", t.kind(), texts.size(), bytes,
-          warmup, rounds);
-      o.printf(Locale.ROOT, "%7s %10s %14s %10s %10s %10s%n", "threads", "MB/s", "tokens/s", "p50 µs", "p99 µs", "max µs");
+      o.printf(Locale.ROOT, "%s on %,d texts (%,d bytes); after the warm-up, %d timed passes per thread count (median)%n",
+          t.kind(), texts.size(), bytes, rounds);
+      o.printf(Locale.ROOT, "%7s %10s %14s %10s %10s %10s  %s%n", "threads", "MB/s", "tokens/s", "p50 µs", "p99 µs", "max µs",
+          "warm-up");
       for (int i = 0; i < results.size(); i++) {
         double[] r = results.get(i);
-        o.printf(Locale.ROOT, "%7d %10.2f %,14.0f %10.1f %10.1f %10.1f%n", i + 1, r[0], r[1], r[2], r[3], r[4]);
+        Steady.Warmup w = warmups.get(i);
+        o.printf(Locale.ROOT, "%7d %10.2f %,14.0f %,10.1f %,10.1f %,10.1f  %d passes, %.1f s%s%n", i + 1, r[0], r[1], r[2],
+            r[3], r[4], w.passes(), w.seconds(), w.stable() ? "" : " (NOT stable)");
       }
+      o.printf(Locale.ROOT, "warm-up: until %d consecutive passes agreed within %s%% (at least %s s, at most %s s)%n",
+          Steady.WINDOW, trim(stableWithin), trim(warmup), trim(maxWarmup));
     }
     o.flush();
     return 0;
@@ -115,10 +141,16 @@ final class BenchCommand implements Callable<Integer> {
 
   /** {MB/s, tokens/s, p50 µs, p99 µs, max µs} for {@code n} threads sharing the texts. */
   private double[] measure(Tokenizer t, List<String> texts, int n, long bytes) throws InterruptedException {
-    long warmEnd = System.nanoTime() + (long) (warmup * 1e9);
-    do {
-      pass(t, texts, n, null);
-    } while (System.nanoTime() < warmEnd);
+    warmups.add(Steady.warmUp(() -> {
+      long t0 = System.nanoTime();
+      try {
+        pass(t, texts, n, null);
+      } catch (InterruptedException e) {
+        Thread.currentThread().interrupt();
+        throw new IllegalStateException("interrupted", e);
+      }
+      return bytes / 1e6 / Math.max(1, System.nanoTime() - t0) * 1e9;
+    }, stableWithin / 100, (long) (warmup * 1e9), (long) (maxWarmup * 1e9)));
     long[] passNanos = new long[rounds];
     long[] latencies = new long[texts.size() * rounds];
     long tokens = 0;
@@ -135,6 +167,10 @@ final class BenchCommand implements Callable<Integer> {
     return new double[] {bytes / 1e6 / median, tokens / median, latencies[latencies.length / 2] / 1e3,
         latencies[(int) Math.min(latencies.length - 1, Math.ceil(latencies.length * 0.99) - 1)] / 1e3,
         latencies[latencies.length - 1] / 1e3};
+  }
+
+  private static String trim(double v) {
+    return v == Math.rint(v) ? Long.toString((long) v) : Double.toString(v);
   }
 
   private static long pass(Tokenizer t, List<String> texts, int n, long[] lat) throws InterruptedException {

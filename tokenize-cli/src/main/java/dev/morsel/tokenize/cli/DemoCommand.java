@@ -25,7 +25,7 @@ import picocli.CommandLine.Model.CommandSpec;
  * fictional ferry operator (English, German, French, Norwegian): train every scheme, encode a few
  * new messages showing each token's span in the original text, run a small sweep and write its report.
  */
-@Command(name = "demo", mixinStandardHelpOptions = true,
+@Command(name = "demo", mixinStandardHelpOptions = true, separator = " ",
     description = "Train every scheme on the bundled demo corpus (invented ferry passenger messages in four languages),"
         + " show tokens with their offsets, run a small vocabulary sweep and write its report.",
     footer = {"", "Example:", "  morsel demo --out /tmp/morsel-demo"})
@@ -39,6 +39,9 @@ final class DemoCommand implements Callable<Integer> {
       "Le MV Selkie Dawn part-il à l'heure pour Brisholm ?",
       "Kan jeg få refusjon for avgangen som ble innstilt? \uD83D\uDEA2");
 
+  /** The demo's encode-speed warm-up gives up after 2 s per cell, so the demo stays quick on a busy machine. */
+  static final long DEMO_MAX_WARMUP_NANOS = 2_000_000_000L;
+
   @Spec
   CommandSpec spec;
 
@@ -46,10 +49,10 @@ final class DemoCommand implements Callable<Integer> {
       description = "Folder for the corpus copy, the models and the report (default: ${DEFAULT-VALUE}).")
   Path out;
 
-  @Option(names = "--vocab-size", defaultValue = "2000", description = "Vocabulary size of the demo models (default: ${DEFAULT-VALUE}).")
+  @Option(names = "--vocab-size", paramLabel = "N", defaultValue = "2000", description = "Vocabulary size of the demo models (default: ${DEFAULT-VALUE}).")
   int vocabularySize;
 
-  @Option(names = "--sizes", split = ",", defaultValue = "400,700,1000,2000", description = "Sweep sizes (default: ${DEFAULT-VALUE}).")
+  @Option(names = "--sizes", paramLabel = "N,...", split = ",", defaultValue = "400,700,1000,2000", description = "Sweep sizes (default: ${DEFAULT-VALUE}).")
   List<Integer> sizes;
 
   @Override
@@ -73,14 +76,16 @@ final class DemoCommand implements Callable<Integer> {
     Pipeline pipeline = Pipeline.defaults();
     int threads = Runtime.getRuntime().availableProcessors();
     PieceCounts counts = PieceCounter.builder().pipeline(pipeline).threads(threads).build().countFiles(files);
-    o.printf(Locale.ROOT, "Counted %,d distinct pieces (%,d in all) with %s%n%n", counts.size(), counts.total(), pipeline);
+    o.printf(Locale.ROOT, "Counted %,d distinct pieces (%,d in all) with normalization %s, splitting %s%n%n", counts.size(),
+        counts.total(), pipeline.normalization().spec(), pipeline.splitting().spec());
     boolean color = System.console() != null && System.getenv("NO_COLOR") == null;
     for (String scheme : Schemes.NAMES) {
       long s0 = System.nanoTime();
       Tokenizer t;
       try (Progress progress = Progress.onTerminal()) {
-        t = Schemes.train(scheme, counts, vocabularySize, List.of(), threads, progress);
+        t = Schemes.plan(scheme, vocabularySize, List.of(), List.of(), threads).train(counts, progress);
       }
+      TrainCommand.shortfall(spec.commandLine().getErr(), "demo", scheme, vocabularySize, t.vocabularySize());
       Path model = out.resolve(scheme + ".morsel");
       t.save(model);
       o.printf(Locale.ROOT, "== %s: %,d ids, trained in %.1f s, fingerprint %s…, saved to %s%n", scheme, t.vocabularySize(),
@@ -104,13 +109,16 @@ final class DemoCommand implements Callable<Integer> {
       o.println();
     }
     o.println("== sweep: " + Schemes.NAMES + " at sizes " + sizes + " (every 10th line held out)");
-    Map<String, List<String>> groups = SweepCommand.read(files);
+    Map<String, List<String>> groups = SweepCommand.read(files, dev.morsel.tokenize.train.Utf8Lines.Malformed.FAIL,
+        spec.commandLine().getErr(), "demo");
     List<Sweep.Row> rows;
     try (Progress progress = Progress.onTerminal()) {
-      rows = Sweep.run(groups, 10, pipeline, Schemes.NAMES, sizes, threads, progress);
+      rows = Sweep.run(groups, 10, pipeline, Schemes.NAMES, sizes, List.of(), threads, progress, spec.commandLine().getErr(),
+          DEMO_MAX_WARMUP_NANOS);
     }
     Path report = out.resolve("report");
-    SweepCommand.write(rows, report, "Morsel demo: vocabulary sweep on ferry passenger messages", o);
+    SweepCommand.write(rows, report, "Morsel demo: vocabulary sweep on ferry passenger messages",
+        Report.Meta.of(files, 10, pipeline, "defaults"), o);
     o.printf(Locale.ROOT, "%nDone in %.1f s. Open %s in a browser.%n", (System.nanoTime() - t0) / 1e9,
         report.resolve("sweep.html").toAbsolutePath());
     return 0;

@@ -42,7 +42,7 @@ final class Inputs {
       } else if (Files.isRegularFile(p)) {
         out.add(p);
       } else {
-        throw new IllegalArgumentException("corpus file " + p + " does not exist or is not readable");
+        throw new IllegalArgumentException("corpus file " + p + ": " + (Files.exists(p) ? "not a regular file" : "no such file"));
       }
     }
     if (out.isEmpty()) {

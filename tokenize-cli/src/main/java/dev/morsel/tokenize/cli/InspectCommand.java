@@ -3,7 +3,6 @@ package dev.morsel.tokenize.cli;
 import dev.morsel.tokenize.Tokenizer;
 import dev.morsel.tokenize.Tokenizers;
 import dev.morsel.tokenize.Tokens;
-import java.io.BufferedReader;
 import java.io.PrintWriter;
 import java.nio.file.Files;
 import java.nio.file.Path;
@@ -18,7 +17,7 @@ import picocli.CommandLine.Spec;
 import picocli.CommandLine.Model.CommandSpec;
 
 /** {@code morsel inspect}: what a model holds, and why a text segments the way it does. */
-@Command(name = "inspect", mixinStandardHelpOptions = true,
+@Command(name = "inspect", mixinStandardHelpOptions = true, separator = " ",
     description = "Summarize a model (kind, vocabulary, fingerprint, normalization, splitting, reserved tokens),"
         + " list its most frequent and longest tokens, and explain how a text is segmented.",
     footer = {"", "Examples:", "  morsel inspect --model ferry.morsel",
@@ -28,10 +27,10 @@ final class InspectCommand implements Callable<Integer> {
   @Spec
   CommandSpec spec;
 
-  @Option(names = {"-m", "--model"}, required = true, description = "The model file.")
+  @Option(names = {"-m", "--model"}, required = true, paramLabel = "FILE", description = "The model file.")
   Path model;
 
-  @Option(names = "--top", defaultValue = "15", description = "How many tokens each list shows (default: ${DEFAULT-VALUE}).")
+  @Option(names = "--top", paramLabel = "N", defaultValue = "15", description = "How many tokens each list shows (default: ${DEFAULT-VALUE}).")
   int top;
 
   @Option(names = "--sample", paramLabel = "FILE", description = "Count token frequencies on this text file (one text a line) for the most-frequent list.")
@@ -39,6 +38,9 @@ final class InspectCommand implements Callable<Integer> {
 
   @Option(names = "--explain", paramLabel = "TEXT", description = "Explain the segmentation of this text.")
   String explain;
+
+  @picocli.CommandLine.Mixin
+  Corpus.BadUtf8 badUtf8;
 
   @Override
   public Integer call() throws Exception {
@@ -61,15 +63,16 @@ final class InspectCommand implements Callable<Integer> {
       if (sample != null) {
         long[] freq = new long[t.vocabularySize()];
         long total = 0;
-        try (BufferedReader r = Lines.open(sample)) {
-          String line;
-          while ((line = r.readLine()) != null) {
-            Tokens x = t.encode(line);
+        dev.morsel.tokenize.train.Utf8Lines.Malformed policy = badUtf8.policy();
+        try (dev.morsel.tokenize.train.Utf8Lines r = Corpus.open(List.of(sample), policy)) {
+          while (r.hasNext()) {
+            Tokens x = t.encode(r.next());
             for (int i = 0; i < x.size(); i++) {
               freq[x.id(i)]++;
             }
             total += x.size();
           }
+          Corpus.summary(spec.commandLine().getErr(), "inspect", r.malformedLines(), policy);
         }
         o.printf(Locale.ROOT, "most frequent tokens on %s (%,d tokens):%n", sample, total);
         List<Integer> ids = ids(t.vocabularySize());

@@ -6,6 +6,7 @@ import dev.morsel.tokenize.Tokens;
 import dev.morsel.tokenize.train.PieceCounter;
 import dev.morsel.tokenize.train.PieceCounts;
 import dev.morsel.tokenize.train.TrainingListener;
+import java.nio.charset.StandardCharsets;
 import java.util.ArrayList;
 import java.util.LinkedHashMap;
 import java.util.List;
@@ -14,12 +15,22 @@ import java.util.Map;
 /**
  * The vocabulary-size sweep: for each scheme and size, train on the training lines and measure the
  * held-out lines, per group (input file) and overall. The split is deterministic: within each group,
- * line {@code i} (0-based) is held out when {@code i % every == every - 1}.
+ * line {@code i} (0-based) is held out when {@code i % every == every - 1}. A cell that cannot be
+ * trained (a size below what the scheme needs on this corpus) is recorded as not feasible with its
+ * reason, and the sweep goes on.
  */
 final class Sweep {
-  /** One measurement row. */
+  /**
+   * One measurement row; {@code note} is empty for a feasible cell, else the reason it is not. Speed
+   * and training time are measured on all held-out text of the cell and are NaN on per-group rows.
+   */
   record Row(String scheme, int requestedSize, int vocabularySize, String group, long texts, long words, long chars,
-      long bytes, long tokens, long unknown, int distinctIds, double trainSeconds, double mbPerSecond) {
+      long bytes, long tokens, long unknown, int distinctIds, double trainSeconds, double mbPerSecond, String warmup,
+      String note) {
+    boolean feasible() {
+      return note.isEmpty();
+    }
+
     double tokensPerWord() {
       return words == 0 ? 0 : (double) tokens / words;
     }
@@ -32,12 +43,17 @@ final class Sweep {
       return tokens == 0 ? 0 : (double) bytes / tokens;
     }
 
-    double unknownRate() {
-      return tokens == 0 ? 0 : (double) unknown / tokens;
+    /** Unknown tokens per 1,000 characters of held-out text: unlike a share of tokens, it does not rise as tokens get longer. */
+    double unknownPer1000Chars() {
+      return chars == 0 ? 0 : 1000.0 * unknown / chars;
     }
 
     double vocabularyUsed() {
       return vocabularySize == 0 ? 0 : (double) distinctIds / vocabularySize;
+    }
+
+    static Row infeasible(String scheme, int size, String group, String reason) {
+      return new Row(scheme, size, 0, group, 0, 0, 0, 0, 0, 0, 0, Double.NaN, Double.NaN, "", reason);
     }
   }
 
@@ -62,9 +78,14 @@ final class Sweep {
     }
   }
 
-  /** Runs the sweep; {@code listener} hears one "sweep" step per trained model. */
+  /**
+   * Runs the sweep; {@code listener} hears one "sweep" step per cell, {@code notes} one line per
+   * cell that is not feasible.
+   *
+   * @param options {@code [SCHEME:]NAME=VALUE} scheme options (see {@link Schemes#plan})
+   */
   static List<Row> run(Map<String, List<String>> groups, int every, Pipeline pipeline, List<String> schemes, List<Integer> sizes,
-      int threads, TrainingListener listener) {
+      List<String> options, int threads, TrainingListener listener, java.io.PrintWriter notes, long maxWarmupNanos) {
     List<String> train = new ArrayList<>();
     Map<String, List<String>> held = new LinkedHashMap<>();
     split(groups, every, train, held);
@@ -80,15 +101,29 @@ final class Sweep {
     for (String scheme : schemes) {
       for (int size : sizes) {
         listener.progress("sweep", step, steps, scheme + " " + size);
+        step++;
         long t0 = System.nanoTime();
-        Tokenizer t = Schemes.train(scheme, counts, size, List.of(), threads, TrainingListener.NONE);
+        Tokenizer t;
+        try {
+          t = Schemes.plan(scheme, size, List.of(), options, threads).train(counts, TrainingListener.NONE);
+        } catch (IllegalArgumentException | Morsel.UsageException e) {
+          String reason = e.getMessage();
+          notes.printf("morsel sweep: %s at %d is not feasible: %s%n", scheme, size, reason);
+          notes.flush();
+          for (String g : held.keySet()) {
+            rows.add(Row.infeasible(scheme, size, g, reason));
+          }
+          rows.add(Row.infeasible(scheme, size, ALL, reason));
+          continue;
+        }
         double trainSeconds = (System.nanoTime() - t0) / 1e9;
-        double mbps = throughput(t, allHeld);
+        double[] speed = new double[1];
+        Steady.Warmup w = throughput(t, allHeld, speed, maxWarmupNanos);
         boolean[] usedAll = new boolean[t.vocabularySize()];
         long[] sums = new long[6];
         for (Map.Entry<String, List<String>> e : held.entrySet()) {
           boolean[] used = new boolean[t.vocabularySize()];
-          Row r = measure(t, scheme, size, e.getKey(), e.getValue(), used, trainSeconds, mbps);
+          Row r = measure(t, scheme, size, e.getKey(), e.getValue(), used);
           rows.add(r);
           for (int i = 0; i < used.length; i++) {
             usedAll[i] |= used[i];
@@ -105,16 +140,14 @@ final class Sweep {
           distinct += b ? 1 : 0;
         }
         rows.add(new Row(scheme, size, t.vocabularySize(), ALL, sums[0], sums[1], sums[2], sums[3], sums[4], sums[5], distinct,
-            trainSeconds, mbps));
-        step++;
+            trainSeconds, speed[0], w.brief(), ""));
       }
     }
     listener.progress("sweep", steps, steps, "done");
     return rows;
   }
 
-  private static Row measure(Tokenizer t, String scheme, int size, String group, List<String> texts, boolean[] used,
-      double trainSeconds, double mbps) {
+  private static Row measure(Tokenizer t, String scheme, int size, String group, List<String> texts, boolean[] used) {
     long words = 0;
     long chars = 0;
     long bytes = 0;
@@ -124,7 +157,7 @@ final class Sweep {
     for (String s : texts) {
       words += words(s);
       chars += s.codePointCount(0, s.length());
-      bytes += s.getBytes(java.nio.charset.StandardCharsets.UTF_8).length;
+      bytes += s.getBytes(StandardCharsets.UTF_8).length;
       Tokens x = t.encode(s);
       tokens += x.size();
       for (int i = 0; i < x.size(); i++) {
@@ -140,7 +173,7 @@ final class Sweep {
       distinct += b ? 1 : 0;
     }
     return new Row(scheme, size, t.vocabularySize(), group, texts.size(), words, chars, bytes, tokens, unknown, distinct,
-        trainSeconds, mbps);
+        Double.NaN, Double.NaN, "", "");
   }
 
   /** Whitespace-separated words. */
@@ -157,24 +190,54 @@ final class Sweep {
     return n;
   }
 
-  /** Encode throughput on one thread in MB/s of UTF-8: one warm-up pass, then the best of three timed passes. */
-  private static double throughput(Tokenizer t, List<String> texts) {
+  /** Least warm-up per cell: 0.5 s (the most is a setting, {@code --max-warmup}). */
+  static final long MIN_WARMUP_NANOS = 500_000_000L;
+  /** A round repeats passes over the held-out text for at least 50 ms, so a pause of the machine is a small part of it. */
+  static final long ROUND_NANOS = 50_000_000L;
+  /** Timed rounds after the warm-up; the median is reported. */
+  static final int TIMED_ROUNDS = 5;
+
+  /**
+   * Encode throughput on one thread in MB/s of UTF-8 into {@code mbps[0]}: warm up until three
+   * consecutive rounds agree within 5 % ({@link Steady}), then the median of five timed rounds.
+   */
+  static Steady.Warmup throughput(Tokenizer t, List<String> texts, double[] mbps, long maxWarmupNanos) {
     long bytes = 0;
     for (String s : texts) {
-      bytes += s.getBytes(java.nio.charset.StandardCharsets.UTF_8).length;
+      bytes += s.getBytes(StandardCharsets.UTF_8).length;
     }
-    long best = Long.MAX_VALUE;
-    for (int pass = 0; pass < 4; pass++) {
-      long t0 = System.nanoTime();
-      long sink = 0;
-      for (String s : texts) {
-        sink += t.encode(s).size();
-      }
-      long dt = System.nanoTime() - t0;
-      if (pass > 0 && sink >= 0) {
-        best = Math.min(best, dt);
-      }
+    long b = bytes;
+    Steady.Warmup w = Steady.warmUp(() -> round(t, texts, b), Steady.DEFAULT_TOLERANCE,
+        Math.min(MIN_WARMUP_NANOS, maxWarmupNanos), maxWarmupNanos);
+    double[] timed = new double[TIMED_ROUNDS];
+    for (int i = 0; i < timed.length; i++) {
+      timed[i] = round(t, texts, b);
     }
-    return best <= 0 ? 0 : bytes / 1e6 / (best / 1e9);
+    java.util.Arrays.sort(timed);
+    mbps[0] = timed[timed.length / 2];
+    return w;
+  }
+
+  /** MB/s of one round: whole passes over the texts until {@link #ROUND_NANOS} have passed. */
+  private static double round(Tokenizer t, List<String> texts, long bytes) {
+    long t0 = System.nanoTime();
+    long passes = 0;
+    long dt;
+    do {
+      pass(t, texts);
+      passes++;
+      dt = System.nanoTime() - t0;
+    } while (dt < ROUND_NANOS);
+    return bytes * passes / 1e6 / (dt / 1e9);
+  }
+
+  private static long sink;
+
+  private static void pass(Tokenizer t, List<String> texts) {
+    long s = 0;
+    for (String x : texts) {
+      s += t.encode(x).size();
+    }
+    sink += s;
   }
 }

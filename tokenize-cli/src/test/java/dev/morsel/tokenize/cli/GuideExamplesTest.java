@@ -18,9 +18,14 @@ import dev.morsel.tokenize.Truncation;
 import dev.morsel.tokenize.Trust;
 import dev.morsel.tokenize.bpe.Bpe;
 import dev.morsel.tokenize.bpe.BpeLearner;
+import dev.morsel.tokenize.format.ModelLimits;
 import dev.morsel.tokenize.normalize.Normalization;
 import dev.morsel.tokenize.train.PieceCounter;
 import dev.morsel.tokenize.train.PieceCounts;
+import dev.morsel.tokenize.train.LearnerSettings;
+import dev.morsel.tokenize.train.Learners;
+import dev.morsel.tokenize.unigram.Segmentation;
+import dev.morsel.tokenize.unigram.Unigram;
 import dev.morsel.tokenize.unigram.UnigramLearner;
 import dev.morsel.tokenize.wordpiece.WordPieceLearner;
 import java.io.IOException;
@@ -119,6 +124,18 @@ class GuideExamplesTest {
       System.out.printf("%-9s %.2f tokens per word%n", e.getKey(), (double) tokens / words);
     }
     // @end region="schemes"
+    // @start region="by-name"
+    Tokenizer wordpiece = Learners.learner("wordpiece", LearnerSettings.of(1000), "max-alphabet=300").train(counts);
+    Tokenizer unigram = candidates.get("unigram");
+    List<Segmentation> best = Unigram.nBest(unigram, "Is the 07:40 from Oskevik late?", 3);   // best first
+    Tokens drawn = Unigram.sample(unigram, "Is the 07:40 from Oskevik late?", 0.2, 7L);    // same seed, same draw
+    // @end region="by-name"
+    assertEquals(Pipeline.defaults(), wordpiece.pipeline(), "the counted pipeline");
+    assertEquals(3, best.size());
+    assertEquals(unigram.encode("Is the 07:40 from Oskevik late?"), best.get(0).tokens(), "the best is encode's result");
+    assertTrue(best.get(0).score() >= best.get(1).score() && best.get(1).score() >= best.get(2).score());
+    assertEquals(drawn, Unigram.sample(unigram, "Is the 07:40 from Oskevik late?", 0.2, 7L));
+    assertEquals(unigram.decode(best.get(0).tokens().ids()), unigram.decode(drawn.ids()));
     for (Tokenizer t : candidates.values()) {
       long tokens = t.encodeAll(held).stream().mapToLong(Tokens::size).sum();
       // a 1000-id vocabulary cannot hold every held-out word whole (the held-out lines carry booking codes
@@ -326,6 +343,20 @@ class GuideExamplesTest {
     assertNotEquals(expected, other.fingerprint(), "a different reserved token must change the fingerprint");
   }
 
+  @Test
+  void loadingWithLimits() {
+    Tokenizer tokenizer = smallBpe(Pipeline.defaults(), List.of("⟦crew⟧"));
+    Path modelFile = dir.resolve("limits.morsel");
+    tokenizer.save(modelFile);
+    // @start region="limits"
+    ModelLimits limits = ModelLimits.defaults().withMaxVocabulary(4_000_000);
+    Tokenizer big = Tokenizers.load(modelFile, limits);
+    // @end region="limits"
+    assertEquals(tokenizer.fingerprint(), big.fingerprint());
+    assertThrows(dev.morsel.tokenize.format.ModelFormatException.class,
+        () -> Tokenizers.load(modelFile, ModelLimits.defaults().withMaxMerges(1)));
+  }
+
   // ------------------------------------------------------------------ the guide holds exactly these blocks
 
   @Test
@@ -338,7 +369,8 @@ class GuideExamplesTest {
     while (m.find()) {
       regions.put(m.group(1), m.group(2).lines().map(String::strip).filter(s -> !s.isEmpty()).toList());
     }
-    assertEquals(List.of("start", "schemes", "nfkc", "reserved", "reserved-safe", "lengths", "batch", "tuning", "file"),
+    assertEquals(List.of("start", "schemes", "by-name", "nfkc", "reserved", "reserved-safe", "lengths", "batch", "tuning", "file",
+        "limits"),
         new ArrayList<>(regions.keySet()));
     List<String> blocks = new ArrayList<>();
     Matcher b = Pattern.compile("```java\\n(.*?)```", Pattern.DOTALL).matcher(guide);

@@ -13,6 +13,8 @@ public final class CorpusException extends IllegalArgumentException {
   private static final long serialVersionUID = 1L;
 
   private final transient Path file;
+  private final String source;
+  private final String problem;
   private final long byteOffset;
   private final long line;
 
@@ -24,15 +26,41 @@ public final class CorpusException extends IllegalArgumentException {
    * @param problem what is wrong, for the message
    */
   public CorpusException(Path file, long byteOffset, long line, String problem) {
-    super(file + ": " + problem + " at byte offset " + byteOffset + " (line " + line + ")");
+    this(String.valueOf(file), file, byteOffset, line, problem);
+  }
+
+  /**
+   * A stream that is not a file (standard input, say), named {@code source} in the message; {@link
+   * #file()} is then null.
+   *
+   * @param source the name of the stream or file, for the message
+   * @param file the file being read, or null for a stream
+   * @param byteOffset offset of the first bad byte from the start of the stream
+   * @param line 1-based number of the line holding it
+   * @param problem what is wrong, for the message
+   */
+  public CorpusException(String source, Path file, long byteOffset, long line, String problem) {
+    super(source + ": " + problem + " at byte offset " + byteOffset + " (line " + line + ")");
+    this.source = source;
+    this.problem = problem;
     this.file = file;
     this.byteOffset = byteOffset;
     this.line = line;
   }
 
-  /** The file being read. */
+  /** The file being read, or null for a stream that is not a file. */
   public Path file() {
     return file;
+  }
+
+  /** The name of the file or stream being read. */
+  public String source() {
+    return source;
+  }
+
+  /** What is wrong, without the place (for example {@code "invalid UTF-8 (malformed sequence of 1 byte(s))"}). */
+  public String problem() {
+    return problem;
   }
 
   /**

@@ -134,4 +134,61 @@ class Utf8LinesTest {
     UncheckedIOException e = assertThrows(UncheckedIOException.class, () -> read(nowhere));
     assertTrue(e.getMessage().contains("nowhere.txt"), e.getMessage());
   }
+
+  @Test
+  void linesBeforeABadByteAreReturnedAndLineNumbersAreExact() throws IOException {
+    // 3,000 lines of 40 bytes span several 64 KiB read buffers; the bad byte sits on line 2,501
+    ByteArrayOutputStream b = new ByteArrayOutputStream();
+    for (int i = 1; i <= 3000; i++) {
+      b.writeBytes(utf8(String.format("line %04d of the Harrowmere timetable ..%n", i)));
+      if (i == 2500) {
+        b.write(0xC3); // a lead byte followed by a newline: malformed
+      }
+    }
+    Path p = write("deep.txt", b.toByteArray());
+    List<Long> numbers = new ArrayList<>();
+    try (Utf8Lines lines = new Utf8Lines(List.of(p))) {
+      CorpusException e = assertThrows(CorpusException.class, () -> {
+        while (lines.hasNext()) {
+          lines.next();
+          numbers.add(lines.line());
+        }
+      });
+      assertEquals(2501, e.line());
+      assertEquals(2500L * 41, e.byteOffset());
+      assertEquals(p.toString(), e.source());
+    }
+    assertEquals(2500, numbers.size(), "every line before the bad one is returned");
+    assertEquals(2500L, numbers.get(numbers.size() - 1));
+  }
+
+  @Test
+  void replaceAndSkipPoliciesCountTheLinesTheyTouch() throws IOException {
+    byte[] content = concat(utf8("Oskevik\n"), utf8("Brisholm "), new byte[] {(byte) 0xFF, (byte) 0xFE}, utf8(" pier\n"),
+        utf8("Tern\n"), new byte[] {(byte) 0x80});
+    List<String> replaced = new ArrayList<>();
+    List<Long> at = new ArrayList<>();
+    try (Utf8Lines l = Utf8Lines.of(new java.io.ByteArrayInputStream(content), "standard input", Utf8Lines.Malformed.REPLACE)) {
+      while (l.hasNext()) {
+        replaced.add(l.next());
+        at.add(l.line());
+      }
+      assertEquals(2, l.malformedLines());
+      assertEquals("standard input", l.source());
+      assertEquals(content.length, l.bytesRead());
+    }
+    assertEquals(List.of("Oskevik", "Brisholm \uFFFD\uFFFD pier", "Tern", "\uFFFD"), replaced);
+    assertEquals(List.of(1L, 2L, 3L, 4L), at);
+    List<String> kept = new ArrayList<>();
+    List<Long> keptAt = new ArrayList<>();
+    try (Utf8Lines l = Utf8Lines.open(List.of(write("skip.txt", content)), Utf8Lines.Malformed.SKIP)) {
+      while (l.hasNext()) {
+        kept.add(l.next());
+        keptAt.add(l.line());
+      }
+      assertEquals(2, l.malformedLines());
+    }
+    assertEquals(List.of("Oskevik", "Tern"), kept);
+    assertEquals(List.of(1L, 3L), keptAt, "line numbers stay those of the file");
+  }
 }

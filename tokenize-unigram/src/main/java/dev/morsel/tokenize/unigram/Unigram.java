@@ -65,7 +65,7 @@ public final class Unigram {
       throw new IllegalArgumentException("k=" + k + " is outside [1, MAX_N_BEST=" + MAX_N_BEST + "]");
     }
     List<List<PiecePath>> pieces = new ArrayList<>();
-    Tokens all = Tokenizers.encodeWith(tokenizer, text, trust, (s, t, start, end, sink) -> {
+    Tokens all = Tokenizers.encodeWith(tokenizer, text, trust, (s, t, start, end, sink, ws) -> {
       List<PiecePath> paths = seg.nBest(t, start, end, k);
       pieces.add(paths);
       for (PiecePath p : paths) {
@@ -116,7 +116,7 @@ public final class Unigram {
       throw new IllegalArgumentException("alpha=" + alpha + " must be a positive finite number");
     }
     SplittableRandom random = new SplittableRandom(seed);
-    return Tokenizers.encodeWith(tokenizer, text, trust, (s, t, start, end, sink) -> seg.sample(t, start, end, alpha, random, sink));
+    return Tokenizers.encodeWith(tokenizer, text, trust, (s, t, start, end, sink, ws) -> seg.sample(t, start, end, alpha, random, sink, ws));
   }
 
   /**

@@ -40,6 +40,19 @@ public final class UnigramLearner implements Learner {
   /** Default spelling of the unknown token. */
   public static final String DEFAULT_UNKNOWN_TOKEN = UnigramSegmenter.DEFAULT_UNKNOWN;
 
+  // seed and pruning defaults, each chosen by the held-out grid in docs/unigram.md
+  // (UnigramSettingsGrid in tokenize-bench; Europarl sample, 8,000 ids)
+  /** Default of {@link Builder#candidateMultiple}: a plain multiple of the pieces wanted. */
+  public static final int DEFAULT_CANDIDATE_MULTIPLE = Training.DEFAULT_CANDIDATE_MULTIPLE;
+  /** Default of {@link Builder#maxTokenCodePoints}, in code points. */
+  public static final int DEFAULT_MAX_TOKEN_CODE_POINTS = Training.DEFAULT_MAX_TOKEN_CODE_POINTS;
+  /** Default of {@link Builder#keepShare}: the fraction of the vocabulary each pruning round keeps. */
+  public static final double DEFAULT_KEEP_SHARE = Training.DEFAULT_KEEP_SHARE;
+  /** Default of {@link Builder#emPasses}: EM passes per pruning round. */
+  public static final int DEFAULT_EM_PASSES = Training.DEFAULT_EM_PASSES;
+  /** Default of {@link Builder#seedTableLimit}, in table entries (about 100 bytes each). */
+  public static final int DEFAULT_SEED_TABLE_LIMIT = Training.DEFAULT_SEED_TABLE_LIMIT;
+
   private final Training training;
 
   private UnigramLearner(Training training) {
@@ -80,15 +93,15 @@ public final class UnigramLearner implements Learner {
   public static final class Builder {
     private int vocabularySize = DEFAULT_VOCABULARY_SIZE;
     private long minCount = 1;
-    private int seedFactor = Training.DEFAULT_SEED_FACTOR;
-    private int maxTokenLength = Training.DEFAULT_MAX_TOKEN_LENGTH;
-    private double shrinkFactor = Training.DEFAULT_SHRINK_FACTOR;
-    private int emIterations = Training.DEFAULT_EM_ITERATIONS;
+    private int candidateMultiple = DEFAULT_CANDIDATE_MULTIPLE;
+    private int maxTokenCodePoints = DEFAULT_MAX_TOKEN_CODE_POINTS;
+    private double keepShare = DEFAULT_KEEP_SHARE;
+    private int emPasses = DEFAULT_EM_PASSES;
     private boolean rawBytes = Training.DEFAULT_RAW_BYTES;
     private List<String> reservedTokens = List.of();
     private String unknownToken = DEFAULT_UNKNOWN_TOKEN;
     private int threads = Math.max(1, Math.min(Training.MAX_THREADS, Runtime.getRuntime().availableProcessors()));
-    private int seedTableLimit = Training.DEFAULT_SEED_TABLE_LIMIT;
+    private int seedTableLimit = DEFAULT_SEED_TABLE_LIMIT;
     private int maxPieceLength = DEFAULT_MAX_PIECE_LENGTH;
     private TrainingListener listener = TrainingListener.NONE;
 
@@ -107,29 +120,46 @@ public final class UnigramLearner implements Learner {
     }
 
     /**
-     * Seed size as a multiple of the number of pieces wanted: the seed keeps this many times as many
-     * multi-character substrings, so pruning has room to choose. Default 8, range 1..1000.
+     * Seed size as a multiple of the pieces wanted: the seed keeps {@code candidateMultiple × (vocabularySize
+     * − reserved ids)} multi-character substrings as candidates (plus every single character), so that
+     * pruning has that many to choose from. Unit: a plain multiple. Default
+     * {@value UnigramLearner#DEFAULT_CANDIDATE_MULTIPLE}, range 1..1000 (chosen by measurement:
+     * docs/unigram.md).
      */
-    public Builder seedFactor(int factor) {
-      this.seedFactor = factor;
+    public Builder candidateMultiple(int multiple) {
+      this.candidateMultiple = multiple;
       return this;
     }
 
-    /** Longest token learned, in code points. Default 16, range 1..64. */
-    public Builder maxTokenLength(int length) {
-      this.maxTokenLength = length;
+    /**
+     * Longest token learned, in code points (a surrogate pair counts once; a token holds at most
+     * twice as many UTF-16 units). Default {@value UnigramLearner#DEFAULT_MAX_TOKEN_CODE_POINTS},
+     * range 1..64 (chosen by measurement: docs/unigram.md).
+     */
+    public Builder maxTokenCodePoints(int codePoints) {
+      this.maxTokenCodePoints = codePoints;
       return this;
     }
 
-    /** Fraction of the vocabulary kept by each pruning round [1]. Default 0.75, range (0, 1). */
-    public Builder shrinkFactor(double factor) {
-      this.shrinkFactor = factor;
+    /**
+     * Share of the current vocabulary that each pruning round keeps (single characters included;
+     * the rest go, lowest loss first), never below the target size [1, section 3.2]. Unit: a
+     * fraction. Default {@value UnigramLearner#DEFAULT_KEEP_SHARE} (chosen by measurement:
+     * docs/unigram.md), range (0, 0.99] (reason for the upper bound: each round runs EM over the
+     * whole corpus, and the number of rounds grows as 1 / (1 − share)).
+     */
+    public Builder keepShare(double share) {
+      this.keepShare = share;
       return this;
     }
 
-    /** EM iterations before each pruning round and at the end. Default 2, range 1..100. */
-    public Builder emIterations(int iterations) {
-      this.emIterations = iterations;
+    /**
+     * EM passes (one E-step and one M-step each) before every pruning round, and as many again after
+     * the last round to set the final scores. Default {@value UnigramLearner#DEFAULT_EM_PASSES}, range
+     * 1..100 (chosen by measurement: docs/unigram.md).
+     */
+    public Builder emPasses(int passes) {
+      this.emPasses = passes;
       return this;
     }
 
@@ -165,7 +195,7 @@ public final class UnigramLearner implements Learner {
 
     /**
      * Entries of the seed substring table before rare ones are dropped (memory about 100 bytes an
-     * entry). Default 1,000,000, range 1,000..100,000,000.
+     * entry). Default {@value UnigramLearner#DEFAULT_SEED_TABLE_LIMIT}, range 1,000..100,000,000.
      */
     public Builder seedTableLimit(int entries) {
       this.seedTableLimit = entries;
@@ -195,7 +225,7 @@ public final class UnigramLearner implements Learner {
      * @throws NullPointerException naming a reserved token (by index) or the unknown token that is null
      */
     public UnigramLearner build() {
-      return new UnigramLearner(new Training(vocabularySize, seedFactor, maxTokenLength, shrinkFactor, emIterations,
+      return new UnigramLearner(new Training(vocabularySize, candidateMultiple, maxTokenCodePoints, keepShare, emPasses,
           rawBytes, reservedTokens, unknownToken, threads, seedTableLimit, maxPieceLength, minCount, listener));
     }
   }

@@ -55,7 +55,7 @@ class ModelSectionsTest {
       UnigramSegmenter m = model(bytes);
       ModelWriter w = new ModelWriter();
       m.write(w);
-      Segmenter back = provider().read(Sections.of(w));
+      Segmenter back = provider().read(Sections.of(w), dev.morsel.tokenize.format.ModelLimits.defaults());
       assertEquals(m.vocabularySize(), back.vocabularySize());
       assertEquals(UnigramSegmenter.KIND, back.kind());
       assertEquals(m.unknownId(), back.unknownId());
@@ -91,7 +91,7 @@ class ModelSectionsTest {
 
   private static void rejected(Map<String, byte[]> payloads, String section, String... words) {
     ModelFormatException e = assertThrows(ModelFormatException.class,
-        () -> provider().read(Sections.of(payloads)));
+        () -> provider().read(Sections.of(payloads), dev.morsel.tokenize.format.ModelLimits.defaults()));
     assertEquals(section, e.section(), e.getMessage());
     for (String w : words) {
       assertTrue(e.getMessage().contains(w), e.getMessage() + " lacks '" + w + "'");

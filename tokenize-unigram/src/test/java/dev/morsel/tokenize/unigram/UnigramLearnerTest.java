@@ -10,7 +10,12 @@ import dev.morsel.tokenize.train.PieceCounts;
 import java.util.ArrayList;
 import java.util.List;
 import java.util.SplittableRandom;
+import java.util.function.Consumer;
+import java.util.stream.Stream;
 import org.junit.jupiter.api.Test;
+import org.junit.jupiter.params.ParameterizedTest;
+import org.junit.jupiter.params.provider.Arguments;
+import org.junit.jupiter.params.provider.MethodSource;
 
 /** Trainer settings, determinism and bad input, on invented passenger messages to a ferry operator. */
 class UnigramLearnerTest {
@@ -37,7 +42,7 @@ class UnigramLearnerTest {
   }
 
   private static UnigramLearner.Builder small() {
-    return UnigramLearner.builder().vocabularySize(120).seedFactor(4).maxTokenLength(10).rawBytes(false);
+    return UnigramLearner.builder().vocabularySize(120).candidateMultiple(4).maxTokenCodePoints(10).rawBytes(false);
   }
 
   @Test
@@ -95,14 +100,64 @@ class UnigramLearnerTest {
     e = assertThrows(IllegalArgumentException.class,
         () -> UnigramLearner.builder().vocabularySize(262).build().train(corpus(1, 50)));
     assertTrue(e.getMessage().contains("256 byte tokens") && e.getMessage().contains("alphabet"), e.getMessage());
-    assertThrows(IllegalArgumentException.class, () -> UnigramLearner.builder().shrinkFactor(1.0).build());
-    assertThrows(IllegalArgumentException.class, () -> UnigramLearner.builder().shrinkFactor(0).build());
     assertThrows(IllegalArgumentException.class, () -> UnigramLearner.builder().vocabularySize(0).build());
-    assertThrows(IllegalArgumentException.class, () -> UnigramLearner.builder().maxTokenLength(0).build());
-    assertThrows(IllegalArgumentException.class, () -> UnigramLearner.builder().emIterations(0).build());
     assertThrows(IllegalArgumentException.class, () -> UnigramLearner.builder().threads(0).build());
     assertThrows(IllegalArgumentException.class, () -> UnigramLearner.builder().reservedTokens(List.of("a", "a")).build());
     assertThrows(IllegalArgumentException.class, () -> UnigramLearner.builder().unknownToken("").build());
+  }
+
+  /** Each seed and pruning setting, a value just outside its documented range, and the message's setting name. */
+  static Stream<Arguments> outOfRange() {
+    return Stream.of(
+        Arguments.of("candidateMultiple", "0", (Consumer<UnigramLearner.Builder>) b -> b.candidateMultiple(0)),
+        Arguments.of("candidateMultiple", "1001", (Consumer<UnigramLearner.Builder>) b -> b.candidateMultiple(1001)),
+        Arguments.of("keepShare", "0.0", (Consumer<UnigramLearner.Builder>) b -> b.keepShare(0)),
+        Arguments.of("keepShare", "1.0", (Consumer<UnigramLearner.Builder>) b -> b.keepShare(1)),
+        Arguments.of("keepShare", "0.995", (Consumer<UnigramLearner.Builder>) b -> b.keepShare(0.995)),
+        Arguments.of("keepShare", "NaN", (Consumer<UnigramLearner.Builder>) b -> b.keepShare(Double.NaN)),
+        Arguments.of("keepShare", "-0.5", (Consumer<UnigramLearner.Builder>) b -> b.keepShare(-0.5)),
+        Arguments.of("emPasses", "0", (Consumer<UnigramLearner.Builder>) b -> b.emPasses(0)),
+        Arguments.of("emPasses", "101", (Consumer<UnigramLearner.Builder>) b -> b.emPasses(101)),
+        Arguments.of("maxTokenCodePoints", "0", (Consumer<UnigramLearner.Builder>) b -> b.maxTokenCodePoints(0)),
+        Arguments.of("maxTokenCodePoints", "65", (Consumer<UnigramLearner.Builder>) b -> b.maxTokenCodePoints(65)),
+        Arguments.of("seedTableLimit", "999", (Consumer<UnigramLearner.Builder>) b -> b.seedTableLimit(999)));
+  }
+
+  @ParameterizedTest(name = "{0}={1}")
+  @MethodSource("outOfRange")
+  void outOfRangeSettingIsRejectedByName(String setting, String value, Consumer<UnigramLearner.Builder> set) {
+    UnigramLearner.Builder b = UnigramLearner.builder();
+    set.accept(b); // the setter takes any value; build() checks every setting
+    IllegalArgumentException e = assertThrows(IllegalArgumentException.class, b::build);
+    assertTrue(e.getMessage().startsWith(setting + "=" + value + " is outside "), e.getMessage());
+    // a value back in range, and the learner learns
+    assertEquals(120, small().build().train(corpus(2, 100)).vocabularySize());
+  }
+
+  @Test
+  void boundaryValuesOfEachSettingAreAccepted() {
+    PieceCounts c = corpus(4, 150);
+    for (UnigramLearner.Builder b : List.of(small().candidateMultiple(1), small().candidateMultiple(1000),
+        small().keepShare(Double.MIN_VALUE), small().keepShare(0.99), small().emPasses(1), small().emPasses(100),
+        small().maxTokenCodePoints(64))) {
+      assertEquals(120, b.build().train(c).vocabularySize());
+    }
+  }
+
+  @Test
+  void maxTokenCodePointsBoundsEveryLearnedPiece() {
+    PieceCounts c = corpus(4, 150);
+    for (int limit : new int[] {1, 2, 5}) {
+      UnigramSegmenter m = UnigramSegmenter.of(small().vocabularySize(300).maxTokenCodePoints(limit).build().train(c));
+      int longest = 0;
+      for (int id = m.firstPieceId(); id < m.vocabularySize(); id++) {
+        longest = Math.max(longest, m.token(id).codePointCount(0, m.token(id).length()));
+      }
+      assertEquals(limit, longest, "longest piece with maxTokenCodePoints=" + limit);
+    }
+    // with single characters only, the model is the alphabet: fewer ids than asked for
+    UnigramSegmenter singles = UnigramSegmenter.of(small().maxTokenCodePoints(1).build().train(c));
+    assertTrue(singles.vocabularySize() < 120, "size " + singles.vocabularySize());
   }
 
   @Test

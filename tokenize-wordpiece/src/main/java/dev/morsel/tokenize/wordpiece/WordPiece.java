@@ -43,21 +43,23 @@ public final class WordPiece {
   }
 
   /**
-   * The longest piece, in UTF-16 units, that {@code tokenizer} segments; longer pieces become the
-   * unknown token.
+   * The longest piece, in UTF-16 units, that {@code tokenizer} segments (the limit derived from the
+   * vocabulary unless one was set); longer pieces become the unknown token.
    *
    * @throws IllegalArgumentException if {@code tokenizer} is not of kind {@value #KIND}
    */
   public static int maxPieceLength(Tokenizer tokenizer) {
-    return segmenter(tokenizer, "maxPieceLength").settings().maxPieceLength();
+    return segmenter(tokenizer, "maxPieceLength").pieceLimit();
   }
 
   /**
    * {@code tokenizer} with another piece limit: same vocabulary, pipeline, reserved tokens, framing
    * and limits; a model of its own, so its fingerprint differs.
    *
+   * @param maxPieceLength in UTF-16 units, or {@link WordPieceLearner#DERIVED_PIECE_LENGTH} for the
+   *     limit derived from the vocabulary
    * @throws IllegalArgumentException if {@code tokenizer} is not of kind {@value #KIND}, or
-   *     {@code maxPieceLength} is outside {@code [1, }{@value WordPieceLearner#MAX_MAX_PIECE_LENGTH}{@code ]}
+   *     {@code maxPieceLength} is outside {@code [0, }{@value WordPieceLearner#MAX_MAX_PIECE_LENGTH}{@code ]}
    */
   public static Tokenizer withMaxPieceLength(Tokenizer tokenizer, int maxPieceLength) {
     WordPieceSegmenter s = segmenter(tokenizer, "withMaxPieceLength");

@@ -48,8 +48,12 @@ public final class WordPieceLearner implements Learner {
   public static final String DEFAULT_MARKER = WordPieceSettings.DEFAULT_MARKER;
   /** Default unknown token spelling: U+2370 (a question mark in a box). */
   public static final String DEFAULT_UNKNOWN_TOKEN = WordPieceSettings.DEFAULT_UNKNOWN;
-  /** Default {@code maxPieceLength}, in UTF-16 units: longer pieces become the unknown token. */
-  public static final int DEFAULT_MAX_PIECE_LENGTH = WordPieceSettings.DEFAULT_MAX_PIECE_LENGTH;
+  /**
+   * The {@code maxPieceLength} that asks for a limit derived from the vocabulary, and the default:
+   * the node count of the vocabulary's LinMaxMatch trie, so per-thread scratch scales with the model
+   * and never with the input, and every token can still be matched (docs/wordpiece.md).
+   */
+  public static final int DERIVED_PIECE_LENGTH = WordPieceSettings.DERIVED_PIECE_LENGTH;
   /** Largest {@code maxPieceLength}, in UTF-16 units (bounds per-thread scratch arrays). */
   public static final int MAX_MAX_PIECE_LENGTH = WordPieceSettings.MAX_MAX_PIECE_LENGTH;
 
@@ -114,7 +118,7 @@ public final class WordPieceLearner implements Learner {
     private List<String> reservedTokens = List.of();
     private String marker = DEFAULT_MARKER;
     private String unknownToken = DEFAULT_UNKNOWN_TOKEN;
-    private int maxPieceLength = DEFAULT_MAX_PIECE_LENGTH;
+    private int maxPieceLength = DERIVED_PIECE_LENGTH;
     private Score score = Score.LIKELIHOOD_GAIN;
     private long minPairCount = DEFAULT_MIN_PAIR_COUNT;
     private TrainingListener listener = TrainingListener.NONE;
@@ -160,7 +164,11 @@ public final class WordPieceLearner implements Learner {
       return this;
     }
 
-    /** Longest piece, in UTF-16 units, that is segmented; longer pieces become the unknown token. */
+    /**
+     * Longest piece, in UTF-16 units, that is segmented; longer pieces become the unknown token. In
+     * {@code [0, MAX_MAX_PIECE_LENGTH]}; {@link #DERIVED_PIECE_LENGTH} (the default) derives it from
+     * the vocabulary.
+     */
     public Builder maxPieceLength(int maxPieceLength) {
       this.maxPieceLength = maxPieceLength;
       return this;

@@ -60,9 +60,14 @@ class AdversarialInputTest {
     IllegalArgumentException e = assertThrows(IllegalArgumentException.class,
         () -> WordPieceSegmenter.of(List.of(WordPieceSettings.DEFAULT_UNKNOWN, "a", M + "a", longToken), 0, st));
     assertTrue(e.getMessage().contains("maxPieceLength"), e.getMessage());
-    // with the default piece limit the long token can never match and is left out of the trie
+    // the derived default keeps every token in the trie, so it refuses the forged vocabulary too
+    IllegalArgumentException d = assertThrows(IllegalArgumentException.class,
+        () -> WordPieceSegmenter.of(List.of(WordPieceSettings.DEFAULT_UNKNOWN, "a", M + "a", longToken), 0,
+            WordPieceSettings.defaults()));
+    assertTrue(d.getMessage().contains("maxPieceLength"), d.getMessage());
+    // with a lower explicit piece limit the long token can never match and is left out of the trie
     WordPieceSegmenter s = WordPieceSegmenter.of(List.of(WordPieceSettings.DEFAULT_UNKNOWN, "a", M + "a", longToken), 0,
-        WordPieceSettings.defaults());
+        WordPieceSettings.defaults().withMaxPieceLength(100));
     assertEquals(3, s.id(longToken));
     assertArrayEquals(new int[] {1, 2, 2}, TestSupport.segmentOne(s, "aaa", 0, 3).ids.toIntArray());
   }

@@ -4,6 +4,7 @@ import static org.junit.jupiter.api.Assertions.assertArrayEquals;
 import static org.junit.jupiter.api.Assertions.assertEquals;
 import static org.junit.jupiter.api.Assertions.assertTrue;
 
+import dev.morsel.tokenize.wordpiece.internal.WordPieceSettings;
 import dev.morsel.tokenize.wordpiece.internal.WordPieceSegmenter;
 import dev.morsel.tokenize.wordpiece.internal.WordPieceTraining;
 import dev.morsel.tokenize.testkit.OffsetInvariants;
@@ -84,7 +85,7 @@ class EuroparlTest {
   @Test
   void naiveGreedyAgreesOnASampleOfBodies() {
     TestSupport.NaiveGreedy naive = new TestSupport.NaiveGreedy(model.tokens(), model.reservedCount(),
-        model.settings().marker(), model.settings().maxPieceLength());
+        model.settings().marker(), model.pieceLimit());
     for (int b = 0; b < bodies.size(); b += 59) {
       String text = bodies.get(b);
       int[] bounds = TestSupport.pieceBounds(text);
@@ -95,5 +96,35 @@ class EuroparlTest {
             "body " + b + " piece '" + piece + "'");
       }
     }
+  }
+
+  /**
+   * The derived piece limit of this 3,000-token model (the node count of its trie: 4,444 units when
+   * measured, see docs/wordpiece.md) lies between the longest token and the total length of all
+   * token texts, and far above the longest piece of the whole Europarl sample (64 units when
+   * measured, a URL), so no piece of the sample becomes the unknown token for its length.
+   */
+  @Test
+  void derivedPieceLimitIsAboveEveryEuroparlPiece() {
+    int longestPiece = 0;
+    for (String text : bodies) {
+      int[] bounds = TestSupport.pieceBounds(text);
+      for (int k = 0; k + 1 < bounds.length; k++) {
+        longestPiece = Math.max(longestPiece, bounds[k + 1] - bounds[k]);
+      }
+    }
+    int longestToken = 0;
+    for (String t : model.tokens()) {
+      longestToken = Math.max(longestToken, t.length());
+    }
+    int total = 2;
+    for (int id = model.reservedCount() + 1; id < model.vocabularySize(); id++) {
+      String t = model.tokens().get(id);
+      total += model.isContinuation(id) ? t.length() - model.settings().marker().length() : t.length();
+    }
+    assertEquals(WordPieceSettings.DERIVED_PIECE_LENGTH, model.settings().maxPieceLength());
+    assertTrue(model.pieceLimit() >= longestToken && model.pieceLimit() <= total,
+        model.pieceLimit() + " outside [" + longestToken + ", " + total + "]");
+    assertTrue(longestPiece * 10 < model.pieceLimit(), "longest piece " + longestPiece + ", limit " + model.pieceLimit());
   }
 }

@@ -60,7 +60,7 @@ class ModelSectionsRoundTripTest {
       }
     }
     assertTrue(found != null, "no provider of kind wordpiece on the class path");
-    Segmenter back = found.read(Sections.of(save(sample())));
+    Segmenter back = found.read(Sections.of(save(sample())), dev.morsel.tokenize.format.ModelLimits.defaults());
     assertEquals(sample().vocabularySize(), back.vocabularySize());
     assertEquals("wordpiece", back.kind());
   }
@@ -83,7 +83,7 @@ class ModelSectionsRoundTripTest {
     assertEquals(st, corrupt(st, w -> settings(w, 9, M, UNK, 40, 1)).section());
     assertEquals(st, corrupt(st, w -> settings(w, 1, "", UNK, 40, 1)).section());
     assertEquals(st, corrupt(st, w -> settings(w, 1, "a b", UNK, 40, 1)).section());
-    assertEquals(st, corrupt(st, w -> settings(w, 1, M, UNK, 0, 1)).section());
+    assertEquals(st, corrupt(st, w -> settings(w, 1, M, UNK, -1, 1)).section());
     assertEquals(st, corrupt(st, w -> settings(w, 1, M, UNK, 40, 9)).section());
     assertEquals(st, corrupt(st, w -> settings(w, 1, M, UNK, 40, -1)).section());
     ModelFormatException trailing = corrupt(st, w -> {

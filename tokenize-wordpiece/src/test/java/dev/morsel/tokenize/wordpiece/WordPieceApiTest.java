@@ -54,7 +54,7 @@ class WordPieceApiTest {
     refused("minCount=0", () -> WordPieceLearner.builder().minCount(0));
     refused("maxAlphabet=0", () -> WordPieceLearner.builder().maxAlphabet(0));
     refused("minPairCount=0", () -> WordPieceLearner.builder().minPairCount(0));
-    refused("maxPieceLength=0", () -> WordPieceLearner.builder().maxPieceLength(0));
+    refused("maxPieceLength=-1", () -> WordPieceLearner.builder().maxPieceLength(-1));
     refused("marker", () -> WordPieceLearner.builder().marker(""));
     refused("whitespace", () -> WordPieceLearner.builder().marker("+ "));
     refused("unknownToken", () -> WordPieceLearner.builder().unknownToken(""));
@@ -88,22 +88,28 @@ class WordPieceApiTest {
     assertTrue(continuations > 100, "continuations: " + continuations);
   }
 
-  /** A longer piece limit turns a long run from the unknown token into real tokens, as a model of its own. */
+  /** Another piece limit is another model: a long run turns from the unknown token into real tokens. */
   @Test
   void anotherPieceLimitIsAnotherModel() {
     String run = "harbour".repeat(40); // 280 units, one piece
-    Tokens unknown = learned.encode(run);
+    assertTrue(WordPiece.maxPieceLength(learned) >= run.length(), "the derived limit: " + WordPiece.maxPieceLength(learned));
+    Tokenizer tight = WordPiece.withMaxPieceLength(learned, 100);
+    assertEquals(100, WordPiece.maxPieceLength(tight));
+    Tokens unknown = tight.encode(run);
     assertEquals(1, unknown.size());
-    assertEquals(learned.unknownId(), unknown.id(0));
-    Tokenizer wide = WordPiece.withMaxPieceLength(learned, 1000);
+    assertEquals(tight.unknownId(), unknown.id(0));
+    Tokenizer wide = WordPiece.withMaxPieceLength(tight, 1000);
     assertEquals(1000, WordPiece.maxPieceLength(wide));
     Tokens segmented = wide.encode(run);
     assertTrue(segmented.size() > 1, segmented.toString());
     assertFalse(Arrays.stream(segmented.ids()).anyMatch(id -> id == learned.unknownId()));
     assertEquals(run, wide.decode(segmented.ids()));
-    assertNotEquals(learned.fingerprint(), wide.fingerprint());
+    assertArrayEquals(learned.encode(run).ids(), segmented.ids(), "every limit at or above the piece segments it alike");
+    assertNotEquals(tight.fingerprint(), wide.fingerprint());
     assertEquals(learned.pipeline(), wide.pipeline());
-    assertEquals(WordPiece.maxPieceLength(wide), WordPiece.maxPieceLength(Tokenizers.load(wide.toBytes())));
+    assertEquals(100, WordPiece.maxPieceLength(Tokenizers.load(tight.toBytes())));
+    Tokenizer derived = WordPiece.withMaxPieceLength(tight, WordPieceLearner.DERIVED_PIECE_LENGTH);
+    assertEquals(learned.fingerprint(), derived.fingerprint(), "back to the derived limit: the learned model again");
   }
 
   @Test

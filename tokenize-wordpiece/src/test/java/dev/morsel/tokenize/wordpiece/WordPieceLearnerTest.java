@@ -59,13 +59,16 @@ class WordPieceLearnerTest {
     //   (∘e,∘r) 7 ln(7*38/(10*10)) = 7 ln 2.66 = 6.848   (∘r,∘ry) 5 ln(5*38/(10*5)) = 5 ln 3.8 = 6.675
     //   (f,∘a) 3 ln(3*38/24) = 4.674   (f,∘e) 5 ln(5*38/80) = 4.325   (∘a,∘r) 3 ln(3*38/30) = 4.005
     // 3rd: (∘e,∘r) -> "∘er" (6.848).
-    WordPieceSegmenter s = WordPieceTraining.builder().vocabularySize(1 + 7 + 3).build().segmenter(ferryCorpus());
+    // Both forms of each of the 7 characters are units (14); the forms that never occur have count
+    // 0, take part in no pair and leave N alone, so the merges are those worked above.
+    WordPieceSegmenter s = WordPieceTraining.builder().vocabularySize(1 + 14 + 3).build().segmenter(ferryCorpus());
     List<String> t = s.tokens();
-    assertEquals(11, t.size());
+    assertEquals(18, t.size());
     assertEquals(UNK, t.get(0));
-    // alphabet by count: ∘r 15, ∘e 10, f 8, ∘y 5, ∘a 3, then i and p (2 each) by code point
-    assertEquals(List.of(M + "r", M + "e", "f", M + "y", M + "a", M + "i", "p"), t.subList(1, 8));
-    assertEquals(List.of("pi", M + "ry", M + "er"), t.subList(8, 11));
+    // alphabet by count: r 15, e 10, f 8, y 5, a 3, then i and p (2 each) by code point; word-initial form first
+    assertEquals(List.of("r", M + "r", "e", M + "e", "f", M + "f", "y", M + "y", "a", M + "a", "i", M + "i", "p", M + "p"),
+        t.subList(1, 15));
+    assertEquals(List.of("pi", M + "ry", M + "er"), t.subList(15, 18));
     // the trained vocabulary encodes its corpus: greedy longest match f | ∘er | ∘ry
     assertArrayEquals(new int[] {s.id("f"), s.id(M + "er"), s.id(M + "ry")},
         TestSupport.segmentOne(s, "ferry", 0, 5).ids.toIntArray());
@@ -83,8 +86,8 @@ class WordPieceLearnerTest {
     // 2nd: (pi,∘e) is now 2/(2*10)=0.1; best is (f,∘a) -> "fa" (0.125).
     // 3rd: f now counts 5: (f,∘e)=5/(5*10)=0.1 ties (pi,∘e)=0.1; higher pair count wins -> "fe".
     WordPieceSegmenter s = WordPieceTraining.builder().score(WordPieceTraining.Score.PAIR_RATIO)
-        .vocabularySize(1 + 7 + 3).build().segmenter(ferryCorpus());
-    assertEquals(List.of("pi", "fa", "fe"), s.tokens().subList(8, 11));
+        .vocabularySize(1 + 14 + 3).build().segmenter(ferryCorpus());
+    assertEquals(List.of("pi", "fa", "fe"), s.tokens().subList(15, 18));
     assertArrayEquals(new int[] {s.id("fe"), s.id(M + "r"), s.id(M + "r"), s.id(M + "y")},
         TestSupport.segmentOne(s, "ferry", 0, 5).ids.toIntArray());
   }
@@ -108,7 +111,7 @@ class WordPieceLearnerTest {
   void reservedTokensComeFirstAndListenerReportsMerges() {
     List<String> stages = new ArrayList<>();
     long[] last = {-1, -1};
-    WordPieceSegmenter s = WordPieceTraining.builder().vocabularySize(2 + 1 + 7 + 2)
+    WordPieceSegmenter s = WordPieceTraining.builder().vocabularySize(2 + 1 + 14 + 2)
         .reservedTokens(List.of("\u27e8voyage\u27e9", "\u27e8/voyage\u27e9"))
         .listener((stage, done, total, detail) -> {
           stages.add(stage);
@@ -204,7 +207,10 @@ class WordPieceLearnerTest {
     boolean gain = rnd.nextInt(4) != 0;
     long floor = rnd.nextInt(3) == 0 ? 1 + rnd.nextInt(6) : 1;
     List<String> expected = textbook(corpus, reserved, extra, gain, floor);
+    // an explicit piece limit above every piece: the textbook trainer keeps all pieces, while the
+    // derived limit would leave out pieces longer than these tiny vocabularies
     WordPieceSegmenter s = WordPieceTraining.builder().reservedTokens(reserved).minPairCount(floor)
+        .settings(WordPieceSettings.defaults().withMaxPieceLength(64))
         .score(gain ? WordPieceTraining.Score.LIKELIHOOD_GAIN : WordPieceTraining.Score.PAIR_RATIO)
         .vocabularySize(Math.max(2, alphabetEnd(corpus, reserved) + extra)).build().segmenter(PieceCounts.of(corpus));
     assertEquals(expected, s.tokens(), "seed " + seed + " corpus " + corpus + " extra " + extra + " gain " + gain
@@ -215,7 +221,8 @@ class WordPieceLearnerTest {
     LinkedHashSet<String> forms = new LinkedHashSet<>();
     corpus.forEach((p, c) -> {
       for (int i = 0; i < p.length(); i++) {
-        forms.add(i == 0 ? p.substring(0, 1) : M + p.charAt(i));
+        forms.add(p.substring(i, i + 1));
+        forms.add(M + p.charAt(i)); // both forms of every character
       }
     });
     return reserved.size() + 1 + forms.size();
@@ -231,7 +238,7 @@ class WordPieceLearnerTest {
    */
   private static List<String> textbook(Map<String, Long> corpus, List<String> reserved, int extra, boolean gain,
       long floor) {
-    // alphabet: characters by total count desc, then code point; word-initial form first
+    // alphabet: characters by total count desc, then code point; both forms of each, word-initial first
     Map<Character, Long> freq = new HashMap<>();
     corpus.forEach((p, c) -> {
       for (char ch : p.toCharArray()) {
@@ -253,10 +260,8 @@ class WordPieceLearnerTest {
           }
         }
       }
-      if (init) {
+      if (init || cont) {
         vocab.add(String.valueOf(ch));
-      }
-      if (cont) {
         vocab.add(M + ch);
       }
     }

@@ -148,4 +148,49 @@ public final class SharedUse {
       pool.shutdownNow();
     }
   }
+
+  /**
+   * Thread-per-request use: {@code threads} platform threads, each started for {@code perThread}
+   * inputs and then ended, at most {@code parallel} alive at once, encode the inputs in a seeded
+   * order; every result must equal the sequential {@code expected} one. A thread that never
+   * encoded before sees the tokenizer for the first time: this checks that nothing a thread keeps
+   * (or fails to keep) changes a result. Returns the number of encodes compared.
+   */
+  public static long freshThreads(Tokenizer shared, List<String> inputs, List<Tokens> expected, int threads,
+      int perThread, int parallel, long seed) throws Exception {
+    AtomicReference<String> failure = new AtomicReference<>();
+    AtomicLong encodes = new AtomicLong();
+    SplittableRandom rnd = new SplittableRandom(seed);
+    List<Thread> alive = new ArrayList<>();
+    for (int w = 0; w < threads && failure.get() == null; w++) {
+      int[] picks = new int[perThread];
+      for (int k = 0; k < perThread; k++) {
+        picks[k] = rnd.nextInt(inputs.size());
+      }
+      int worker = w;
+      Thread t = new Thread(() -> {
+        for (int i : picks) {
+          Tokens got = shared.encode(inputs.get(i));
+          if (!got.equals(expected.get(i))) {
+            failure.compareAndSet(null, "short-lived thread " + worker + " (seed 0x" + Long.toHexString(seed) + "): "
+                + HardText.replay("fresh-thread encode", seed, inputs.get(i)) + ": got " + got + ", expected "
+                + expected.get(i));
+          }
+          encodes.incrementAndGet();
+        }
+      }, "fresh-" + w);
+      t.start();
+      alive.add(t);
+      if (alive.size() >= parallel) {
+        alive.remove(0).join(TimeUnit.MINUTES.toMillis(5)); // hang guard only
+      }
+    }
+    for (Thread t : alive) {
+      t.join(TimeUnit.MINUTES.toMillis(5));
+    }
+    if (failure.get() != null) {
+      throw new AssertionError(failure.get());
+    }
+    return encodes.get();
+  }
 }

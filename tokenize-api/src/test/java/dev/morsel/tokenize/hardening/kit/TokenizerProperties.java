@@ -30,6 +30,14 @@ import java.util.SplittableRandom;
  *   <li><b>lenient decode</b>: any id sequence decodes without an exception under
  *       {@link Decoding#REPLACE}; a {@link StreamDecoder} fed the same ids one at a time gives the
  *       same text.
+ *   <li><b>bytes in</b>: the text's UTF-8 (from the JDK's encoder, lone surrogates as U+FFFD),
+ *       encoded from a {@code byte[]} at an offset and from a direct {@code ByteBuffer}, gives the
+ *       ids of the {@code String} path on the JDK's decoding of those bytes, and offsets equal to that
+ *       result's {@link Tokens#utf8Spans UTF-8 spans}. The same bytes with ill-formed sequences
+ *       spliced in give, under {@link Decoding#REPLACE}, the ids of the {@code String} path on the
+ *       JDK's replacing decoder (maximal subparts, Unicode section 3.9; see {@link #jdkReplace}) and spans whose bytes decode
+ *       to the token's text wherever it holds no U+FFFD; under {@link Decoding#STRICT} they throw,
+ *       naming the byte offset where the JDK's reporting decoder finds the first malformed input.
  * </ol>
  */
 public final class TokenizerProperties {
@@ -45,6 +53,15 @@ public final class TokenizerProperties {
   public static final String NO_RESERVED = "untrusted text gives no reserved token";
   public static final String LENIENT_DECODE = "lenient decode of random ids never throws";
   public static final String STREAM_DECODE = "stream decode equals batch decode";
+  public static final String BYTES_PATH = "bytes in: same ids as the String path, UTF-8 offsets";
+  public static final String BYTES_ILL_FORMED = "bytes in: ill-formed UTF-8 by the policy";
+
+  /** Ill-formed fragments spliced into bytes-in inputs (lone continuation, truncated, overlong, surrogate, out of range). */
+  private static final byte[][] BAD = {
+      {(byte) 0x80}, {(byte) 0xBF, (byte) 0x80}, {(byte) 0xC0, (byte) 0xAF}, {(byte) 0xC2},
+      {(byte) 0xE0, (byte) 0x80, (byte) 0x80}, {(byte) 0xE2, (byte) 0x82}, {(byte) 0xED, (byte) 0xA0, (byte) 0x80},
+      {(byte) 0xF0, (byte) 0x90, (byte) 0x80}, {(byte) 0xF4, (byte) 0x90, (byte) 0x80, (byte) 0x80}, {(byte) 0xF5},
+      {(byte) 0xFF}, {(byte) 0xFE, (byte) 0xFE}};
 
   /** Runs every property on {@code text}; returns the result of the main tokenizer. */
   public static Tokens check(Subject subject, long seed, String text, Counts counts) {
@@ -154,7 +171,128 @@ public final class TokenizerProperties {
     }
     counts.add(LENIENT_DECODE);
     counts.add(STREAM_DECODE);
+
+    bytesIn(subject, tk, seed, text, rnd, counts);
     return t;
+  }
+
+  private static void bytesIn(Subject subject, Tokenizer tk, long seed, String text, SplittableRandom rnd,
+      Counts counts) {
+    byte[] utf8;
+    try {
+      java.nio.ByteBuffer enc = StandardCharsets.UTF_8.newEncoder()
+          .onMalformedInput(java.nio.charset.CodingErrorAction.REPLACE)
+          .replaceWith(new byte[] {(byte) 0xEF, (byte) 0xBF, (byte) 0xBD})
+          .encode(java.nio.CharBuffer.wrap(text));
+      utf8 = Arrays.copyOf(enc.array(), enc.limit());
+    } catch (java.nio.charset.CharacterCodingException e) {
+      throw new AssertionError(e);
+    }
+    String decoded = new String(utf8, StandardCharsets.UTF_8);
+    Tokens want = tk.encode(decoded);
+    int[][] spans = want.utf8Spans(decoded);
+    int pad = rnd.nextInt(4);
+    byte[] padded = new byte[utf8.length + 2 * pad];
+    Arrays.fill(padded, (byte) 0xFF); // ill-formed bytes outside the range must not be read
+    System.arraycopy(utf8, 0, padded, pad, utf8.length);
+    java.nio.ByteBuffer direct = java.nio.ByteBuffer.allocateDirect(padded.length).put(padded);
+    direct.position(pad).limit(pad + utf8.length);
+    Tokens[] got = {
+        tk.encodeUtf8(padded, pad, utf8.length, dev.morsel.tokenize.Trust.UNTRUSTED, Decoding.STRICT),
+        tk.encodeUtf8(direct, dev.morsel.tokenize.Trust.UNTRUSTED, Decoding.REPLACE)};
+    if (direct.position() != pad || direct.limit() != pad + utf8.length) {
+      fail(subject + " " + BYTES_PATH, seed, text, "the buffer's position or limit moved");
+    }
+    for (Tokens g : got) {
+      if (!Arrays.equals(g.ids(), want.ids())) {
+        fail(subject + " " + BYTES_PATH, seed, text, "bytes " + Arrays.toString(g.ids()) + ", String "
+            + Arrays.toString(want.ids()));
+      }
+      for (int i = 0; i < g.size(); i++) {
+        if (g.start(i) != spans[0][i] || g.end(i) != spans[1][i]) {
+          fail(subject + " " + BYTES_PATH, seed, text, "token " + i + " has bytes [" + g.start(i) + ", " + g.end(i)
+              + "), the String path's UTF-8 span is [" + spans[0][i] + ", " + spans[1][i] + ")");
+        }
+      }
+    }
+    counts.add(BYTES_PATH);
+
+    // splice ill-formed fragments in at code point boundaries
+    java.io.ByteArrayOutputStream bad = new java.io.ByteArrayOutputStream();
+    int splices = 1 + rnd.nextInt(3);
+    for (int i = 0; i <= utf8.length; i++) {
+      boolean boundary = i == utf8.length || (utf8[i] & 0xC0) != 0x80;
+      if (boundary && rnd.nextInt(Math.max(1, utf8.length / splices + 1)) == 0) {
+        byte[] f = BAD[rnd.nextInt(BAD.length)];
+        bad.write(f, 0, f.length);
+      }
+      if (i < utf8.length) {
+        bad.write(utf8[i]);
+      }
+    }
+    byte[] ill = bad.toByteArray();
+    // the JDK's reporting decoder stops with its position at the start of the first malformed sequence
+    int firstBad = -1;
+    java.nio.ByteBuffer in = java.nio.ByteBuffer.wrap(ill);
+    java.nio.charset.CoderResult r = StandardCharsets.UTF_8.newDecoder()
+        .onMalformedInput(java.nio.charset.CodingErrorAction.REPORT)
+        .onUnmappableCharacter(java.nio.charset.CodingErrorAction.REPORT)
+        .decode(in, java.nio.CharBuffer.allocate(2 * ill.length + 2), true);
+    if (r.isError()) {
+      firstBad = in.position();
+    }
+    String replaced = jdkReplace(ill);
+    Tokens wantIll = tk.encode(replaced);
+    Tokens gotIll = tk.encodeUtf8(ill, 0, ill.length, dev.morsel.tokenize.Trust.UNTRUSTED, Decoding.REPLACE);
+    if (!Arrays.equals(gotIll.ids(), wantIll.ids())) {
+      fail(subject + " " + BYTES_ILL_FORMED, seed, text, "bytes " + hex(ill) + ": ids " + Arrays.toString(gotIll.ids())
+          + ", String path on the JDK's replacement " + Arrays.toString(wantIll.ids()));
+    }
+    int last = 0;
+    for (int i = 0; i < gotIll.size(); i++) {
+      int a = gotIll.start(i);
+      int b = gotIll.end(i);
+      if (a < last || b < a || b > ill.length) {
+        fail(subject + " " + BYTES_ILL_FORMED, seed, text, "token " + i + " span [" + a + ", " + b + ") of " + ill.length);
+      }
+      last = a;
+      String own = replaced.substring(wantIll.start(i), wantIll.end(i));
+      if ((gotIll.flags(i) & Tokens.FRAME) == 0 && own.indexOf('\ufffd') < 0
+          && !own.equals(new String(ill, a, b - a, StandardCharsets.UTF_8))) {
+        fail(subject + " " + BYTES_ILL_FORMED, seed, text, "token " + i + " bytes [" + a + ", " + b
+            + ") do not hold its text \"" + HardText.escape(own, 100) + "\"");
+      }
+    }
+    if (firstBad >= 0) {
+      try {
+        tk.encodeUtf8(ill, 0, ill.length, dev.morsel.tokenize.Trust.UNTRUSTED, Decoding.STRICT);
+        fail(subject + " " + BYTES_ILL_FORMED, seed, text, "strict bytes-in accepted ill-formed " + hex(ill));
+      } catch (IllegalArgumentException e) {
+        if (!e.getMessage().contains("at byte " + firstBad + " ")) {
+          fail(subject + " " + BYTES_ILL_FORMED, seed, text, "strict error '" + e.getMessage()
+              + "' does not name byte " + firstBad);
+        }
+      }
+    }
+    counts.add(BYTES_ILL_FORMED);
+  }
+
+  /**
+   * The JDK's replacing decoder, which substitutes maximal subparts as Unicode section 3.9 asks,
+   * except for an encoded surrogate ({@code ED A0..BF ..}): the JDK replaces the whole sequence
+   * once, Unicode's Table 3-8 once per byte (the lead byte {@code ED} is a maximal subpart of its
+   * own, since {@code A0..BF} may not follow it). So the input is cut after each such {@code ED}.
+   */
+  static String jdkReplace(byte[] b) {
+    StringBuilder out = new StringBuilder();
+    int from = 0;
+    for (int i = 0; i + 1 < b.length; i++) {
+      if ((b[i] & 0xFF) == 0xED && (b[i + 1] & 0xFF) >= 0xA0 && (b[i + 1] & 0xFF) <= 0xBF) {
+        out.append(new String(b, from, i - from, StandardCharsets.UTF_8)).append('\ufffd');
+        from = i + 1;
+      }
+    }
+    return out.append(new String(b, from, b.length - from, StandardCharsets.UTF_8)).toString();
   }
 
   static void fail(String property, long seed, String text, String detail) {

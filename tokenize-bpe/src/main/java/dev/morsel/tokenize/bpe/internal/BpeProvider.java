@@ -1,6 +1,8 @@
 package dev.morsel.tokenize.bpe.internal;
 
+import dev.morsel.tokenize.format.ModelLimits;
 import dev.morsel.tokenize.format.ModelSections;
+import dev.morsel.tokenize.format.ReviewDocument;
 import dev.morsel.tokenize.spi.Segmenter;
 import dev.morsel.tokenize.spi.SegmenterProvider;
 
@@ -15,7 +17,12 @@ public final class BpeProvider implements SegmenterProvider {
   }
 
   @Override
-  public Segmenter read(ModelSections sections) {
-    return BpeSegmenter.read(sections);
+  public Segmenter read(ModelSections sections, ModelLimits limits) {
+    return BpeSegmenter.read(sections, limits);
+  }
+
+  @Override
+  public Segmenter readReview(ReviewDocument review) {
+    return BpeSegmenter.readReview(review);
   }
 }

@@ -1,11 +1,13 @@
 package dev.morsel.tokenize.bpe.internal;
 
 import dev.morsel.tokenize.format.ModelFormatException;
+import dev.morsel.tokenize.format.ModelLimits;
 import dev.morsel.tokenize.format.ModelSections;
 import dev.morsel.tokenize.format.ModelWriter;
 import dev.morsel.tokenize.format.SectionReader;
 import dev.morsel.tokenize.format.SectionWriter;
 import java.util.ArrayList;
+import java.util.HashSet;
 import java.util.List;
 
 /**
@@ -15,15 +17,16 @@ import java.util.List;
  * <pre>
  * BPEC  settings
  *   u32 layout version (1)
- *   u32 reserved count k (&lt;= {@link #MAX_RESERVED})
+ *   u32 reserved count k (&lt;= {@link ModelLimits#maxReservedTokens()})
  *   k x (u32 byte length, UTF-8 spelling)   reserved spellings in id order (ids 0..k-1)
  *   u32 cache size (entries, 0 = off, &lt;= {@link #MAX_CACHE_ENTRIES}); writers put the default here,
  *       since the cache is a runtime setting that changes no result and so must not change the fingerprint
  * BPEM  merges
- *   u32 merge count m (&lt;= {@link #MAX_MERGES})
+ *   u32 merge count m (&lt;= {@link ModelLimits#maxMerges()})
  *   m x (u32 left id, u32 right id)           in rank order; merge r is id k+256+r
  * </pre>
- * The api also writes reserved spellings in its own section; this copy lets the segmenter stand alone.
+ * The api also writes reserved spellings in its own section; this copy lets the segmenter stand alone,
+ * and the loader refuses a file whose two lists disagree.
  */
 public final class BpeSections {
   /** Settings section tag. */
@@ -32,10 +35,6 @@ public final class BpeSections {
   public static final String MERGES = "BPEM";
   /** Layout version written in {@link #SETTINGS}. */
   public static final int VERSION = 1;
-  /** Most reserved tokens accepted when reading (reason: bounds the allocation before validation). */
-  public static final int MAX_RESERVED = 1 << 16;
-  /** Most merges accepted (16 Mi ids: far beyond any useful vocabulary, well inside int ids). */
-  public static final int MAX_MERGES = 1 << 24;
   /** Largest cache accepted, in entries (16 Mi slots = 64 MiB of references). */
   public static final int MAX_CACHE_ENTRIES = 1 << 24;
 
@@ -76,20 +75,21 @@ public final class BpeSections {
    *
    * @throws ModelFormatException naming the section and entry
    */
-  public static Read read(ModelSections sections) {
+  public static Read read(ModelSections sections, ModelLimits limits) {
     SectionReader s = sections.reader(SETTINGS);
     int version = s.getInt("layout version");
     if (version != VERSION) {
       throw s.fail("layout version " + version + " is not supported (this reader knows " + VERSION + ")");
     }
-    int k = s.getCount("reserved tokens", MAX_RESERVED, 4);
+    int k = limits.readReservedCount(s, "reserved tokens", 4);
     List<String> reserved = new ArrayList<>(k);
+    HashSet<String> seen = new HashSet<>();
     for (int i = 0; i < k; i++) {
-      String c = s.getString("reserved token " + i);
+      String c = limits.readToken(s, "reserved token " + i);
       if (c.isEmpty()) {
         throw new ModelFormatException(SETTINGS, "reserved token " + i + " has an empty spelling");
       }
-      if (reserved.contains(c)) {
+      if (!seen.add(c)) {
         throw new ModelFormatException(SETTINGS, "reserved token " + i + " repeats spelling '" + c + "'");
       }
       reserved.add(c);
@@ -100,7 +100,7 @@ public final class BpeSections {
     }
     s.expectEnd();
     SectionReader m = sections.reader(MERGES);
-    int count = m.getCount("merges", MAX_MERGES, 8);
+    int count = limits.readMergeCount(m, "merges", 8);
     int[] left = new int[count];
     int[] right = new int[count];
     for (int r = 0; r < count; r++) {

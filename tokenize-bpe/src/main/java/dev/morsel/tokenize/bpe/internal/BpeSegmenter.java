@@ -2,15 +2,16 @@ package dev.morsel.tokenize.bpe.internal;
 
 import dev.morsel.tokenize.ReservedTokens;
 import dev.morsel.tokenize.format.ModelFormatException;
+import dev.morsel.tokenize.format.ModelLimits;
 import dev.morsel.tokenize.format.ModelSections;
 import dev.morsel.tokenize.format.ModelWriter;
+import dev.morsel.tokenize.format.ReviewDocument;
+import dev.morsel.tokenize.format.ReviewWriter;
 import dev.morsel.tokenize.spi.ByteSink;
 import dev.morsel.tokenize.spi.Segmenter;
 import dev.morsel.tokenize.spi.TokenSink;
-import java.io.BufferedReader;
-import java.io.IOException;
-import java.io.Reader;
-import java.io.UncheckedIOException;
+import dev.morsel.tokenize.spi.Workspace;
+import dev.morsel.tokenize.spi.WorkspacePool;
 import java.nio.charset.StandardCharsets;
 import java.util.HashMap;
 import java.util.List;
@@ -29,10 +30,12 @@ import java.util.SplittableRandom;
  * equal ranks [1]; a token that holds part of a multi-byte character reports that whole character's
  * span; a lone surrogate is encoded as U+FFFD (normalization already replaces it; this is defensive).
  *
- * <p>Display spellings ({@link #token}): a token's bytes as text where they are well-formed UTF-8,
- * with {@code \\} for a backslash, and {@code \xHH} (lowercase hex) for C0 controls, DEL, and every
- * byte not part of a complete well-formed UTF-8 sequence. Reserved tokens show their spelling. Token
- * bytes are unique, so spellings are unique, and {@link #id(String)} inverts {@link #token(int)}.
+ * <p>Display spellings ({@link #token}): a token's bytes in the review text's field escaping ({@link
+ * dev.morsel.tokenize.format.ReviewText#escape(byte[])}): text where they are well-formed, printable
+ * UTF-8, {@code \\} for a backslash, {@code \s} for a space, and escapes in braces for invisible
+ * characters and for bytes not part of a well-formed UTF-8 sequence. Reserved tokens show their
+ * spelling. Token bytes are unique, so spellings are unique, and {@link #id(String)} inverts {@link
+ * #token(int)}.
  *
  * <p>Piece cache: on by default with {@link #DEFAULT_CACHE_ENTRIES} entries; see
  * {@link #withCacheEntries(int)}. Results are identical with the cache on or off, cold or warm.
@@ -67,7 +70,8 @@ public final class BpeSegmenter implements Segmenter {
   private final double dropout;
   private final long seed;
   private final SplittableRandom dropoutRoot; // null when dropout is off
-  private final ThreadLocal<SplittableRandom> dropoutRandom;
+  /** Workspaces for calls that bring none; owned by this segmenter. */
+  private final WorkspacePool<Encoder.Scratch> own;
 
   private BpeSegmenter(Vocab vocab, Encoder encoder, ReservedTokens reserved, int cacheEntries, double dropout, long seed) {
     this.vocab = vocab;
@@ -77,24 +81,15 @@ public final class BpeSegmenter implements Segmenter {
     this.cache = cacheEntries == 0 || dropout > 0 ? null : new PieceCache(cacheEntries); // dropout bypasses it
     this.dropout = dropout;
     this.seed = seed;
-    if (dropout > 0) {
-      SplittableRandom root = new SplittableRandom(seed);
-      this.dropoutRoot = root;
-      this.dropoutRandom = ThreadLocal.withInitial(() -> {
-        synchronized (root) {
-          return root.split();
-        }
-      });
-    } else {
-      this.dropoutRoot = null;
-      this.dropoutRandom = null;
-    }
+    this.dropoutRoot = dropout > 0 ? new SplittableRandom(seed) : null;
+    this.own = WorkspacePool.of(encoder::newScratch);
   }
 
   public static BpeSegmenter create(Vocab vocab, int cacheEntries) {
     ReservedTokens.Builder b = ReservedTokens.builder();
-    for (int i = 0; i < vocab.reservedCount(); i++) {
-      b.add(vocab.reserved().get(i), i);
+    List<String> reserved = vocab.reserved(); // a copy: taken once, not per token
+    for (int i = 0; i < reserved.size(); i++) {
+      b.add(reserved.get(i), i);
     }
     return new BpeSegmenter(vocab, new Encoder(vocab), b.build(), cacheEntries, 0.0, 0L);
   }
@@ -124,7 +119,16 @@ public final class BpeSegmenter implements Segmenter {
    * @throws ModelFormatException naming the section and the entry that is wrong
    */
   public static BpeSegmenter read(ModelSections sections) {
-    BpeSections.Read r = BpeSections.read(sections);
+    return read(sections, ModelLimits.defaults());
+  }
+
+  /**
+   * As {@link #read(ModelSections)}, with every count and spelling checked against {@code limits}.
+   *
+   * @throws ModelFormatException naming the section and the entry that is wrong, or the limit exceeded
+   */
+  public static BpeSegmenter read(ModelSections sections, ModelLimits limits) {
+    BpeSections.Read r = BpeSections.read(sections, limits);
     try {
       return create(r.vocab, r.cacheEntries);
     } catch (IllegalArgumentException e) {
@@ -133,76 +137,13 @@ public final class BpeSegmenter implements Segmenter {
   }
 
   /**
-   * Reads a ranked pair list: one merge a line, rank = line order, each line two token spellings in
-   * line form (display spelling with spaces written {@code \x20}) separated by one space. Empty
-   * lines are not allowed. Tokens are looked up by their bytes among the byte tokens and earlier lines.
+   * Reads a segmenter from its sections of a review text ({@code vocabulary}: reserved and byte
+   * tokens; {@code merges}: rank, left, right, token), validating everything before building.
    *
-   * @param source a name for the input used in error messages (a file name, say)
-   * @param reserved reserved spellings, ids {@code 0..k-1}
-   * @throws ModelFormatException naming {@code source} and the line: malformed line or escape, unknown
-   *     token, repeated pair, a token that already exists, a token over {@link #MAX_TOKEN_BYTES}
-   * @throws UncheckedIOException if reading fails
+   * @throws ModelFormatException naming the line and column that is wrong
    */
-  public static BpeSegmenter readMergeList(Reader in, String source, List<String> reserved) {
-    Objects.requireNonNull(in, "in");
-    int k = reserved.size();
-    Map<String, Integer> byBytes = new HashMap<>();
-    for (int b = 0; b < 256; b++) {
-      byBytes.put(String.valueOf((char) b), k + b);
-    }
-    Map<String, Integer> pairs = new HashMap<>();
-    it.unimi.dsi.fastutil.ints.IntArrayList left = new it.unimi.dsi.fastutil.ints.IntArrayList();
-    it.unimi.dsi.fastutil.ints.IntArrayList right = new it.unimi.dsi.fastutil.ints.IntArrayList();
-    BufferedReader r = in instanceof BufferedReader ? (BufferedReader) in : new BufferedReader(in);
-    int lineNo = 0;
-    try {
-      String line;
-      while ((line = r.readLine()) != null) {
-        lineNo++;
-        String where = source + " line " + lineNo;
-        int sp = line.indexOf(' ');
-        if (sp <= 0 || sp == line.length() - 1 || line.indexOf(' ', sp + 1) >= 0) {
-          throw new ModelFormatException(where, "expected two token spellings separated by one space, got '" + line + "'");
-        }
-        String a = latin1(where, line.substring(0, sp));
-        String b = latin1(where, line.substring(sp + 1));
-        Integer ia = byBytes.get(a);
-        Integer ib = byBytes.get(b);
-        if (ia == null || ib == null) {
-          throw new ModelFormatException(where, "unknown token '" + (ia == null ? line.substring(0, sp)
-              : line.substring(sp + 1)) + "' (not a byte token nor made by an earlier line)");
-        }
-        Integer prevRank = pairs.putIfAbsent(ia + "," + ib, lineNo);
-        if (prevRank != null) {
-          throw new ModelFormatException(where, "repeated pair, first given on line " + prevRank);
-        }
-        String merged = a + b;
-        if (merged.length() > MAX_TOKEN_BYTES) {
-          throw new ModelFormatException(where, "token of " + merged.length() + " bytes; the limit is MAX_TOKEN_BYTES="
-              + MAX_TOKEN_BYTES);
-        }
-        if (byBytes.putIfAbsent(merged, k + 256 + left.size()) != null) {
-          throw new ModelFormatException(where, "the merged token already exists: token bytes must be unique");
-        }
-        left.add(ia);
-        right.add(ib);
-      }
-    } catch (IOException e) {
-      throw new UncheckedIOException("reading " + source + " failed after line " + lineNo, e);
-    }
-    try {
-      return of(reserved, left.toIntArray(), right.toIntArray());
-    } catch (IllegalArgumentException e) {
-      throw new ModelFormatException(source, e.getMessage(), e);
-    }
-  }
-
-  private static String latin1(String where, String spelling) {
-    try {
-      return new String(ByteSpelling.parse(spelling), StandardCharsets.ISO_8859_1);
-    } catch (IllegalArgumentException e) {
-      throw new ModelFormatException(where, e.getMessage(), e);
-    }
+  public static BpeSegmenter readReview(ReviewDocument review) {
+    return create(BpeReview.read(review), DEFAULT_CACHE_ENTRIES);
   }
 
   // ------------------------------------------------------------------ options
@@ -230,9 +171,9 @@ public final class BpeSegmenter implements Segmenter {
    * adjacent pair occurrence that has a rank) is skipped independently with probability {@code p};
    * the lowest-ranked remaining candidate, leftmost among equals, is applied; when every candidate of
    * a step is skipped, the piece's segmentation ends there. {@code p = 0} gives plain segmentation,
-   * {@code p = 1} single bytes. The cache is bypassed. Each thread draws from its own generator,
-   * split from a root {@code SplittableRandom(seed)} in the order threads first use it, so a
-   * single-threaded run is reproducible for a given seed.
+   * {@code p = 1} single bytes. The cache is bypassed. Each encode workspace draws from its own
+   * generator, split from a root {@code SplittableRandom(seed)} in the order workspaces are first
+   * used, so a single-threaded run (which reuses one workspace) is reproducible for a given seed.
    *
    * @throws IllegalArgumentException if {@code p} is not in [0, 1]
    */
@@ -306,11 +247,39 @@ public final class BpeSegmenter implements Segmenter {
 
   @Override
   public void segment(CharSequence text, int start, int end, TokenSink sink) {
+    Encoder.Scratch s = own.take();
+    try {
+      segment(text, start, end, sink, s);
+    } finally {
+      own.give(s);
+    }
+  }
+
+  /** A workspace of a few hundred bytes; it grows with the pieces it sees (see {@link Encoder.Scratch}). */
+  @Override
+  public Workspace newWorkspace() {
+    return encoder.newScratch();
+  }
+
+  @Override
+  public void segment(CharSequence text, int start, int end, TokenSink sink, Workspace workspace) {
     Objects.checkFromToIndex(start, end, text.length());
+    if (!(workspace instanceof Encoder.Scratch)) {
+      segment(text, start, end, sink);
+      return;
+    }
+    Encoder.Scratch s = (Encoder.Scratch) workspace;
     if (dropout > 0) {
-      encoder.segmentDropout(text, start, end, sink, dropout, dropoutRandom.get());
+      SplittableRandom r = s.random;
+      if (r == null) {
+        synchronized (dropoutRoot) {
+          r = dropoutRoot.split();
+        }
+        s.random = r;
+      }
+      encoder.segmentDropout(text, start, end, sink, dropout, r, s);
     } else {
-      encoder.segment(text, start, end, sink, cache);
+      encoder.segment(text, start, end, sink, cache, s);
     }
   }
 
@@ -376,15 +345,19 @@ public final class BpeSegmenter implements Segmenter {
 
   /**
    * Segments one piece with BPE-dropout at probability {@code p} (see {@link #withDropout}), drawing
-   * from {@code random}; {@code p = 0} is plain segmentation.
+   * from {@code random}, with working memory from {@code workspace} if it is one of this segmenter's
+   * (null: its own); {@code p = 0} is plain segmentation.
    */
-  public void segmentDropout(CharSequence text, int start, int end, TokenSink sink, double p, SplittableRandom random) {
+  public void segmentDropout(CharSequence text, int start, int end, TokenSink sink, double p, SplittableRandom random,
+      Workspace workspace) {
     Objects.checkFromToIndex(start, end, text.length());
     Objects.requireNonNull(random, "random");
-    if (p > 0) {
-      encoder.segmentDropout(text, start, end, sink, p, random);
+    if (p == 0) {
+      segment(text, start, end, sink, workspace);
+    } else if (workspace instanceof Encoder.Scratch) {
+      encoder.segmentDropout(text, start, end, sink, p, random, (Encoder.Scratch) workspace);
     } else {
-      encoder.segment(text, start, end, sink, cache);
+      encoder.segmentDropout(text, start, end, sink, p, random);
     }
   }
 
@@ -399,24 +372,10 @@ public final class BpeSegmenter implements Segmenter {
     BpeSections.write(out, vocab, DEFAULT_CACHE_ENTRIES);
   }
 
-  /**
-   * Writes the merges as a ranked pair list (see {@link #readMergeList}), one line per merge ending
-   * in {@code \n}.
-   *
-   * @throws UncheckedIOException if {@code out} fails
-   */
-  public void writeMergeList(Appendable out) {
-    byte[] store = vocab.byteStore();
-    try {
-      for (int r = 0; r < vocab.mergeCount(); r++) {
-        int a = vocab.left(r);
-        int b = vocab.right(r);
-        out.append(ByteSpelling.lineForm(store, vocab.offset(a), vocab.length(a))).append(' ')
-            .append(ByteSpelling.lineForm(store, vocab.offset(b), vocab.length(b))).append('\n');
-      }
-    } catch (IOException e) {
-      throw new UncheckedIOException(e);
-    }
+  /** Writes the {@code vocabulary} and {@code merges} sections of a review text. */
+  @Override
+  public void writeReview(ReviewWriter out) {
+    BpeReview.write(out, vocab);
   }
 
   /** Test and benchmark access to the two merge paths and the vocabulary. */

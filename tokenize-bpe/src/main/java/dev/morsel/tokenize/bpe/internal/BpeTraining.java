@@ -2,6 +2,7 @@ package dev.morsel.tokenize.bpe.internal;
 
 import dev.morsel.tokenize.Tokenizer;
 import dev.morsel.tokenize.Tokenizers;
+import dev.morsel.tokenize.format.ReviewText;
 import dev.morsel.tokenize.train.Learner;
 import dev.morsel.tokenize.train.LearnerSettings;
 import dev.morsel.tokenize.train.PieceCounts;
@@ -226,19 +227,21 @@ public final class BpeTraining implements Learner {
      */
     public BpeTraining build() {
       reserved = LearnerSettings.checkReserved(reserved);
+      java.util.Map<String, Integer> byteSpellings = new java.util.HashMap<>();
+      for (int b = 0; b < 256; b++) {
+        byteSpellings.put(ReviewText.escape(new byte[] {(byte) b}), b);
+      }
       for (int i = 0; i < reserved.size(); i++) {
-        String c = reserved.get(i);
-        for (int b = 0; b < 256; b++) {
-          if (c.equals(ByteSpelling.display(new byte[] {(byte) b}, 0, 1))) {
-            throw new IllegalArgumentException("reservedTokens[" + i + "] '" + c + "' is the display spelling of byte token "
-                + b + "; choose a spelling no byte token has");
-          }
+        Integer b = byteSpellings.get(reserved.get(i));
+        if (b != null) {
+          throw new IllegalArgumentException("reservedTokens[" + i + "] '" + reserved.get(i)
+              + "' is the display spelling of byte token " + b + "; choose a spelling no byte token has");
         }
       }
       int floor = 256 + reserved.size();
       if (vocabularySize < floor) {
-        throw new IllegalArgumentException("vocabularySize=" + vocabularySize + " is below " + floor + " (256 byte tokens + "
-            + reserved.size() + " reserved tokens)");
+        throw new IllegalArgumentException("vocabularySize=" + vocabularySize + " is below " + floor + ", the least BPE can"
+            + " use (256 byte tokens" + (reserved.isEmpty() ? "" : " + " + reserved.size() + " reserved tokens") + ")");
       }
       if (minPairCount < 1) {
         throw new IllegalArgumentException("minPairCount=" + minPairCount + " must be at least 1");

@@ -2,11 +2,14 @@ package dev.morsel.tokenize.bpe.internal;
 
 import dev.morsel.tokenize.internal.PieceTable;
 import dev.morsel.tokenize.spi.TokenSink;
+import dev.morsel.tokenize.spi.Workspace;
+import dev.morsel.tokenize.spi.WorkspacePool;
 import java.util.SplittableRandom;
 
 /**
- * Applies the merges of a {@link Vocab} to one piece. Thread-safe: all mutable state lives in
- * per-thread {@link Scratch} buffers, and the {@link PieceCache} tolerates races.
+ * Applies the merges of a {@link Vocab} to one piece. Thread-safe: all mutable state lives in a
+ * {@link Scratch} workspace lent to each call (by the tokenizer's pool, or this encoder's own pool
+ * for calls that bring none), and the {@link PieceCache} tolerates races.
  *
  * <p>Semantics (the textbook rule of [1]): repeatedly merge the adjacent pair of lowest rank,
  * leftmost among equal ranks, until no adjacent pair has a rank. Two paths give exactly this result:
@@ -47,16 +50,17 @@ public final class Encoder {
    */
   public static final int BUCKET_PIECE_BYTES = 512;
   /**
-   * Scratch kept per thread covers pieces up to this many UTF-16 units (about 21 bytes of arrays per
+   * A workspace keeps buffers for pieces up to this many UTF-16 units (about 21 bytes of arrays per
    * unit, so 4,096 units keep about 86 KiB); buffers grown for longer pieces are dropped afterwards, so
-   * one huge piece does not pin hundreds of MiB per thread.
+   * one huge piece does not pin hundreds of MiB in a pool.
    */
   static final int RETAINED_PIECE_CHARS = 4096;
 
   private final Vocab vocab;
   private final int base; // id of byte 0
   private final int mergeBase; // id of merge rank 0
-  private final ThreadLocal<Scratch> scratch = ThreadLocal.withInitial(Scratch::new);
+  /** Workspaces for calls that bring none (tests, direct segmenter use); owned by this encoder. */
+  private final WorkspacePool<Scratch> own = WorkspacePool.of(Scratch::new);
   private final PieceTable whole;
 
   /** An encoder over {@code vocab}. */
@@ -79,7 +83,22 @@ public final class Encoder {
    * {@code cache} the piece is looked up first and stored after a miss.
    */
   public void segment(CharSequence text, int start, int end, TokenSink sink, PieceCache cache) {
-    segment(text, start, end, sink, cache, true);
+    Scratch s = own.take();
+    try {
+      segment(text, start, end, sink, cache, true, s);
+    } finally {
+      own.give(s);
+    }
+  }
+
+  /** As {@link #segment(CharSequence, int, int, TokenSink, PieceCache)} in workspace {@code s}. */
+  public void segment(CharSequence text, int start, int end, TokenSink sink, PieceCache cache, Scratch s) {
+    segment(text, start, end, sink, cache, true, s);
+  }
+
+  /** A new, empty workspace for this encoder (a few hundred bytes until it is used). */
+  public Scratch newScratch() {
+    return new Scratch();
   }
 
   /** {@link #segment(CharSequence, int, int, TokenSink, PieceCache)}; without the whole-token table while it is built. */
@@ -89,14 +108,14 @@ public final class Encoder {
         : mergeBuckets(s, n);
   }
 
-  private void segment(CharSequence text, int start, int end, TokenSink sink, PieceCache cache, boolean useWhole) {
+  private void segment(CharSequence text, int start, int end, TokenSink sink, PieceCache cache, boolean useWhole,
+      Scratch s) {
     if (start >= end) {
       return;
     }
     int len = end - start;
     if (cache != null && len <= RecentPieces.MAX_CHARS) {
-      Scratch s = scratch.get();
-      RecentPieces recent = s.recent;
+      RecentPieces recent = s.recent();
       long h = recent.hash(text, start, end);
       if (recent.emitIfPresent(h, text, start, end, sink)) {
         return;
@@ -126,34 +145,43 @@ public final class Encoder {
         return;
       }
     }
-    Scratch s = scratch.get();
     int m = merge(s, s.load(text, start, end));
-    if (cacheable) {
+    if (cacheable && cache.admit(hash)) {
       cache.store(hash, text, start, end, s, m);
     }
     s.emit(m, start, sink);
     if (len > RETAINED_PIECE_CHARS) {
-      scratch.remove();
+      s.shrink();
     }
   }
 
   /** Segments with BPE-dropout probability {@code p}, drawing from {@code random}; never cached. */
   public void segmentDropout(CharSequence text, int start, int end, TokenSink sink, double p, SplittableRandom random) {
+    Scratch s = own.take();
+    try {
+      segmentDropout(text, start, end, sink, p, random, s);
+    } finally {
+      own.give(s);
+    }
+  }
+
+  /** As {@link #segmentDropout(CharSequence, int, int, TokenSink, double, SplittableRandom)} in workspace {@code s}. */
+  public void segmentDropout(CharSequence text, int start, int end, TokenSink sink, double p, SplittableRandom random,
+      Scratch s) {
     if (start >= end) {
       return;
     }
-    Scratch s = scratch.get();
     int n = s.load(text, start, end);
     int m = mergeHeap(s, n, p, random);
     s.emit(m, start, sink);
     if (end - start > RETAINED_PIECE_CHARS) {
-      scratch.remove();
+      s.shrink();
     }
   }
 
   /** Test hook: the array-scan path on any length; ids into {@code out}, returns the count. */
   public int segmentShortPath(CharSequence text, int[] out) {
-    Scratch s = scratch.get();
+    Scratch s = new Scratch();
     int n = s.load(text, 0, text.length());
     int m = mergeShort(s, n);
     System.arraycopy(s.outId, 0, out, 0, m);
@@ -162,7 +190,7 @@ public final class Encoder {
 
   /** Test hook: the rank-bucket path on any length; ids into {@code out}, returns the count. */
   public int segmentBucketPath(CharSequence text, int[] out) {
-    Scratch s = scratch.get();
+    Scratch s = new Scratch();
     int n = s.load(text, 0, text.length());
     int m = mergeBuckets(s, n);
     System.arraycopy(s.outId, 0, out, 0, m);
@@ -171,7 +199,7 @@ public final class Encoder {
 
   /** Test hook: the heap path on any length; ids into {@code out}, returns the count. */
   public int segmentHeapPath(CharSequence text, int[] out) {
-    Scratch s = scratch.get();
+    Scratch s = new Scratch();
     int n = s.load(text, 0, text.length());
     int m = mergeHeap(s, n, 0.0, null);
     System.arraycopy(s.outId, 0, out, 0, m);
@@ -426,6 +454,7 @@ public final class Encoder {
       found[1]++;
     };
     byte[] store = vocab.byteStore();
+    Scratch s = new Scratch();
     for (int id = vocab.k; id < size; id++) {
       int n = Utf8.decodeStrict(store, vocab.offset(id), vocab.length(id), chars);
       if (n <= 0) {
@@ -433,7 +462,7 @@ public final class Encoder {
       }
       String t = new String(chars, 0, n);
       found[1] = 0;
-      enc.segment(t, 0, n, count, null, false);
+      enc.segment(t, 0, n, count, null, false, s);
       if (found[1] == 1 && found[0] == id) {
         keep[id] = t;
       }
@@ -514,9 +543,14 @@ public final class Encoder {
     }
   }
 
-  /** Per-thread buffers. Grow on demand and are kept. */
-  static final class Scratch {
-    final RecentPieces recent = new RecentPieces();
+  /**
+   * One encode call's buffers: grow on demand and are kept up to {@link #RETAINED_PIECE_CHARS}; the
+   * recent-piece cache is made on first use.
+   */
+  public static final class Scratch extends Workspace {
+    private RecentPieces recent;
+    /** Dropout generator of this workspace, split from the segmenter's root on first use. */
+    public SplittableRandom random;
     byte[] buf = new byte[0];
     int[] charStart = new int[0];
     int[] charEnd = new int[0];
@@ -537,6 +571,35 @@ public final class Encoder {
     int[] entPos = new int[0];
     int[] entNext = new int[0];
     int[] tmp = new int[0];
+
+    Scratch() {}
+
+    RecentPieces recent() {
+      RecentPieces r = recent;
+      if (r == null) {
+        r = new RecentPieces();
+        recent = r;
+      }
+      return r;
+    }
+
+    /** Drops the buffers grown for a long piece (the bucket heads sized by the merge count stay). */
+    void shrink() {
+      buf = new byte[0];
+      charStart = new int[0];
+      charEnd = new int[0];
+      outId = new int[0];
+      outAt = new int[0];
+      rank = new int[0];
+      sym = new int[0];
+      next = new int[0];
+      prev = new int[0];
+      heap = new long[0];
+      dropped = new long[0];
+      entPos = new int[0];
+      entNext = new int[0];
+      tmp = new int[0];
+    }
 
     /** Bucket bounds: n-1 initial entries plus at most two per merge (at most n-1 merges): 3n. */
     void ensureBuckets(int n, int ranks) {

@@ -1,5 +1,6 @@
 package dev.morsel.tokenize.bpe.internal;
 
+import dev.morsel.tokenize.format.ReviewText;
 import dev.morsel.tokenize.train.TrainingListener;
 import it.unimi.dsi.fastutil.ints.IntArrayList;
 import it.unimi.dsi.fastutil.longs.Long2LongOpenHashMap;
@@ -149,7 +150,7 @@ public final class MergeLearner {
       byte[] merged = Arrays.copyOf(la, la.length + lb.length);
       System.arraycopy(lb, 0, merged, la.length, lb.length);
       if (known.contains(key(merged))
-          || (!reserved.isEmpty() && reserved.contains(ByteSpelling.display(merged, 0, merged.length)))) {
+          || (!reserved.isEmpty() && reserved.contains(ReviewText.escape(merged)))) {
         continue;
       }
       int id = k + 256 + leftOut.size();
@@ -158,8 +159,10 @@ public final class MergeLearner {
       tokenBytes.add(merged);
       known.add(key(merged));
       apply(pair, a, b, id, fresh);
-      listener.progress("merges", leftOut.size(), maxMerges,
-          ByteSpelling.display(la, 0, la.length) + "+" + ByteSpelling.display(lb, 0, lb.length) + " " + current);
+      // the new token first, as text (halves of a multi-byte character show as escaped bytes, their
+      // merge reads as the character), then its halves and its count
+      listener.progress("merges", leftOut.size(), maxMerges, "'" + ReviewText.escape(merged) + "' = '"
+          + ReviewText.escape(la) + "' + '" + ReviewText.escape(lb) + "' (" + current + ")");
     }
     return new int[][] {leftOut.toIntArray(), rightOut.toIntArray()};
   }

@@ -14,6 +14,12 @@ import java.util.SplittableRandom;
  * therefore only cost misses, never wrong results. A hit compares characters and emits tokens: no
  * allocation.
  *
+ * <p>Admission by frequency: a piece is stored only the second time it misses, as remembered by a
+ * doorkeeper bitset of {@code 8 × capacity} bits indexed by other bits of the same hash (a piece
+ * seen once, as most long pieces of running text are, costs one bit instead of three allocated
+ * objects and the eviction of a useful entry). A race on the bitset only changes which pieces are
+ * admitted, never a result.
+ *
  * <p>Slots are chosen by a 64-bit hash seeded per cache instance at random, so untrusted text cannot
  * aim many pieces at one slot in advance; and since a set holds two entries (no chains), even a
  * successful collision attack only turns hits into misses, whose cost is bounded by the encoder.
@@ -25,6 +31,8 @@ public final class PieceCache {
   private final Entry[] slots;
   private final int mask;
   private final long seed;
+  private final long[] seen; // doorkeeper: one bit per hash bucket, 8 buckets per slot
+  private final int seenMask;
 
   /** A cache of at least {@code entries} slots (rounded up to a power of two; at least 2). */
   public PieceCache(int entries) {
@@ -32,6 +40,21 @@ public final class PieceCache {
     this.slots = new Entry[cap];
     this.mask = cap - 1;
     this.seed = new SplittableRandom().nextLong() | 1L;
+    this.seen = new long[Math.max(1, cap >>> 3)];
+    this.seenMask = seen.length * 64 - 1;
+  }
+
+  /** Whether a piece with this hash missed before (and, if not, remembers that it missed now). */
+  boolean admit(long hash) {
+    int bit = (int) (hash >>> 20) & seenMask;
+    long[] s = seen;
+    long m = 1L << bit;
+    long w = s[bit >>> 6];
+    if ((w & m) != 0) {
+      return true;
+    }
+    s[bit >>> 6] = w | m;
+    return false;
   }
 
   /** Number of slots. */

@@ -1,5 +1,6 @@
 package dev.morsel.tokenize.bpe.internal;
 
+import dev.morsel.tokenize.format.ReviewText;
 import it.unimi.dsi.fastutil.longs.Long2IntOpenHashMap;
 import it.unimi.dsi.fastutil.objects.Object2IntOpenHashMap;
 import java.nio.charset.StandardCharsets;
@@ -12,7 +13,7 @@ import java.util.List;
  * <p>Layout: reserved tokens {@code 0..k-1}; byte tokens {@code k..k+255} (byte value {@code b} is id
  * {@code k+b}); merge of rank {@code r} is id {@code k+256+r}. A merge's operands are byte-level
  * tokens (never reserved ids) with ids below its own. Token byte strings are unique, so the display
- * spelling (see {@link ByteSpelling}) is unique per id.
+ * spelling (the review text's field escaping, {@link ReviewText#escape(byte[])}) is unique per id.
  */
 public final class Vocab {
   /** Longest token, in bytes: longer tokens buy almost no compression, and the bound keeps a forged model from claiming unbounded memory. */
@@ -180,7 +181,7 @@ public final class Vocab {
       ids.put(reserved[i], i);
     }
     for (int id = k; id < size; id++) {
-      display[id] = ByteSpelling.display(bytes, offsets[id], len[id]);
+      display[id] = ReviewText.escape(Arrays.copyOfRange(bytes, offsets[id], offsets[id] + len[id]));
       int prev = ids.putIfAbsent(display[id], id);
       if (prev != -1) {
         int r = id - k - 256;

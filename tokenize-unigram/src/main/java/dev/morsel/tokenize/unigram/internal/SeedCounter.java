@@ -8,11 +8,11 @@ import java.util.Set;
 
 /**
  * Seed vocabulary by bounded-length substring counting: every substring of at most
- * {@code maxTokenLength} code points of every distinct piece, weighted by the piece's count, is
+ * {@code maxTokenCodePoints} code points of every distinct piece, weighted by the piece's count, is
  * counted in one hash table. When the table exceeds {@code tableLimit} entries, multi-character
  * entries whose count is at most a threshold are dropped and the threshold doubles (lossy counting;
  * a substring first seen after a drop may be under-counted). Memory: about 100 bytes per entry (a
- * short String plus its table slot), so about 100 MB at the default limit of one million entries.
+ * short String plus its table slot), so about 200 MB at the default limit of two million entries.
  *
  * <p>Candidates are ranked by count × length in code points (longer frequent substrings save more
  * tokens), ties by string; the top {@code maxMulti} multi-character substrings are kept, and every
@@ -27,7 +27,7 @@ final class SeedCounter {
   /** Seed vocabulary: parallel arrays of tokens and initial log-probabilities. */
   record Seeds(String[] tokens, double[] logp, int singles) {}
 
-  static Seeds seed(String[] corpus, long[] counts, int maxTokenLength, int maxMulti, int tableLimit,
+  static Seeds seed(String[] corpus, long[] counts, int maxTokenCodePoints, int maxMulti, int tableLimit,
       Set<String> reserved, TrainingListener listener) {
     Object2LongOpenHashMap<String> table = new Object2LongOpenHashMap<>();
     long threshold = 1;
@@ -44,7 +44,7 @@ final class SeedCounter {
       }
       offsets[cps] = p.length();
       for (int s = 0; s < cps; s++) {
-        int maxLen = Math.min(maxTokenLength, cps - s);
+        int maxLen = Math.min(maxTokenCodePoints, cps - s);
         for (int len = 1; len <= maxLen; len++) {
           String sub = p.substring(offsets[s], offsets[s + len]);
           if (table.addTo(sub, c) > Long.MAX_VALUE - c) {

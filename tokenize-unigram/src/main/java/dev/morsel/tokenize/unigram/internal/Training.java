@@ -25,8 +25,10 @@ import java.util.concurrent.Executors;
  * <p>Pruning: for each multi-character token t the loss is {@code c(t) · (log p(t) − log p(alt(t)))},
  * the drop in corpus log-likelihood if every expected occurrence of t were replaced by the best
  * (Viterbi) segmentation alt(t) of t's string without t itself [1, section 3.2]. The tokens with the
- * highest loss are kept, {@code shrinkFactor} of the vocabulary per round; single characters always
- * stay so every piece stays covered.
+ * highest loss are kept, {@code keepShare} of the vocabulary per round (at least one token goes);
+ * single characters always stay so every piece stays covered. {@code emPasses} EM passes run before
+ * each round and after the last; the seed keeps {@code candidateMultiple} times as many
+ * multi-character candidates as the target, each at most {@code maxTokenCodePoints} code points.
  *
  * <p>Every setting is checked when the training is made (so by {@code UnigramLearner.Builder.build()}
  * and by the learner provider alike), each refusal naming the setting.
@@ -36,18 +38,22 @@ import java.util.concurrent.Executors;
 public final class Training implements Learner {
   /** Default vocabulary size, in ids. */
   public static final int DEFAULT_VOCABULARY_SIZE = 8000;
-  /** Default seed factor: a plain multiple of the pieces wanted. */
-  public static final int DEFAULT_SEED_FACTOR = 8;
+  // seed and pruning defaults, each chosen by the held-out grid in docs/unigram.md
+  // (UnigramSettingsGrid in tokenize-bench; Europarl sample, 8,000 ids)
+  /** Default candidate multiple: a plain multiple of the pieces wanted. */
+  public static final int DEFAULT_CANDIDATE_MULTIPLE = 8;
   /** Default longest token, in code points. */
-  public static final int DEFAULT_MAX_TOKEN_LENGTH = 16;
+  public static final int DEFAULT_MAX_TOKEN_CODE_POINTS = 24;
   /** Default share of the vocabulary each pruning round keeps. */
-  public static final double DEFAULT_SHRINK_FACTOR = 0.75;
-  /** Default EM iterations per round. */
-  public static final int DEFAULT_EM_ITERATIONS = 2;
+  public static final double DEFAULT_KEEP_SHARE = 0.7;
+  /** Default EM passes per pruning round. */
+  public static final int DEFAULT_EM_PASSES = 3;
+  /** Largest keep share: every round removes at least 1 % of the vocabulary. */
+  public static final double MAX_KEEP_SHARE = 0.99;
   /** Default: characters outside the vocabulary become their UTF-8 bytes, never the unknown token. */
   public static final boolean DEFAULT_RAW_BYTES = true;
   /** Default seed table entries (about 100 bytes each). */
-  public static final int DEFAULT_SEED_TABLE_LIMIT = 1_000_000;
+  public static final int DEFAULT_SEED_TABLE_LIMIT = 2_000_000;
   /**
    * Default longest piece learned from, in UTF-16 units (reason: far above any word of prose; a
    * longer piece is a run without breaks, whose every substring the seed stage would count).
@@ -57,10 +63,10 @@ public final class Training implements Learner {
   public static final int MAX_THREADS = 256;
 
   private final int vocabularySize;
-  private final int seedFactor;
-  private final int maxTokenLength;
-  private final double shrinkFactor;
-  private final int emIterations;
+  private final int candidateMultiple;
+  private final int maxTokenCodePoints;
+  private final double keepShare;
+  private final int emPasses;
   private final boolean rawBytes;
   private final List<String> reserved;
   private final String unknown;
@@ -77,17 +83,17 @@ public final class Training implements Learner {
    *     (by index) that is invalid or equals the unknown token's spelling
    * @throws NullPointerException if a reserved token, the unknown token or the listener is null
    */
-  public Training(int vocabularySize, int seedFactor, int maxTokenLength, double shrinkFactor, int emIterations,
+  public Training(int vocabularySize, int candidateMultiple, int maxTokenCodePoints, double keepShare, int emPasses,
       boolean rawBytes, List<String> reserved, String unknown, int threads, int seedTableLimit,
       int maxPieceLength, long minCount, TrainingListener listener) {
     this.vocabularySize = check("vocabularySize", vocabularySize, 1, Integer.MAX_VALUE - 8);
-    this.seedFactor = check("seedFactor", seedFactor, 1, 1000);
-    this.maxTokenLength = check("maxTokenLength", maxTokenLength, 1, 64);
-    if (!(shrinkFactor > 0 && shrinkFactor < 1)) {
-      throw new IllegalArgumentException("shrinkFactor=" + shrinkFactor + " is outside (0, 1)");
+    this.candidateMultiple = check("candidateMultiple", candidateMultiple, 1, 1000);
+    this.maxTokenCodePoints = check("maxTokenCodePoints", maxTokenCodePoints, 1, 64);
+    if (!(keepShare > 0 && keepShare <= MAX_KEEP_SHARE)) {
+      throw new IllegalArgumentException("keepShare=" + keepShare + " is outside (0, " + MAX_KEEP_SHARE + "]");
     }
-    this.shrinkFactor = shrinkFactor;
-    this.emIterations = check("emIterations", emIterations, 1, 100);
+    this.keepShare = keepShare;
+    this.emPasses = check("emPasses", emPasses, 1, 100);
     this.rawBytes = rawBytes;
     this.reserved = LearnerSettings.checkReserved(reserved);
     Objects.requireNonNull(unknown, "unknownToken");
@@ -199,8 +205,8 @@ public final class Training implements Learner {
         taken.add(UnigramSegmenter.byteSpelling(b));
       }
     }
-    int maxMulti = (int) Math.min(Integer.MAX_VALUE - 8, (long) seedFactor * target);
-    SeedCounter.Seeds seeds = SeedCounter.seed(corpus, weights, maxTokenLength, maxMulti, seedTableLimit, taken,
+    int maxMulti = (int) Math.min(Integer.MAX_VALUE - 8, (long) candidateMultiple * target);
+    SeedCounter.Seeds seeds = SeedCounter.seed(corpus, weights, maxTokenCodePoints, maxMulti, seedTableLimit, taken,
         listener);
     String[] vocab = seeds.tokens();
     double[] logp = seeds.logp();
@@ -215,7 +221,7 @@ public final class Training implements Learner {
       long step = 0;
       while (true) {
         double[] expected = new double[vocab.length];
-        for (int it = 0; it < emIterations; it++) {
+        for (int it = 0; it < emPasses; it++) {
           double ll = em.iterate(vocab, logp, expected, pool);
           listener.progress("em", ++step, -1, "round " + round + ", iteration " + (it + 1) + ", " + vocab.length
               + " tokens, log-likelihood " + ll);
@@ -223,7 +229,8 @@ public final class Training implements Learner {
         if (vocab.length <= target) {
           break;
         }
-        int newSize = Math.max(target, (int) (vocab.length * shrinkFactor));
+        // at least one token goes per round, whatever the share (rounding could otherwise keep them all)
+        int newSize = Math.max(target, Math.min(vocab.length - 1, (int) (vocab.length * keepShare)));
         int[] keep = prune(vocab, logp, expected, newSize);
         String[] v = new String[keep.length];
         double[] lp = new double[keep.length];

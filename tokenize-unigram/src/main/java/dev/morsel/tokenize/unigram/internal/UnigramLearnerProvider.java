@@ -22,13 +22,13 @@ public final class UnigramLearnerProvider implements LearnerProvider {
       LearnerOption.of(RAW_BYTES, Boolean.toString(Training.DEFAULT_RAW_BYTES),
           "characters outside the vocabulary become their UTF-8 bytes, not the unknown token"),
       LearnerOption.of(UNKNOWN_TOKEN, UnigramSegmenter.DEFAULT_UNKNOWN, "the spelling of the unknown token"),
-      LearnerOption.of(CANDIDATE_MULTIPLE, Integer.toString(Training.DEFAULT_SEED_FACTOR),
+      LearnerOption.of(CANDIDATE_MULTIPLE, Integer.toString(Training.DEFAULT_CANDIDATE_MULTIPLE),
           "seed candidates as a multiple of the pieces wanted (1..1000)"),
-      LearnerOption.of(MAX_TOKEN_CODE_POINTS, Integer.toString(Training.DEFAULT_MAX_TOKEN_LENGTH),
+      LearnerOption.of(MAX_TOKEN_CODE_POINTS, Integer.toString(Training.DEFAULT_MAX_TOKEN_CODE_POINTS),
           "longest token learned, in code points (1..64)"),
-      LearnerOption.of(KEEP_SHARE, Double.toString(Training.DEFAULT_SHRINK_FACTOR),
-          "share of the vocabulary each pruning round keeps, in (0, 1)"),
-      LearnerOption.of(EM_PASSES, Integer.toString(Training.DEFAULT_EM_ITERATIONS), "EM passes before each pruning round (1..100)"),
+      LearnerOption.of(KEEP_SHARE, Double.toString(Training.DEFAULT_KEEP_SHARE),
+          "share of the vocabulary each pruning round keeps, in (0, 0.99]"),
+      LearnerOption.of(EM_PASSES, Integer.toString(Training.DEFAULT_EM_PASSES), "EM passes before each pruning round (1..100)"),
       LearnerOption.of(SEED_TABLE_LIMIT, Integer.toString(Training.DEFAULT_SEED_TABLE_LIMIT),
           "entries of the seed substring table before rare ones are dropped"),
       LearnerOption.of(MAX_PIECE_LENGTH, Integer.toString(Training.DEFAULT_MAX_PIECE_LENGTH),
@@ -58,7 +58,7 @@ public final class UnigramLearnerProvider implements LearnerProvider {
     String unknown = options.string(UNKNOWN_TOKEN);
     int candidates = options.intValue(CANDIDATE_MULTIPLE, 1, 1000);
     int tokenLength = options.intValue(MAX_TOKEN_CODE_POINTS, 1, 64);
-    double keep = options.doubleValue(KEEP_SHARE, 0, 1, false);
+    double keep = options.doubleValue(KEEP_SHARE, 0, 1, false); // (0.99, 1) is refused by Training, naming keepShare
     int passes = options.intValue(EM_PASSES, 1, 100);
     int seedTable = options.intValue(SEED_TABLE_LIMIT, 1000, 100_000_000);
     int pieceLength = options.intValue(MAX_PIECE_LENGTH, 1, 1 << 26);

@@ -1,7 +1,9 @@
 package dev.morsel.tokenize.unigram.internal;
 
 import dev.morsel.tokenize.format.ModelFormatException;
+import dev.morsel.tokenize.format.ModelLimits;
 import dev.morsel.tokenize.format.ModelSections;
+import dev.morsel.tokenize.format.ReviewDocument;
 import dev.morsel.tokenize.format.SectionReader;
 import dev.morsel.tokenize.spi.Segmenter;
 import dev.morsel.tokenize.spi.SegmenterProvider;
@@ -20,8 +22,6 @@ import dev.morsel.tokenize.spi.SegmenterProvider;
  * Errors are {@link ModelFormatException}s naming the section and the entry index.
  */
 public final class UnigramProvider implements SegmenterProvider {
-  /** Largest reserved-token count accepted (reason: a forged count must not drive allocation). */
-  private static final int MAX_RESERVED = 1 << 16;
   /** Smallest encoded piece entry: a u32 length and an f64 (bytes); content is checked per entry. */
   private static final int MIN_PIECE_BYTES = 4 + 8;
 
@@ -34,7 +34,12 @@ public final class UnigramProvider implements SegmenterProvider {
   }
 
   @Override
-  public Segmenter read(ModelSections sections) {
+  public Segmenter readReview(ReviewDocument review) {
+    return UnigramReview.read(review);
+  }
+
+  @Override
+  public Segmenter read(ModelSections sections, ModelLimits limits) {
     SectionReader st = sections.reader(UnigramSegmenter.SETTINGS);
     int version = st.getInt("format version");
     if (version != UnigramSegmenter.FORMAT_VERSION) {
@@ -44,20 +49,20 @@ public final class UnigramProvider implements SegmenterProvider {
     if (flag > 1) {
       throw st.fail("byte fallback flag " + flag + " is not 0 or 1");
     }
-    String unknown = st.getString("unknown token");
-    int k = st.getCount("reserved tokens", MAX_RESERVED, 4);
+    String unknown = limits.readToken(st, "unknown token");
+    int k = limits.readReservedCount(st, "reserved tokens", 4);
     String[] reserved = new String[k];
     for (int i = 0; i < k; i++) {
-      reserved[i] = st.getString("reserved token " + i);
+      reserved[i] = limits.readToken(st, "reserved token " + i);
     }
     st.expectEnd();
 
     SectionReader vo = sections.reader(UnigramSegmenter.PIECES);
-    int m = vo.getCount("pieces", Integer.MAX_VALUE / MIN_PIECE_BYTES, MIN_PIECE_BYTES);
+    int m = limits.readVocabularyCount(vo, "pieces", MIN_PIECE_BYTES);
     String[] pieces = new String[m];
     double[] scores = new double[m];
     for (int i = 0; i < m; i++) {
-      pieces[i] = vo.getString("piece " + i);
+      pieces[i] = limits.readToken(vo, "piece " + i);
       scores[i] = vo.getDouble("score of piece " + i);
     }
     vo.expectEnd();

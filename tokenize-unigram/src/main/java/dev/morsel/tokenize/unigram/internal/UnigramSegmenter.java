@@ -3,11 +3,14 @@ package dev.morsel.tokenize.unigram.internal;
 import dev.morsel.tokenize.Tokenizer;
 import dev.morsel.tokenize.Tokenizers;
 import dev.morsel.tokenize.format.ModelWriter;
+import dev.morsel.tokenize.format.ReviewWriter;
 import dev.morsel.tokenize.format.SectionWriter;
 import dev.morsel.tokenize.internal.PieceTable;
 import dev.morsel.tokenize.spi.ByteSink;
 import dev.morsel.tokenize.spi.Segmenter;
 import dev.morsel.tokenize.spi.TokenSink;
+import dev.morsel.tokenize.spi.Workspace;
+import dev.morsel.tokenize.spi.WorkspacePool;
 import it.unimi.dsi.fastutil.ints.IntHeapPriorityQueue;
 import it.unimi.dsi.fastutil.objects.Object2IntOpenHashMap;
 import java.nio.charset.StandardCharsets;
@@ -21,20 +24,21 @@ import java.util.random.RandomGenerator;
 /**
  * A unigram language-model segmenter [1]: every token has a log-probability and a piece is split
  * into the tokens whose probabilities multiply to the most (Viterbi), or into the k best such
- * splits, or into a split drawn at random for subword regularization. Immutable and thread-safe;
- * encoding uses per-thread scratch arrays and allocates nothing per token.
+ * splits, or into a split drawn at random for subword regularization.
  *
  * <p>Id layout: reserved tokens at {@code 0..k-1} (never produced by segmentation); then, with raw
  * bytes on, 256 byte tokens; then the unknown token; then the pieces. A character that no
  * single-character piece covers becomes the unknown token, or with raw bytes its UTF-8 bytes as
  * byte tokens, each spanning that whole character. A lone surrogate counts as U+FFFD for raw bytes.
+ * Immutable and thread-safe; encoding works in a {@link Scratch} workspace lent to each call and
+ * allocates nothing per token.
  *
  * <p>Design notes. Viterbi [1, section 3.1; 2] runs left to right: from every reachable position
  * the piece trie lists the tokens that start there, O(n · L) for a piece of n chars and longest
  * token L. Where the character at a position is not itself a token an extra edge of one code point
  * carries the unknown token (byte tokens on output with byte fallback), so every piece has a path.
  * Ties keep the first relaxation (the path whose last token starts earliest). Pieces of up to
- * {@value PieceCache#MAX_CHARS} chars go through a per-thread {@link PieceCache} first. The n-best list is
+ * {@value PieceCache#MAX_CHARS} chars go through the workspace's {@link PieceCache} first. The n-best list is
  * A* search from the start with the exact best-suffix score as heuristic. Sampling filters backward
  * (log-sum-exp of {@code alpha * score} over all suffixes) and then samples forward token by token
  * [1, section 2.2 and 3.1]; this is the mirror image of forward filtering with backward sampling and
@@ -63,7 +67,7 @@ public final class UnigramSegmenter implements Segmenter {
   static final int FORMAT_VERSION = 1;
   /** How far below the lowest piece the unknown token scores (common practice: a clear penalty, in nats). */
   static final double UNKNOWN_PENALTY = 10.0;
-  /** Pieces longer than this are kept in a throw-away scratch rather than the per-thread one (chars). */
+  /** Pieces longer than this are segmented in a throw-away scratch rather than the workspace's (chars). */
   private static final int KEEP_SCRATCH = 1 << 16;
   /** A* pops allowed per result and position before n-best gives up (bounds time on tied lattices). */
   private static final int POPS_PER_RESULT_AND_POSITION = 8;
@@ -86,7 +90,8 @@ public final class UnigramSegmenter implements Segmenter {
   private final String[] reserved;
   private final String[] pieces;
   private final double[] pieceScores;
-  private final ThreadLocal<Scratch> scratch = ThreadLocal.withInitial(Scratch::new);
+  /** Workspaces for calls that bring none (n-best, sampling, direct use); owned by this segmenter. */
+  private final WorkspacePool<Scratch> own = WorkspacePool.of(Scratch::new);
 
   // ------------------------------------------------------------------ life-cycle
 
@@ -218,6 +223,7 @@ public final class UnigramSegmenter implements Segmenter {
    */
   private PieceTable wholePieces(String[] pieces) {
     String[] keep = new String[score.length];
+    Scratch probe = new Scratch();
     int[] found = new int[2]; // the first token, the token count
     TokenSink count = (tid, a, b) -> {
       if (found[1]++ == 0) {
@@ -231,7 +237,7 @@ public final class UnigramSegmenter implements Segmenter {
         continue;
       }
       found[1] = 0;
-      viterbi(p, 0, n, scratchFor(n), count);
+      viterbi(p, 0, n, scratchFor(n, probe), count);
       if (found[1] == 1 && found[0] == firstPiece + i) {
         keep[firstPiece + i] = p;
       }
@@ -380,8 +386,34 @@ public final class UnigramSegmenter implements Segmenter {
     }
   }
 
+  /** Writes the {@code vocabulary} section of a review text, with each piece's score. */
+  @Override
+  public void writeReview(ReviewWriter out) {
+    UnigramReview.write(out, this);
+  }
+
   @Override
   public void segment(CharSequence text, int start, int end, TokenSink sink) {
+    Scratch s = own.take();
+    try {
+      segment(text, start, end, sink, s);
+    } finally {
+      own.give(s);
+    }
+  }
+
+  /** A workspace of a few hundred bytes; Viterbi arrays grow with the pieces, the cache comes on first use. */
+  @Override
+  public Workspace newWorkspace() {
+    return new Scratch();
+  }
+
+  @Override
+  public void segment(CharSequence text, int start, int end, TokenSink sink, Workspace workspace) {
+    if (!(workspace instanceof Scratch)) {
+      segment(text, start, end, sink);
+      return;
+    }
     checkRange(text, start, end);
     int n = end - start;
     if (n == 0) {
@@ -392,12 +424,12 @@ public final class UnigramSegmenter implements Segmenter {
       sink.token(id, start, end);
       return;
     }
-    Scratch s = scratchFor(n);
+    Scratch s = scratchFor(n, (Scratch) workspace);
     if (n > PieceCache.MAX_CHARS) {
       viterbi(text, start, end, s, sink);
       return;
     }
-    PieceCache cache = s.cache;
+    PieceCache cache = s.cache();
     int slot = cache.slot(text, start, end);
     if (cache.matches(slot, text, start, end)) {
       cache.replay(slot, start, sink);
@@ -491,7 +523,7 @@ public final class UnigramSegmenter implements Segmenter {
       out.add(new Segmentation0().build(0));
       return out;
     }
-    Scratch s = scratchFor(n);
+    Scratch s = scratchFor(n, new Scratch()); // n-best allocates its search nodes anyway
     double[] suffix = new double[n + 1];
     int[] edgeEnd = s.edgeEnd;
     int[] edgeId = s.edgeId;
@@ -557,7 +589,38 @@ public final class UnigramSegmenter implements Segmenter {
     if (n == 0) {
       return;
     }
-    Scratch s = scratchFor(n);
+    Scratch taken = own.take();
+    try {
+      sample(text, start, end, alpha, random, sink, scratchFor(n, taken));
+    } finally {
+      own.give(taken);
+    }
+  }
+
+  /**
+   * As {@link #sample(CharSequence, int, int, double, RandomGenerator, TokenSink)}, with working memory
+   * from {@code workspace} if it is one of this segmenter's (null: its own).
+   */
+  public void sample(CharSequence text, int start, int end, double alpha, RandomGenerator random, TokenSink sink,
+      Workspace workspace) {
+    if (!(workspace instanceof Scratch)) {
+      sample(text, start, end, alpha, random, sink);
+      return;
+    }
+    checkRange(text, start, end);
+    if (!(alpha > 0) || Double.isInfinite(alpha)) {
+      throw new IllegalArgumentException("alpha=" + alpha + " must be a positive finite number");
+    }
+    Objects.requireNonNull(random, "random");
+    int n = end - start;
+    if (n > 0) {
+      sample(text, start, end, alpha, random, sink, scratchFor(n, (Scratch) workspace));
+    }
+  }
+
+  private void sample(CharSequence text, int start, int end, double alpha, RandomGenerator random, TokenSink sink,
+      Scratch s) {
+    int n = end - start;
     double[] beta = s.best;
     int[] edgeEnd = s.edgeEnd;
     int[] edgeId = s.edgeId;
@@ -697,13 +760,11 @@ public final class UnigramSegmenter implements Segmenter {
     return b.build(nodes.g[last]);
   }
 
-  private Scratch scratchFor(int n) {
+  /** {@code s} ready for a piece of {@code n} chars, or a throw-away scratch for a huge piece. */
+  private Scratch scratchFor(int n, Scratch s) {
     if (n > KEEP_SCRATCH) {
-      Scratch s = new Scratch();
-      s.ensure(n, trie.maxDepth());
-      return s;
+      s = new Scratch();
     }
-    Scratch s = scratch.get();
     s.ensure(n, trie.maxDepth());
     return s;
   }
@@ -724,8 +785,8 @@ public final class UnigramSegmenter implements Segmenter {
 
   // ------------------------------------------------------------------ helper types
 
-  /** Per-thread work arrays, grown on demand. */
-  private static final class Scratch {
+  /** One encode call's work arrays, grown on demand; the piece cache is made on first use. */
+  private static final class Scratch extends Workspace {
     double[] best = new double[0];
     int[] backPos = new int[0];
     int[] backId = new int[0];
@@ -733,8 +794,17 @@ public final class UnigramSegmenter implements Segmenter {
     int[] pathId = new int[0];
     int[] edgeEnd = new int[0];
     int[] edgeId = new int[0];
-    final PieceCache cache = new PieceCache();
+    private PieceCache cache;
     final Recorder recorder = new Recorder();
+
+    PieceCache cache() {
+      PieceCache c = cache;
+      if (c == null) {
+        c = new PieceCache();
+        cache = c;
+      }
+      return c;
+    }
 
     void ensure(int n, int depth) {
       if (best.length < n + 1) {

@@ -1,6 +1,8 @@
 package dev.morsel.tokenize.wordpiece.internal;
 
+import dev.morsel.tokenize.format.ModelLimits;
 import dev.morsel.tokenize.format.ModelSections;
+import dev.morsel.tokenize.format.ReviewDocument;
 import dev.morsel.tokenize.spi.Segmenter;
 import dev.morsel.tokenize.spi.SegmenterProvider;
 
@@ -18,7 +20,12 @@ public final class WordPieceProvider implements SegmenterProvider {
   }
 
   @Override
-  public Segmenter read(ModelSections sections) {
-    return WordPieceSegmenter.read(sections);
+  public Segmenter read(ModelSections sections, ModelLimits limits) {
+    return WordPieceSegmenter.read(sections, limits);
+  }
+
+  @Override
+  public Segmenter readReview(ReviewDocument review) {
+    return WordPieceSegmenter.readReview(review);
   }
 }

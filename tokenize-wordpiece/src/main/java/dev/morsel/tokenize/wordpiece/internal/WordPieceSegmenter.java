@@ -2,15 +2,21 @@ package dev.morsel.tokenize.wordpiece.internal;
 
 import dev.morsel.tokenize.internal.PieceTable;
 import dev.morsel.tokenize.format.ModelFormatException;
+import dev.morsel.tokenize.format.ModelLimits;
 import dev.morsel.tokenize.format.ModelSections;
 import dev.morsel.tokenize.format.ModelWriter;
+import dev.morsel.tokenize.format.ReviewDocument;
+import dev.morsel.tokenize.format.ReviewText;
+import dev.morsel.tokenize.format.ReviewWriter;
 import dev.morsel.tokenize.format.SectionReader;
 import dev.morsel.tokenize.format.SectionWriter;
 import dev.morsel.tokenize.spi.ByteSink;
 import dev.morsel.tokenize.spi.Segmenter;
 import dev.morsel.tokenize.spi.TokenSink;
+import dev.morsel.tokenize.spi.Workspace;
+import dev.morsel.tokenize.spi.WorkspacePool;
 import it.unimi.dsi.fastutil.objects.Object2IntOpenHashMap;
-import java.io.IOException;
+import java.io.BufferedReader;
 import java.io.Reader;
 import java.io.UncheckedIOException;
 import java.nio.charset.StandardCharsets;
@@ -20,7 +26,7 @@ import java.util.Objects;
 /**
  * A WordPiece segmenter: each piece is segmented greedily, longest match first, against a
  * vocabulary of word-initial and continuation tokens; a piece that cannot be covered, or that is
- * longer than {@link WordPieceSettings#maxPieceLength()}, becomes the unknown token as a whole.
+ * longer than {@link #pieceLimit()}, becomes the unknown token as a whole.
  * Immutable and thread-safe; {@link #segment} allocates nothing in steady state and runs in time
  * linear in the piece length on every input (LinMaxMatch [3]).
  *
@@ -55,14 +61,16 @@ public final class WordPieceSegmenter implements Segmenter {
   /** Most tokens a vocabulary may hold (keeps trie keys and pop runs in int range). */
   public static final int MAX_VOCABULARY_SIZE = 1 << 24;
 
-  private static final byte RESERVED = 0;
-  private static final byte UNKNOWN = 1;
-  private static final byte INITIAL = 2;
-  private static final byte CONTINUATION = 3;
+  static final byte RESERVED = 0;
+  static final byte UNKNOWN = 1;
+  static final byte INITIAL = 2;
+  static final byte CONTINUATION = 3;
 
   // ------------------------------------------------------------------ state
 
   private final WordPieceSettings settings;
+  /** The piece limit in force: the settings' explicit one, or the one derived from the vocabulary. */
+  private final int pieceLimit;
   private final int reservedCount;
   private final int unknownId;
   private final String[] spellings;
@@ -80,7 +88,8 @@ public final class WordPieceSegmenter implements Segmenter {
    * 22.7 / 21.3 MB/s with.
    */
   private final PieceTable whole;
-  private final ThreadLocal<int[]> scratch;
+  /** Workspaces for calls that bring none; owned by this segmenter. */
+  private final WorkspacePool<Matches> own;
 
   // ------------------------------------------------------------------ life-cycle
 
@@ -161,20 +170,33 @@ public final class WordPieceSegmenter implements Segmenter {
       at += bytes[i].length;
     }
     decodeStart[n] = at;
+    boolean derived = settings.maxPieceLength() == WordPieceSettings.DERIVED_PIECE_LENGTH;
+    try {
+      trie = new LinMaxMatchTrie(bodies, cont, derived ? WordPieceSettings.MAX_MAX_PIECE_LENGTH
+          : settings.maxPieceLength());
+    } catch (IllegalArgumentException e) {
+      throw errors.fail(-1, e.getMessage());
+    }
+    pieceLimit = derived ? derivedPieceLimit(trie.nodeCount()) : settings.maxPieceLength();
     String[] initial = new String[n];
     for (int i = 0; i < n; i++) {
-      if (bodies[i] != null && !cont[i] && bodies[i].length() <= settings.maxPieceLength()) {
+      if (bodies[i] != null && !cont[i] && bodies[i].length() <= pieceLimit) {
         initial[i] = bodies[i];
       }
     }
     whole = PieceTable.of(initial);
-    try {
-      trie = new LinMaxMatchTrie(bodies, cont, settings.maxPieceLength());
-    } catch (IllegalArgumentException e) {
-      throw errors.fail(-1, e.getMessage());
-    }
-    int scratchSize = settings.maxPieceLength();
-    scratch = ThreadLocal.withInitial(() -> new int[scratchSize]);
+    int scratchSize = pieceLimit;
+    own = WorkspacePool.of(() -> new Matches(scratchSize));
+  }
+
+  /**
+   * The limit derived from a LinMaxMatch trie of {@code trieNodes} nodes: that many UTF-16 units, at
+   * most {@link WordPieceSettings#MAX_MAX_PIECE_LENGTH} (reason in {@link
+   * WordPieceSettings#DERIVED_PIECE_LENGTH}). A trie has a node for every prefix of every token text,
+   * so the limit is never below the longest token.
+   */
+  static int derivedPieceLimit(int trieNodes) {
+    return Math.min(WordPieceSettings.MAX_MAX_PIECE_LENGTH, trieNodes);
   }
 
   /** Maps a validation failure at an entry (or -1 for the whole) to an exception. */
@@ -198,8 +220,8 @@ public final class WordPieceSegmenter implements Segmenter {
   }
 
   /**
-   * Reads a plain token list (UTF-8 text, one spelling a line in id order; escapes {@code \\},
-   * {@code \n}, {@code \r}, {@code \t}, {@code \}{@code uXXXX}) laid out as in {@link #of}.
+   * Reads a plain token list: one token spelling a line, in id order, in the review text's field
+   * escaping ({@link ReviewText#readTextLines}), laid out as in {@link #of}.
    *
    * @param source names the input in error messages, for example a file name
    * @throws ModelFormatException naming the line if a line is malformed or the vocabulary is invalid
@@ -209,9 +231,22 @@ public final class WordPieceSegmenter implements Segmenter {
       WordPieceSettings settings) {
     Objects.requireNonNull(in, "in");
     Objects.requireNonNull(source, "source");
-    List<String> tokens = TokenListText.read(in, source);
+    List<String> tokens = ReviewText.readTextLines(in instanceof BufferedReader ? (BufferedReader) in
+        : new BufferedReader(in), source);
     return new WordPieceSegmenter(tokens, reservedCount, settings,
-        (i, m) -> new ModelFormatException(i < 0 ? source : source + " line " + (i + 1), m));
+        (i, m) -> i < 0 ? new ModelFormatException(source, m) : ModelFormatException.atLine(source, i + 1, m));
+  }
+
+  /**
+   * Reads a segmenter from its sections of a review text ({@code settings}, {@code vocabulary}),
+   * validating everything before building.
+   *
+   * @throws ModelFormatException naming the line and column that is wrong
+   */
+  public static WordPieceSegmenter readReview(ReviewDocument review) {
+    WordPieceReview.Read r = WordPieceReview.read(review);
+    return new WordPieceSegmenter(r.tokens, r.reservedCount, r.settings,
+        (i, m) -> i < 0 ? r.section.fail(m) : r.rows[i].fail(2, m));
   }
 
   /**
@@ -221,6 +256,15 @@ public final class WordPieceSegmenter implements Segmenter {
    * @throws ModelFormatException naming the section and entry that is wrong
    */
   public static WordPieceSegmenter read(ModelSections sections) {
+    return read(sections, ModelLimits.defaults());
+  }
+
+  /**
+   * As {@link #read(ModelSections)}, with the token count and every token checked against {@code limits}.
+   *
+   * @throws ModelFormatException naming the section and entry that is wrong, or the limit exceeded
+   */
+  public static WordPieceSegmenter read(ModelSections sections, ModelLimits limits) {
     SectionReader st = sections.reader(SETTINGS_TAG);
     int version = st.getInt("format version");
     if (version != FORMAT_VERSION) {
@@ -239,10 +283,10 @@ public final class WordPieceSegmenter implements Segmenter {
       throw new ModelFormatException(SETTINGS_TAG, e.getMessage(), e);
     }
     SectionReader vo = sections.reader(VOCABULARY_TAG);
-    int n = vo.getCount("token", MAX_VOCABULARY_SIZE, 4);
+    int n = limits.readVocabularyCount(vo, "tokens", 4);
     String[] tokens = new String[n];
     for (int i = 0; i < n; i++) {
-      tokens[i] = vo.getString("token " + i);
+      tokens[i] = limits.readToken(vo, "token " + i);
     }
     vo.expectEnd();
     if (reservedCount < 0 || reservedCount >= n) {
@@ -285,6 +329,16 @@ public final class WordPieceSegmenter implements Segmenter {
     return settings;
   }
 
+  /**
+   * The longest piece, in UTF-16 units, that is segmented; longer pieces become the unknown token.
+   * The settings' {@link WordPieceSettings#maxPieceLength()} if set, else derived from the vocabulary:
+   * the number of nodes of its LinMaxMatch trie (see {@link WordPieceSettings#DERIVED_PIECE_LENGTH}
+   * for the reason).
+   */
+  public int pieceLimit() {
+    return pieceLimit;
+  }
+
   /** Number of reserved tokens (ids {@code 0..reservedCount-1}). */
   public int reservedCount() {
     return reservedCount;
@@ -320,19 +374,10 @@ public final class WordPieceSegmenter implements Segmenter {
     return List.of(spellings);
   }
 
-  /**
-   * Writes the vocabulary as a plain token list readable by {@link #readTokenList}.
-   *
-   * @throws UncheckedIOException if {@code out} fails
-   */
-  public void writeTokenList(Appendable out) {
-    try {
-      for (String s : spellings) {
-        TokenListText.writeLine(out, s);
-      }
-    } catch (IOException e) {
-      throw new UncheckedIOException(e);
-    }
+  /** Writes the {@code settings} and {@code vocabulary} sections of a review text. */
+  @Override
+  public void writeReview(ReviewWriter out) {
+    WordPieceReview.write(out, settings, spellings, kinds);
   }
 
   /**
@@ -346,8 +391,8 @@ public final class WordPieceSegmenter implements Segmenter {
     Objects.checkFromToIndex(start, end, text.length());
     String piece = text.subSequence(start, end).toString();
     java.util.ArrayList<String> out = new java.util.ArrayList<>();
-    if (piece.length() > settings.maxPieceLength()) {
-      out.add("the piece has " + piece.length() + " chars, over maxPieceLength=" + settings.maxPieceLength()
+    if (piece.length() > pieceLimit) {
+      out.add("the piece has " + piece.length() + " chars, over the piece limit " + pieceLimit
           + ": unknown token '" + settings.unknownToken() + "'");
       return out;
     }
@@ -381,17 +426,37 @@ public final class WordPieceSegmenter implements Segmenter {
    * {@inheritDoc}
    *
    * <p>The piece is segmented greedily, longest match first; if it cannot be covered or is longer
-   * than {@link WordPieceSettings#maxPieceLength()}, one unknown token spans the whole piece. The
+   * than {@link #pieceLimit()}, one unknown token spans the whole piece. The
    * sink must not call back into this segmenter on the same thread.
    */
   @Override
   public void segment(CharSequence text, int start, int end, TokenSink sink) {
+    Matches m = own.take();
+    try {
+      segment(text, start, end, sink, m);
+    } finally {
+      own.give(m);
+    }
+  }
+
+  /** A workspace of one int per char of the {@link #pieceLimit() piece limit}. */
+  @Override
+  public Workspace newWorkspace() {
+    return new Matches(pieceLimit);
+  }
+
+  @Override
+  public void segment(CharSequence text, int start, int end, TokenSink sink, Workspace workspace) {
+    if (!(workspace instanceof Matches)) {
+      segment(text, start, end, sink);
+      return;
+    }
     Objects.checkFromToIndex(start, end, text.length());
     int len = end - start;
     if (len == 0) {
       return;
     }
-    if (len > settings.maxPieceLength()) {
+    if (len > pieceLimit) {
       sink.token(unknownId, start, end);
       return;
     }
@@ -400,7 +465,7 @@ public final class WordPieceSegmenter implements Segmenter {
       sink.token(id0, start, end);
       return;
     }
-    int[] buf = scratch.get();
+    int[] buf = ((Matches) workspace).ids;
     int n = trie.match(text, start, end, buf);
     if (n < 0) {
       sink.token(unknownId, start, end);
@@ -439,6 +504,15 @@ public final class WordPieceSegmenter implements Segmenter {
   }
 
   // ------------------------------------------------------------------ internals (diagnostics)
+
+  /** One encode call's match buffer: the ids of one piece, at most one per char. */
+  private static final class Matches extends Workspace {
+    final int[] ids;
+
+    Matches(int size) {
+      ids = new int[size];
+    }
+  }
 
   /** Number of trie nodes (both roots included); for memory diagnostics and benchmarks. */
   int trieNodeCount() {

@@ -8,7 +8,8 @@ import java.util.Objects;
  *
  * <p>Defaults: marker {@value #DEFAULT_MARKER} (U+2218 RING OPERATOR; a token {@code "∘ry"} is the
  * continuation {@code "ry"}), unknown spelling {@value #DEFAULT_UNKNOWN} (U+2370, a boxed question
- * mark), {@code maxPieceLength} {@value #DEFAULT_MAX_PIECE_LENGTH}.
+ * mark), {@code maxPieceLength} {@value #DERIVED_PIECE_LENGTH}: derived from the vocabulary (see
+ * {@link #DERIVED_PIECE_LENGTH}).
  *
  * @since 0.1.0
  */
@@ -18,15 +19,28 @@ public final class WordPieceSettings {
   /** Default unknown token spelling: U+2370 (a question mark in a box). */
   public static final String DEFAULT_UNKNOWN = "\u2370";
   /**
-   * Default {@link #maxPieceLength()}, in UTF-16 units: longer pieces become the unknown token. 100
-   * units is far above any word of ordinary prose and bounds per-piece scratch space.
+   * The {@link #maxPieceLength()} that asks for a limit derived from the vocabulary, and the default.
+   * The derived limit is the number of nodes of the vocabulary's LinMaxMatch trie (one per distinct
+   * prefix of a token text, so never below the longest token), at most {@link
+   * #MAX_MAX_PIECE_LENGTH}; {@link WordPieceSegmenter#pieceLimit()} gives it.
+   *
+   * <p>Reason: the limit exists for memory, not for time. LinMaxMatch segments a piece of n units in
+   * O(n) steps whatever the vocabulary [Song et al. 2021, "Fast WordPiece Tokenization", §3], so no
+   * length needs cutting off to keep encoding fast. What grows with the piece is the per-thread
+   * scratch of token ids, one {@code int} per unit, since the whole piece may still turn out unknown.
+   * With the limit at the trie's node count that scratch is never larger than one of the trie's own
+   * per-node arrays (the trie keeps several), so memory per thread scales with the model and never
+   * with the input; and since every token text is a path of the trie, every token can still be
+   * matched. Measured on a 3,000-token model trained on the Europarl sample: a limit of 4,444 units
+   * against a longest piece of 64 units in the whole sample (see {@code docs/wordpiece.md}), so in
+   * practice only long runs without a break become the unknown token.
    */
-  public static final int DEFAULT_MAX_PIECE_LENGTH = 100;
+  public static final int DERIVED_PIECE_LENGTH = 0;
   /** Largest allowed {@link #maxPieceLength()}, in UTF-16 units (bounds per-thread scratch arrays). */
   public static final int MAX_MAX_PIECE_LENGTH = 1 << 20;
 
   private static final WordPieceSettings DEFAULTS =
-      new WordPieceSettings(DEFAULT_MARKER, DEFAULT_UNKNOWN, DEFAULT_MAX_PIECE_LENGTH);
+      new WordPieceSettings(DEFAULT_MARKER, DEFAULT_UNKNOWN, DERIVED_PIECE_LENGTH);
 
   private final String marker;
   private final String unknownToken;
@@ -53,7 +67,10 @@ public final class WordPieceSettings {
     return unknownToken;
   }
 
-  /** Longest piece, in UTF-16 units, that is segmented; longer pieces become the unknown token. */
+  /**
+   * Longest piece, in UTF-16 units, that is segmented; longer pieces become the unknown token. {@value
+   * #DERIVED_PIECE_LENGTH} ({@link #DERIVED_PIECE_LENGTH}) means: derived from the vocabulary.
+   */
   public int maxPieceLength() {
     return maxPieceLength;
   }
@@ -77,9 +94,10 @@ public final class WordPieceSettings {
   }
 
   /**
-   * These settings with another piece limit.
+   * These settings with another piece limit: a length in UTF-16 units, or {@link
+   * #DERIVED_PIECE_LENGTH} for the limit derived from the vocabulary.
    *
-   * @throws IllegalArgumentException if {@code maxPieceLength} is outside {@code [1, }{@value #MAX_MAX_PIECE_LENGTH}{@code ]}
+   * @throws IllegalArgumentException if {@code maxPieceLength} is outside {@code [0, }{@value #MAX_MAX_PIECE_LENGTH}{@code ]}
    */
   public WordPieceSettings withMaxPieceLength(int maxPieceLength) {
     return new WordPieceSettings(marker, unknownToken, checkMaxPieceLength(maxPieceLength));
@@ -113,9 +131,9 @@ public final class WordPieceSettings {
   }
 
   static int checkMaxPieceLength(int maxPieceLength) {
-    if (maxPieceLength < 1 || maxPieceLength > MAX_MAX_PIECE_LENGTH) {
-      throw new IllegalArgumentException("maxPieceLength=" + maxPieceLength + " is outside [1, "
-          + MAX_MAX_PIECE_LENGTH + "]");
+    if (maxPieceLength < 0 || maxPieceLength > MAX_MAX_PIECE_LENGTH) {
+      throw new IllegalArgumentException("maxPieceLength=" + maxPieceLength + " is outside [0, "
+          + MAX_MAX_PIECE_LENGTH + "] (0: derived from the vocabulary)");
     }
     return maxPieceLength;
   }
@@ -152,6 +170,6 @@ public final class WordPieceSettings {
   @Override
   public String toString() {
     return "WordPieceSettings[marker=" + marker + ", unknownToken=" + unknownToken + ", maxPieceLength="
-        + maxPieceLength + "]";
+        + (maxPieceLength == DERIVED_PIECE_LENGTH ? "derived" : Integer.toString(maxPieceLength)) + "]";
   }
 }

@@ -28,7 +28,9 @@ import java.util.Set;
  * <p>Contract of {@link #train}:
  * <ol>
  *   <li>Pieces with a count below {@code minCount} are dropped, and so are pieces longer than the
- *       settings' {@link WordPieceSettings#maxPieceLength()}: the encoder maps them to the unknown
+ *       piece limit (the settings' {@link WordPieceSettings#maxPieceLength()}, or when that is derived,
+ *       {@code vocabularySize}, the derived limit of the largest model training can make; see {@link
+ *       WordPieceSegmenter#pieceLimit()}): the encoder maps them to the unknown
  *       token as a whole, and the work of every merge that touches a piece grows with its length
  *       (one 100 MB piece would keep training busy for hours).
  *   <li>The count-weighted number of UTF-16 units of the kept pieces must fit a long (unit and pair
@@ -36,9 +38,10 @@ import java.util.Set;
  *   <li>Alphabet: the code points of the pieces, ranked by total occurrences (count-weighted), ties
  *       by smaller code point; the first {@code maxAlphabet} are kept. Pieces holding any other code
  *       point are left out of training (the encoder maps such pieces to the unknown token anyway).
- *       The initial units are the forms that occur: the word-initial form of a piece's first code
- *       point and the continuation form of the others; ids follow the alphabet rank, word-initial
- *       form first.
+ *       The initial units are both forms (word-initial and continuation) of every code point that
+ *       occurs in a piece lying wholly inside the alphabet, so every such piece stays encodable
+ *       whichever position its code points take at encode time; ids follow the alphabet rank,
+ *       word-initial form first.
  *   <li>Merges: each piece is a sequence of units; repeatedly the adjacent pair (a, b) with the
  *       highest score is merged everywhere (leftmost first within a piece) into the unit ab, which
  *       keeps a's form. Counts are count-weighted occurrences in the current segmentation (pair
@@ -392,9 +395,15 @@ public final class WordPieceTraining implements Learner {
       return WordPieceSegmenter.of(vocab, reservedTokens.size(), settings);
     }
 
-    /** The pieces no longer than maxPieceLength; fails if none is left or counts could overflow. */
+    /**
+     * The pieces no longer than the piece limit (the settings' explicit one, or else {@code
+     * vocabularySize} units: the trained vocabulary's trie has a node per distinct token text, so
+     * its derived limit is about that large or larger, and a kept piece stays within it); fails if
+     * none is left or counts could overflow.
+     */
     private PieceCounts withinLimits(PieceCounts kept) {
-      int limit = settings.maxPieceLength();
+      int limit = settings.maxPieceLength() == WordPieceSettings.DERIVED_PIECE_LENGTH
+          ? Math.min(vocabularySize, WordPieceSettings.MAX_MAX_PIECE_LENGTH) : settings.maxPieceLength();
       int n = 0;
       long weighted = 0;
       for (int i = 0; i < kept.size(); i++) {
@@ -413,8 +422,10 @@ public final class WordPieceTraining implements Learner {
         return kept;
       }
       if (n == 0) {
-        throw new IllegalArgumentException("every piece is longer than maxPieceLength=" + limit + " UTF-16 units:"
-            + " nothing to train on (raise it with WordPieceSettings.withMaxPieceLength)");
+        throw new IllegalArgumentException("every piece is longer than the piece limit of " + limit + " UTF-16 units ("
+            + (settings.maxPieceLength() == WordPieceSettings.DERIVED_PIECE_LENGTH ? "maxPieceLength derived from"
+            + " vocabularySize=" + vocabularySize : "maxPieceLength=" + limit) + "): nothing to train on (raise it with"
+            + " WordPieceSettings.withMaxPieceLength)");
       }
       String[] pieces = new String[n];
       long[] c = new long[n];
@@ -489,12 +500,14 @@ public final class WordPieceTraining implements Learner {
         throw new IllegalArgumentException("no piece lies inside the alphabet of maxAlphabet=" + maxAlphabet
             + " code points");
       }
+      // Both forms of every code point that occurs in a usable piece: a code point seen only after
+      // '-' or '/' in training (the second half of "по-широко") still starts a piece at encode time
+      // when the splitter cuts there, and one seen only word-initially still continues a longer
+      // piece; with both forms every piece made of alphabet code points is encodable.
       for (int r = 0; r < keep; r++) {
         String s = new String(Character.toChars(cps[order[r]]));
-        if (initialSeen[r]) {
+        if (initialSeen[r] || contSeen[r]) {
           addUnit(s, false);
-        }
-        if (contSeen[r]) {
           addUnit(s, true);
         }
       }
