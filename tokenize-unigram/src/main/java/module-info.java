@@ -4,10 +4,12 @@
  * a package that is not exported.
  */
 module dev.morsel.tokenize.unigram {
-  requires transitive dev.morsel.tokenize; // our public types expose Segmenter, PieceCounts, TokenSink
+  requires transitive dev.morsel.tokenize; // our public types expose Segmenter, TokenSink
+  requires transitive dev.morsel.tokenize.train; // and PieceCounts
   requires it.unimi.dsi.fastutil.core;
 
   exports dev.morsel.tokenize.unigram;
 
   provides dev.morsel.tokenize.spi.SegmenterProvider with dev.morsel.tokenize.unigram.internal.UnigramProvider;
+  provides dev.morsel.tokenize.train.LearnerProvider with dev.morsel.tokenize.unigram.internal.UnigramLearnerProvider;
 }

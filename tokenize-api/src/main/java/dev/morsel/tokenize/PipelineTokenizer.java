@@ -4,6 +4,7 @@ import dev.morsel.tokenize.format.ModelFile;
 import dev.morsel.tokenize.format.ModelWriter;
 import dev.morsel.tokenize.format.SectionWriter;
 import dev.morsel.tokenize.normalize.NormalizedText;
+import dev.morsel.tokenize.spi.PieceSegmentation;
 import dev.morsel.tokenize.spi.Segmenter;
 import dev.morsel.tokenize.spi.TokenSink;
 import dev.morsel.tokenize.spi.Workspace;
@@ -312,6 +313,25 @@ final class PipelineTokenizer implements Tokenizer {
     return out;
   }
 
+  /** Like {@link #encode(CharSequence, Trust)}, each piece segmented by {@code how}. */
+  Tokens encodeWith(CharSequence text, Trust trust, PieceSegmentation how) {
+    limits.checkText(text, "text");
+    Objects.requireNonNull(trust, "trust");
+    Objects.requireNonNull(how, "how");
+    Context s = take();
+    s.how = how;
+    try {
+      Tokens.Builder b = s.builder;
+      frame(b, beginIds, 0, 0);
+      content(s, text, trust, 0);
+      frame(b, endIds, text.length(), 0);
+      return b.build();
+    } finally {
+      s.how = null;
+      give(s);
+    }
+  }
+
   @Override
   public int count(CharSequence text, Trust trust) {
     limits.checkText(text, "text");
@@ -600,6 +620,7 @@ final class PipelineTokenizer implements Tokenizer {
     int segment;
     boolean counting; // count() only: tokens are counted, not mapped or stored
     int counted;
+    PieceSegmentation how; // encodeWith() only: segments each piece instead of the segmenter
 
     final TokenSink tokenSink;
     final PieceSink pieceSink;
@@ -615,7 +636,12 @@ final class PipelineTokenizer implements Tokenizer {
           NormalizedText n = norm;
           t.limits.throwPieceTooLong(end - start, n.spanStart(start), n.spanEnd(end));
         }
-        segmenter.segment(normalized, start, end, tokenSink, ws);
+        PieceSegmentation h = how;
+        if (h == null) {
+          segmenter.segment(normalized, start, end, tokenSink, ws);
+        } else {
+          h.segment(segmenter, normalized, start, end, tokenSink);
+        }
       };
     }
 

@@ -6,6 +6,7 @@ import dev.morsel.tokenize.format.ModelLimits;
 import dev.morsel.tokenize.format.ModelSections;
 import dev.morsel.tokenize.format.SectionReader;
 import dev.morsel.tokenize.normalize.Normalization;
+import dev.morsel.tokenize.spi.PieceSegmentation;
 import dev.morsel.tokenize.spi.Segmenter;
 import dev.morsel.tokenize.spi.SegmenterProvider;
 import dev.morsel.tokenize.split.Splitting;
@@ -45,9 +46,25 @@ public final class Tokenizers {
     return of(Pipeline.defaults(), segmenter);
   }
 
-  /** A tokenizer with the given pipeline, the segmenter's own reserved tokens and no framing. */
+  /**
+   * A tokenizer with the given pipeline, the segmenter's own reserved tokens ({@link
+   * Segmenter#reservedSpellings()} at ids {@code 0..k-1}) and no framing.
+   */
   public static Tokenizer of(Pipeline pipeline, Segmenter segmenter) {
-    return of(pipeline, segmenter, segmenter.reservedTokens(), Template.none());
+    return of(pipeline, segmenter, ownReserved(segmenter), Template.none());
+  }
+
+  /** The segmenter's own reserved tokens: {@link Segmenter#reservedSpellings()} at ids {@code 0..k-1}. */
+  static ReservedTokens ownReserved(Segmenter segmenter) {
+    List<String> spellings = segmenter.reservedSpellings();
+    if (spellings.isEmpty()) {
+      return ReservedTokens.none();
+    }
+    ReservedTokens.Builder b = ReservedTokens.builder();
+    for (int i = 0; i < spellings.size(); i++) {
+      b.add(spellings.get(i), i);
+    }
+    return b.build();
   }
 
   /** Loads a model file with {@link ModelLimits#defaults()}, validating it fully before building anything. */
@@ -175,6 +192,35 @@ public final class Tokenizers {
   }
 
   /**
+   * The segmenter of a tokenizer made by this class (for a segmenter module's own extra features, or
+   * to assemble it with another pipeline on purpose).
+   *
+   * @throws IllegalArgumentException if {@code tokenizer} was not made by this class
+   */
+  public static Segmenter segmenterOf(Tokenizer tokenizer) {
+    return pipelineTokenizer(tokenizer).segmenter();
+  }
+
+  /**
+   * Encodes {@code text} like {@link Tokenizer#encode(CharSequence, Trust)} — reserved-token scan,
+   * normalization, splitting, framing, offsets into the original text — but with every piece
+   * segmented by {@code how} instead of the segmenter's own {@link Segmenter#segment}. The hook for a
+   * segmenter module's extra ways of encoding a loaded tokenizer (sampling, n-best lists).
+   *
+   * @throws IllegalArgumentException if {@code tokenizer} was not made by this class
+   */
+  public static Tokens encodeWith(Tokenizer tokenizer, CharSequence text, Trust trust, PieceSegmentation how) {
+    return pipelineTokenizer(tokenizer).encodeWith(text, trust, how);
+  }
+
+  private static PipelineTokenizer pipelineTokenizer(Tokenizer tokenizer) {
+    if (!(Objects.requireNonNull(tokenizer, "tokenizer") instanceof PipelineTokenizer)) {
+      throw new IllegalArgumentException("not a tokenizer made by Tokenizers: " + tokenizer.getClass().getName());
+    }
+    return (PipelineTokenizer) tokenizer;
+  }
+
+  /**
    * Reads only the segmenter of a validated model file (for example to change its own settings, such
    * as a cache size, before assembling a tokenizer with {@link #of(Pipeline, Segmenter)}), with
    * {@link ModelLimits#defaults()}.
@@ -253,7 +299,7 @@ public final class Tokenizers {
     }
     f.expectEnd();
     Segmenter segmenter = provider.read(sections, limits);
-    ReservedTokens own = segmenter.reservedTokens();
+    ReservedTokens own = ownReserved(segmenter);
     ReservedTokens reserved;
     if (sameAs(own, ids, spellings)) {
       reserved = own; // the usual case: one list, already validated by the segmenter, is not built twice
@@ -298,7 +344,7 @@ public final class Tokenizers {
    * that both lists hold must be bound the same way in both. Linear in the two lists.
    */
   private static void checkAgree(ReservedTokens api, Segmenter segmenter, ModelSections sections) {
-    ReservedTokens own = segmenter.reservedTokens();
+    ReservedTokens own = ownReserved(segmenter);
     if (own.isEmpty() || api.isEmpty()) {
       return;
     }

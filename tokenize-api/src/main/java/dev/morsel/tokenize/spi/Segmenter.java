@@ -21,12 +21,12 @@ public interface Segmenter {
   String kind();
 
   /**
-   * The reserved tokens this segmenter's vocabulary reserves (spelling to id), as a trainer reserved
-   * them; none by default. {@link dev.morsel.tokenize.Tokenizers#of(dev.morsel.tokenize.Pipeline,
-   * Segmenter)} registers them.
+   * The spellings of the reserved tokens this segmenter's vocabulary holds at ids {@code 0..k-1}, in
+   * id order, as a learner reserved them; none by default. {@link
+   * dev.morsel.tokenize.Tokenizers#of(dev.morsel.tokenize.Pipeline, Segmenter)} registers them.
    */
-  default dev.morsel.tokenize.ReservedTokens reservedTokens() {
-    return dev.morsel.tokenize.ReservedTokens.none();
+  default java.util.List<String> reservedSpellings() {
+    return java.util.List.of();
   }
 
   /** Number of ids in the vocabulary. */

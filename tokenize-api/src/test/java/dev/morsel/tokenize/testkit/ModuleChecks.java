@@ -28,6 +28,8 @@ import java.util.stream.Stream;
 public final class ModuleChecks {
   /** The segmenter SPI. */
   public static final String SPI = "dev.morsel.tokenize.spi.SegmenterProvider";
+  /** The learner SPI. */
+  public static final String LEARNER_SPI = "dev.morsel.tokenize.train.LearnerProvider";
 
   private static final Path CLASSES = Paths.get("target/classes");
 
@@ -81,26 +83,43 @@ public final class ModuleChecks {
   }
 
   /**
-   * The module {@code provides} the segmenter SPI with exactly {@code providers}, re-exports only the
-   * api, and its {@code META-INF/services} file (for the class path) names the same providers.
+   * The module {@code provides} the segmenter SPI with exactly {@code segmenters} and the learner SPI
+   * with exactly {@code learners} (either may be empty), re-exports only the api and the training
+   * module, and its {@code META-INF/services} files (for the class path) name the same providers.
    */
-  public static void assertProvidesSegmenters(Set<String> providers) {
+  public static void assertProvides(Set<String> segmenters, Set<String> learners) {
     ModuleDescriptor d = descriptor();
     Map<String, Set<String>> provides = new TreeMap<>();
     for (ModuleDescriptor.Provides p : d.provides()) {
       provides.put(p.service(), new TreeSet<>(p.providers()));
     }
-    assertEquals(Map.of(SPI, new TreeSet<>(providers)), provides);
-    assertEquals(Set.of("dev.morsel.tokenize"), d.requires().stream()
+    Map<String, Set<String>> want = new TreeMap<>();
+    if (!segmenters.isEmpty()) {
+      want.put(SPI, new TreeSet<>(segmenters));
+    }
+    if (!learners.isEmpty()) {
+      want.put(LEARNER_SPI, new TreeSet<>(learners));
+    }
+    assertEquals(want, provides);
+    assertTrue(Set.of("dev.morsel.tokenize", "dev.morsel.tokenize.train").containsAll(d.requires().stream()
         .filter(r -> r.modifiers().contains(ModuleDescriptor.Requires.Modifier.TRANSITIVE))
-        .map(ModuleDescriptor.Requires::name).collect(Collectors.toSet()),
-        "only the api is re-exported to users");
-    Path services = CLASSES.resolve("META-INF/services/" + SPI);
+        .map(ModuleDescriptor.Requires::name).collect(Collectors.toSet())),
+        "only the api and the training module are re-exported to users: " + d.requires());
+    for (Map.Entry<String, Set<String>> e : want.entrySet()) {
+      assertEquals(e.getValue(), servicesFile(e.getKey()), "META-INF/services/" + e.getKey());
+    }
+  }
+
+  /** The providers a {@code META-INF/services} file of the module under test names (empty if none). */
+  public static Set<String> servicesFile(String service) {
+    Path services = CLASSES.resolve("META-INF/services/" + service);
+    if (!Files.isRegularFile(services)) {
+      return Set.of();
+    }
     try {
-      Set<String> listed = Arrays.stream(Files.readString(services, StandardCharsets.UTF_8).split("\n"))
+      return Arrays.stream(Files.readString(services, StandardCharsets.UTF_8).split("\n"))
           .map(String::strip).filter(s -> !s.isEmpty() && !s.startsWith("#"))
           .collect(Collectors.toCollection(TreeSet::new));
-      assertEquals(new TreeSet<>(providers), listed, services.toString());
     } catch (IOException e) {
       throw new UncheckedIOException(e);
     }

@@ -241,7 +241,7 @@ public final class BenchSummary {
     Map<String, java.util.function.Supplier<Double>> p = new LinkedHashMap<>();
     p.put("first_encode_bytes_bpe", () -> MemoryProbes.firstEncodeBytes(Models.with(Models.pipeline(), Models.bpeSegmenter())));
     p.put("first_encode_bytes_wordpiece", () -> MemoryProbes.firstEncodeBytes(Models.with(Models.pipeline(), Models.wordpieceSegmenter())));
-    p.put("first_encode_bytes_unigram", () -> MemoryProbes.firstEncodeBytes(Models.with(Models.pipeline(), Models.unigramSegmenter())));
+    p.put("first_encode_bytes_unigram", () -> MemoryProbes.firstEncodeBytes(Models.unigram()));
     p.put("reload_retained_kib", () -> MemoryProbes.reloadRetainedKib(Models.bpeFile()));
     return p;
   }

@@ -77,7 +77,7 @@ public class EngineBenchmarks {
     ideal = IdealTable.build(bodies, rules, Models.bpeSegmenter());
     bpe = Models.with(Models.pipeline(), Models.bpeSegmenter());
     wordpiece = Models.with(Models.pipeline(), Models.wordpieceSegmenter());
-    unigram = Models.with(Models.pipeline(), Models.unigramSegmenter());
+    unigram = Models.unigram();
   }
 
   /** {@code ideal_table}: split, then every piece's tokens copied from the precomputed table. */

@@ -6,16 +6,14 @@ import dev.morsel.tokenize.Template;
 import dev.morsel.tokenize.Tokenizer;
 import dev.morsel.tokenize.Tokenizers;
 import dev.morsel.tokenize.bpe.BpeSegmenter;
-import dev.morsel.tokenize.bpe.BpeLearner;
 import dev.morsel.tokenize.format.ModelFile;
 import dev.morsel.tokenize.normalize.Normalization;
 import dev.morsel.tokenize.split.Splitting;
+import dev.morsel.tokenize.train.LearnerSettings;
+import dev.morsel.tokenize.train.Learners;
 import dev.morsel.tokenize.train.PieceCounter;
 import dev.morsel.tokenize.train.PieceCounts;
-import dev.morsel.tokenize.unigram.UnigramModel;
-import dev.morsel.tokenize.unigram.UnigramLearner;
 import dev.morsel.tokenize.wordpiece.WordPieceSegmenter;
-import dev.morsel.tokenize.wordpiece.WordPieceLearner;
 import java.io.IOException;
 import java.io.UncheckedIOException;
 import java.nio.file.Files;
@@ -70,8 +68,7 @@ public final class Models {
   /** The 32k BPE model file, trained on first use. */
   public static Path bpeFile() {
     return cached("bpe-32k.morsel", () -> {
-      BpeSegmenter s = BpeLearner.builder().vocabularySize(BPE_SIZE).build().train(counts());
-      return Tokenizers.of(pipeline(), s, s.reservedTokens(), Template.none());
+      return Learners.learner("bpe", LearnerSettings.of(BPE_SIZE)).train(counts());
     });
   }
 
@@ -88,8 +85,7 @@ public final class Models {
   /** The 30k WordPiece model file, trained on first use. */
   public static Path wordpieceFile() {
     return cached("wordpiece-30k.morsel", () -> {
-      WordPieceSegmenter s = WordPieceLearner.builder().vocabularySize(WORDPIECE_SIZE).build().train(counts());
-      return Tokenizers.of(pipeline(), s, s.reservedTokens(), Template.none());
+      return Learners.learner("wordpiece", LearnerSettings.of(WORDPIECE_SIZE)).train(counts());
     });
   }
 
@@ -107,16 +103,16 @@ public final class Models {
   public static Path unigramFile() {
     return cached("unigram-32k.morsel", () -> {
       long t0 = System.nanoTime();
-      UnigramModel s = UnigramLearner.builder().vocabularySize(UNIGRAM_SIZE).rawBytes(true).build().train(counts());
+      Tokenizer t = Learners.learner("unigram", LearnerSettings.of(UNIGRAM_SIZE), "raw-bytes=true").train(counts());
       System.err.printf(java.util.Locale.ROOT, "trained unigram %d in %.1f s, peak heap %d MB%n", UNIGRAM_SIZE,
           (System.nanoTime() - t0) / 1e9, peakHeapBytes() >> 20);
-      return Tokenizers.of(pipeline(), s);
+      return t;
     });
   }
 
-  /** The 32k unigram segmenter itself. */
-  public static UnigramModel unigramSegmenter() {
-    return (UnigramModel) Tokenizers.segmenterOf(ModelFile.read(unigramFile()));
+  /** The 32k unigram tokenizer. */
+  public static Tokenizer unigram() {
+    return Tokenizers.load(unigramFile());
   }
 
   /** The sum of the heap memory pools' peak usage since the JVM started, in bytes. */

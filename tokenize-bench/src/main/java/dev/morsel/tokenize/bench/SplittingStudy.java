@@ -4,14 +4,12 @@ import dev.morsel.tokenize.Pipeline;
 import dev.morsel.tokenize.Tokenizer;
 import dev.morsel.tokenize.Tokenizers;
 import dev.morsel.tokenize.Tokens;
-import dev.morsel.tokenize.bpe.BpeLearner;
 import dev.morsel.tokenize.normalize.Normalization;
-import dev.morsel.tokenize.spi.Segmenter;
 import dev.morsel.tokenize.split.Splitting;
+import dev.morsel.tokenize.train.LearnerSettings;
+import dev.morsel.tokenize.train.Learners;
 import dev.morsel.tokenize.train.PieceCounter;
 import dev.morsel.tokenize.train.PieceCounts;
-import dev.morsel.tokenize.unigram.UnigramLearner;
-import dev.morsel.tokenize.wordpiece.WordPieceLearner;
 import java.io.IOException;
 import java.io.UncheckedIOException;
 import java.nio.charset.StandardCharsets;
@@ -107,7 +105,7 @@ public final class SplittingStudy {
         Pipeline p = Pipeline.of(Normalization.of(Normalization.Form.NFC), s);
         long t0 = System.nanoTime();
         PieceCounts counts = PieceCounter.builder().pipeline(p).threads(2).build().count(train);
-        Tokenizer t = Tokenizers.of(p, train(scheme, counts, size));
+        Tokenizer t = Learners.learner(scheme, LearnerSettings.of(size).withThreads(2)).train(counts);
         double seconds = (System.nanoTime() - t0) / 1e9;
         long words = 0;
         long bytes = 0;
@@ -126,19 +124,6 @@ public final class SplittingStudy {
         System.out.printf(Locale.ROOT, "| `%s` | %.4f | %.3f | %d | %.1f |%n", s.spec(), (double) tokens / words,
             (double) bytes / tokens, failures, seconds);
       }
-    }
-  }
-
-  private static Segmenter train(String scheme, PieceCounts counts, int size) {
-    switch (scheme) {
-      case "bpe":
-        return BpeLearner.builder().vocabularySize(size).threads(2).build().train(counts);
-      case "wordpiece":
-        return WordPieceLearner.builder().vocabularySize(size).build().train(counts);
-      case "unigram":
-        return UnigramLearner.builder().vocabularySize(size).rawBytes(true).threads(2).build().train(counts);
-      default:
-        throw new IllegalArgumentException("unknown scheme '" + scheme + "'; expected bpe, wordpiece or unigram");
     }
   }
 

@@ -1,6 +1,7 @@
 package dev.morsel.tokenize.bench;
 
-import dev.morsel.tokenize.bpe.BpeLearner;
+import dev.morsel.tokenize.train.LearnerSettings;
+import dev.morsel.tokenize.train.Learners;
 import dev.morsel.tokenize.train.PieceCounter;
 import dev.morsel.tokenize.train.PieceCounts;
 import java.util.List;
@@ -49,6 +50,6 @@ public class TrainingBenchmarks {
   /** {@code bpe_train_32k_s}: learn a 32k BPE vocabulary from the counts. */
   @Benchmark
   public Object trainBpe32k() {
-    return BpeLearner.builder().vocabularySize(Models.BPE_SIZE).build().train(counts);
+    return Learners.learner("bpe", LearnerSettings.of(Models.BPE_SIZE)).train(counts);
   }
 }

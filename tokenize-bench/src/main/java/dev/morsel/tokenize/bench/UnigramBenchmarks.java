@@ -1,7 +1,7 @@
 package dev.morsel.tokenize.bench;
 
 import dev.morsel.tokenize.Tokenizer;
-import dev.morsel.tokenize.unigram.UnigramModel;
+import dev.morsel.tokenize.Tokenizers;
 import java.util.List;
 import java.util.concurrent.TimeUnit;
 import org.openjdk.jmh.annotations.Benchmark;
@@ -41,9 +41,8 @@ public class UnigramBenchmarks {
   @Setup
   public void setup() {
     bodies = Corpus.bodies();
-    UnigramModel s = Models.unigramSegmenter();
-    trained = Models.with(Models.pipeline(), s);
-    unsplit = Models.with(Models.unsplit(), s);
+    trained = Models.unigram();
+    unsplit = Tokenizers.of(Models.unsplit(), Tokenizers.segmenterOf(trained));
     prose1m = Corpus.prose(1 << 20);
     adversarial1m = Corpus.adversarial(1 << 20, 1);
     adversarial100k = Corpus.adversarial(100 << 10, 1);

@@ -7,7 +7,6 @@ import dev.morsel.tokenize.Tokenizers;
 import dev.morsel.tokenize.train.PieceCounter;
 import dev.morsel.tokenize.train.PieceCounts;
 import dev.morsel.tokenize.unigram.UnigramLearner;
-import dev.morsel.tokenize.unigram.UnigramModel;
 import java.io.IOException;
 import java.io.PrintStream;
 import java.io.UncheckedIOException;
@@ -259,7 +258,7 @@ public final class UnigramSettingsGrid {
     peak.reset();
     long cpu0 = processCpuNanos();
     long t0 = System.nanoTime();
-    UnigramModel model = learner.train(counts);
+    Tokenizer t = learner.train(counts); // bound to the counted pipeline
     long millis = (System.nanoTime() - t0) / 1_000_000;
     long cpuMillis = (processCpuNanos() - cpu0) / 1_000_000;
     long live = Math.max(0, peak.get() - before);
@@ -270,13 +269,12 @@ public final class UnigramSettingsGrid {
       }
     }
     poolPeak = Math.max(0, poolPeak - before);
-    Tokenizer t = Tokenizers.of(pipeline, model);
     long tokens = 0;
     for (String s : held) {
       tokens += t.encode(s).size();
     }
     return new Row(p.setting(), p.value(), (double) tokens / words, millis, cpuMillis, live >> 20, poolPeak >> 20,
-        model.vocabularySize(), ManagementFactory.getOperatingSystemMXBean().getSystemLoadAverage());
+        t.vocabularySize(), ManagementFactory.getOperatingSystemMXBean().getSystemLoadAverage());
   }
 
   private static long processCpuNanos() {

@@ -58,7 +58,7 @@ public class VirtualThreadBenchmarks {
     two = java.util.concurrent.Executors.newFixedThreadPool(2);
     bpe = Models.with(Models.pipeline(), Models.bpeSegmenter());
     wordpiece = Models.with(Models.pipeline(), Models.wordpieceSegmenter());
-    unigram = Models.with(Models.pipeline(), Models.unigramSegmenter());
+    unigram = Models.unigram();
   }
 
   /** {@code vthreads_bpe}. */

@@ -218,9 +218,13 @@ public final class BpeSegmenter implements Segmenter {
   }
 
   /** The reserved tokens given to the trainer, ids {@code 0..k-1}, for assembling a tokenizer. */
-  @Override
   public ReservedTokens reservedTokens() {
     return reservedTokens;
+  }
+
+  @Override
+  public List<String> reservedSpellings() {
+    return reservedTokens.spellings();
   }
 
   /** Number of merges. */

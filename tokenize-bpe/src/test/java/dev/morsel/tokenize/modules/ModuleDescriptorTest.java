@@ -4,18 +4,20 @@ import static org.junit.jupiter.api.Assertions.assertTrue;
 
 import dev.morsel.tokenize.Tokenizers;
 import dev.morsel.tokenize.testkit.ModuleChecks;
+import dev.morsel.tokenize.train.Learners;
 import java.util.Set;
 import org.junit.jupiter.api.Test;
 
 /**
  * The compiled module descriptor of {@code tokenize-bpe} ({@link ModuleChecks}): only the public
  * packages are exported, every other compiled package is an {@code internal} one, the segmenter
- * providers are declared with {@code provides … with …} for the module path, and the
- * {@code META-INF/services} file names the same providers for the class path.
+ * and learner providers are declared with {@code provides … with …} for the module path, and the
+ * {@code META-INF/services} files name the same providers for the class path.
  */
 class ModuleDescriptorTest {
-  private static final Set<String> PUBLIC_PACKAGES = Set.of("dev.morsel.tokenize.bpe", "dev.morsel.tokenize.wordpiece");
-  private static final Set<String> PROVIDERS = Set.of("dev.morsel.tokenize.bpe.internal.BpeProvider", "dev.morsel.tokenize.wordpiece.internal.WordPieceProvider");
+  private static final Set<String> PUBLIC_PACKAGES = Set.of("dev.morsel.tokenize.bpe");
+  private static final Set<String> PROVIDERS = Set.of("dev.morsel.tokenize.bpe.internal.BpeProvider");
+  private static final Set<String> LEARNERS = Set.of("dev.morsel.tokenize.bpe.internal.BpeLearnerProvider");
 
   @Test
   void exportsExactlyThePublicPackagesToEveryone() {
@@ -28,9 +30,10 @@ class ModuleDescriptorTest {
   }
 
   @Test
-  void providesTheSegmentersOnTheModulePathAndTheClassPathAlike() {
-    ModuleChecks.assertProvidesSegmenters(PROVIDERS);
+  void providesTheSegmenterAndItsLearnerOnTheModulePathAndTheClassPathAlike() {
+    ModuleChecks.assertProvides(PROVIDERS, LEARNERS);
     // on the class path (how these tests run) the api's loader finds them by kind
-    assertTrue(Tokenizers.kinds().containsAll(Set.of("bpe", "wordpiece")), "kinds found: " + Tokenizers.kinds());
+    assertTrue(Tokenizers.kinds().containsAll(Set.of("bpe")), "kinds found: " + Tokenizers.kinds());
+    assertTrue(Learners.schemes().contains("bpe"), "schemes found: " + Learners.schemes());
   }
 }

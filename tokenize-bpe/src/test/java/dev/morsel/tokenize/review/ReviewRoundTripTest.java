@@ -6,7 +6,6 @@ import static org.junit.jupiter.api.Assertions.assertNotEquals;
 import static org.junit.jupiter.api.Assertions.assertThrows;
 import static org.junit.jupiter.api.Assertions.assertTrue;
 
-import dev.morsel.tokenize.ReservedTokens;
 import dev.morsel.tokenize.Pipeline;
 import dev.morsel.tokenize.Template;
 import dev.morsel.tokenize.Tokenizer;
@@ -60,8 +59,7 @@ class ReviewRoundTripTest {
   }
 
   private static Tokenizer framed(Pipeline p, Segmenter s) {
-    ReservedTokens reserved = s.reservedTokens();
-    return Tokenizers.of(p, s, reserved, Template.of(List.of(AGENT), List.of(PAUSE, AGENT), List.of(PAUSE)));
+    return Tokenizers.of(p, s).withTemplate(Template.of(List.of(AGENT), List.of(PAUSE, AGENT), List.of(PAUSE)));
   }
 
   private static String review(Tokenizer t) {

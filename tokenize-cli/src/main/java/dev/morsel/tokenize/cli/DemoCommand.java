@@ -83,7 +83,7 @@ final class DemoCommand implements Callable<Integer> {
       long s0 = System.nanoTime();
       Tokenizer t;
       try (Progress progress = Progress.onTerminal()) {
-        t = Schemes.plan(scheme, pipeline, vocabularySize, List.of(), 0, threads).train(counts, progress);
+        t = Schemes.plan(scheme, vocabularySize, List.of(), 0, List.of(), threads).train(counts, progress);
       }
       TrainCommand.shortfall(spec.commandLine().getErr(), "demo", scheme, vocabularySize, t.vocabularySize());
       Path model = out.resolve(scheme + ".morsel");

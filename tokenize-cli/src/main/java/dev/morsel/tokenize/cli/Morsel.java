@@ -6,7 +6,7 @@ import picocli.CommandLine.Command;
 import picocli.CommandLine.Option;
 
 /**
- * The {@code morsel} command: train, encode, decode, inspect, sweep, bench, demo.
+ * The {@code morsel} command: train, encode, decode, inspect, sweep, bench, demo, schemes.
  *
  * <p>Exit codes: 0 on success, 2 on bad usage (unknown option, missing argument, bad value), 1 when
  * the work itself failed (unreadable corpus, corrupt model, malformed ids). Errors are one line on
@@ -15,7 +15,7 @@ import picocli.CommandLine.Option;
 @Command(name = "morsel", mixinStandardHelpOptions = true, separator = " ", versionProvider = Morsel.Version.class,
     description = "Train subword vocabularies, encode and decode text with exact offsets, measure before you deploy.",
     subcommands = {TrainCommand.class, EncodeCommand.class, DecodeCommand.class, InspectCommand.class, ReviewCommand.class,
-        SweepCommand.class, BenchCommand.class, DemoCommand.class, CommandLine.HelpCommand.class},
+        SweepCommand.class, BenchCommand.class, DemoCommand.class, SchemesCommand.class, CommandLine.HelpCommand.class},
     footer = {"", "Examples:", "  morsel demo",
         "  morsel train --scheme bpe --vocab-size 2000 --out ferry.morsel \\",
         "      morsel-demo/corpus/*.txt",

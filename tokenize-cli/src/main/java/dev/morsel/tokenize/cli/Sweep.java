@@ -105,7 +105,7 @@ final class Sweep {
         long t0 = System.nanoTime();
         Tokenizer t;
         try {
-          t = Schemes.plan(scheme, pipeline, size, List.of(), alphabet, threads).train(counts, TrainingListener.NONE);
+          t = Schemes.plan(scheme, size, List.of(), alphabet, List.of(), threads).train(counts, TrainingListener.NONE);
         } catch (IllegalArgumentException | Morsel.UsageException e) {
           String reason = e.getMessage();
           notes.printf("morsel sweep: %s at %d is not feasible: %s%n", scheme, size, reason);

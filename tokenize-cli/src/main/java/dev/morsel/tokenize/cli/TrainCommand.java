@@ -36,8 +36,14 @@ final class TrainCommand implements Callable<Integer> {
   @Parameters(paramLabel = "CORPUS", description = "Files, folders, globs, or - for standard input (default).")
   List<String> corpus = new ArrayList<>();
 
-  @Option(names = "--scheme", paramLabel = "NAME", defaultValue = "bpe", description = "bpe, wordpiece or unigram (default: ${DEFAULT-VALUE}).")
+  @Option(names = "--scheme", paramLabel = "NAME", defaultValue = "bpe",
+      description = "A scheme on the class path: ${COMPLETION-CANDIDATES} (default: ${DEFAULT-VALUE}; options: morsel schemes).",
+      completionCandidates = SchemesCommand.Names.class)
   String scheme;
+
+  @Option(names = "--option", paramLabel = "NAME=VALUE",
+      description = "A scheme option, for example min-pair-count=3 (repeatable; morsel schemes lists them with their defaults).")
+  List<String> options = new ArrayList<>();
 
   @Option(names = "--vocab-size", paramLabel = "N", defaultValue = "8000",
       description = "Vocabulary size, reserved tokens included (default: ${DEFAULT-VALUE}). A corpus too small to fill it gives fewer ids, said on standard error.")
@@ -80,7 +86,7 @@ final class TrainCommand implements Callable<Integer> {
       throw new Morsel.UsageException("--max-pieces must be positive, got " + maxPieces);
     }
     Pipeline pipeline = pipeline(normalize, split);
-    Schemes.Plan plan = Schemes.plan(scheme, pipeline, vocabularySize, reserved, alphabet(alphabet), threads);
+    Schemes.Plan plan = Schemes.plan(scheme, vocabularySize, reserved, alphabet(alphabet), options, threads);
     Utf8Lines.Malformed policy = badUtf8.policy();
     if (Files.isDirectory(out)) {
       throw new Morsel.UsageException("--out " + out + " is a folder; name the model file to write");

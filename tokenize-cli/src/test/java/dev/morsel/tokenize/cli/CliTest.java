@@ -202,6 +202,40 @@ class CliTest {
     assertEquals(0, run("train", "--help").code());
   }
 
+  /** The tool lists and builds schemes through the learner service interface: listing, options and their errors. */
+  @Test
+  void schemesAndTheirOptionsComeFromTheLearnerProviders() throws Exception {
+    Run list = run("schemes");
+    assertEquals(0, list.code(), list.err());
+    for (dev.morsel.tokenize.train.LearnerProvider p : dev.morsel.tokenize.train.Learners.providers()) {
+      assertTrue(list.out().contains(p.scheme() + "  " + p.description()), list.out());
+      for (dev.morsel.tokenize.train.LearnerOption o : p.options()) {
+        assertTrue(list.out().contains("--option " + o.name() + "=" + o.defaultValue()), list.out());
+      }
+    }
+    assertEquals(List.of("bpe", "unigram", "wordpiece"), Schemes.NAMES, "the three modules on the tool's class path");
+    Path plain = dir.resolve("plain.morsel");
+    Path tight = dir.resolve("tight.morsel");
+    assertEquals(0, run("train", "--vocab-size", "400", "--out", plain.toString(), corpus.toString()).code());
+    Run option = run("train", "--vocab-size", "400", "--option", "max-token-bytes=3", "--out", tight.toString(), corpus.toString());
+    assertEquals(0, option.code(), option.err());
+    dev.morsel.tokenize.Tokenizer t = dev.morsel.tokenize.Tokenizers.load(tight);
+    for (int id = 0; id < t.vocabularySize(); id++) {
+      assertTrue(t.tokenBytes(id).length <= 3, "max-token-bytes=3 reached the learner: token " + id);
+    }
+    assertFalse(dev.morsel.tokenize.Tokenizers.load(plain).fingerprint().equals(t.fingerprint()));
+    Run unknown = run("train", "--option", "max-token-length=3", "--out", tight.toString(), corpus.toString());
+    assertEquals(Morsel.USAGE, unknown.code());
+    assertTrue(unknown.err().contains("bpe has no option 'max-token-length'") && unknown.err().contains("max-token-bytes"),
+        unknown.err());
+    Run value = run("train", "--scheme", "unigram", "--option", "raw-bytes=maybe", "--out", tight.toString(), corpus.toString());
+    assertEquals(Morsel.USAGE, value.code());
+    assertTrue(value.err().contains("unigram option raw-bytes=maybe"), value.err());
+    Run form = run("train", "--option", "max-token-bytes", "--out", tight.toString(), corpus.toString());
+    assertEquals(Morsel.USAGE, form.code());
+    assertTrue(form.err().contains("not name=value"), form.err());
+  }
+
   @Test
   void sweepWritesACsvRowPerSchemeAndSizeAndOneChartPerFigure() throws Exception {
     Path out = dir.resolve("sweep");

@@ -22,7 +22,6 @@ import dev.morsel.tokenize.format.ModelLimits;
 import dev.morsel.tokenize.normalize.Normalization;
 import dev.morsel.tokenize.train.PieceCounter;
 import dev.morsel.tokenize.train.PieceCounts;
-import dev.morsel.tokenize.unigram.UnigramModel;
 import dev.morsel.tokenize.unigram.UnigramLearner;
 import dev.morsel.tokenize.wordpiece.WordPieceSegmenter;
 import dev.morsel.tokenize.wordpiece.WordPieceLearner;
@@ -114,7 +113,7 @@ class GuideExamplesTest {
     Map<String, Tokenizer> candidates = new LinkedHashMap<>();
     candidates.put("bpe", Tokenizers.of(BpeLearner.builder().vocabularySize(1000).build().train(counts)));
     candidates.put("wordpiece", Tokenizers.of(WordPieceLearner.builder().vocabularySize(1000).build().train(counts)));
-    candidates.put("unigram", Tokenizers.of(UnigramLearner.builder().vocabularySize(1000).build().train(counts)));
+    candidates.put("unigram", UnigramLearner.builder().vocabularySize(1000).build().train(counts));
 
     List<String> held = Files.readAllLines(heldOut);                 // lines the trainers never saw
     long words = held.stream().mapToLong(line -> line.split("\\s+").length).sum();

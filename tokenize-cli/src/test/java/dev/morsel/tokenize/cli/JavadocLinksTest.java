@@ -36,7 +36,7 @@ class JavadocLinksTest {
   private static final Pattern ID = Pattern.compile("\\b(?:id|name)=\"([^\"]*)\"");
 
   @ParameterizedTest
-  @ValueSource(strings = {"tokenize-api", "tokenize-bpe", "tokenize-unigram"})
+  @ValueSource(strings = {"tokenize-api", "tokenize-train", "tokenize-bpe", "tokenize-wordpiece", "tokenize-unigram"})
   void everyLinkResolves(String module) throws IOException {
     Path jar = Paths.get("..", module, "target", module + "-0.1.0-SNAPSHOT-javadoc.jar");
     assumeTrue(Files.isRegularFile(jar), "no Javadoc jar yet (run ./mvnw verify): " + jar);

@@ -36,10 +36,12 @@ class BomTest {
       assertEquals("dev.morsel", it.text("groupId"))
       it.text("artifactId")!! to it.text("version")
     }
-    assertEquals(setOf("tokenize-api", "tokenize-bpe", "tokenize-unigram", "tokenize-spark", "tokenize-lucene"), artifacts.keys)
+    assertEquals(setOf("tokenize-api", "tokenize-train", "tokenize-bpe", "tokenize-wordpiece", "tokenize-unigram", "tokenize-spark",
+        "tokenize-lucene"), artifacts.keys)
     assertTrue(artifacts.values.all { it == "\${project.version}" }, "versions: $artifacts")
     // every library module of this build is in the BOM
-    for (module in listOf("tokenize-api", "tokenize-bpe", "tokenize-unigram", "tokenize-spark", "tokenize-lucene")) {
+    for (module in listOf("tokenize-api", "tokenize-train", "tokenize-bpe", "tokenize-wordpiece", "tokenize-unigram",
+        "tokenize-spark", "tokenize-lucene")) {
       assertTrue(Files.isRegularFile(Paths.get("../$module/pom.xml")), "$module has no pom")
     }
   }

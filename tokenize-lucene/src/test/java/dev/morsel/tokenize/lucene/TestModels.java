@@ -12,7 +12,6 @@ import dev.morsel.tokenize.testkit.Europarl;
 import dev.morsel.tokenize.train.PieceCounter;
 import dev.morsel.tokenize.train.PieceCounts;
 import dev.morsel.tokenize.unigram.UnigramLearner;
-import dev.morsel.tokenize.unigram.UnigramModel;
 import dev.morsel.tokenize.wordpiece.WordPieceLearner;
 import dev.morsel.tokenize.wordpiece.WordPieceSegmenter;
 import dev.morsel.tokenize.wordpiece.WordPieceSettings;
@@ -51,9 +50,9 @@ final class TestModels {
       WordPieceSegmenter wordPiece = WordPieceLearner.builder().vocabularySize(VOCABULARY)
           .reservedTokens(List.of(DOCK)).build().train(PIECES);
       TOKENIZERS.put("wordpiece", framed(Tokenizers.of(PIPELINE, wordPiece)));
-      UnigramModel unigram = UnigramLearner.builder().vocabularySize(VOCABULARY).rawBytes(true)
+      Tokenizer unigram = UnigramLearner.builder().vocabularySize(VOCABULARY).rawBytes(true)
           .reservedTokens(List.of(DOCK)).threads(1).build().train(PIECES);
-      TOKENIZERS.put("unigram", framed(Tokenizers.of(PIPELINE, unigram)));
+      TOKENIZERS.put("unigram", framed(unigram));
     }
   }
 

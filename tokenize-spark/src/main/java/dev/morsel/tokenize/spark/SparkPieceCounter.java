@@ -179,7 +179,7 @@ public final class SparkPieceCounter {
       pieces[i] = e._1();
       counts[i] = e._2();
     }
-    return new SparkCountReport(PieceCounts.of(pieces, counts), stats[0], stats[1], stats[2]);
+    return new SparkCountReport(PieceCounts.of(pipeline, pieces, counts), stats[0], stats[1], stats[2]);
   }
 
   // ---------------------------------------------------------------- builder

@@ -4,7 +4,6 @@ import static org.apache.spark.sql.functions.col;
 import static org.apache.spark.sql.functions.size;
 import static org.apache.spark.sql.functions.sum;
 
-import dev.morsel.tokenize.Pipeline;
 import dev.morsel.tokenize.Tokenizer;
 import dev.morsel.tokenize.Tokens;
 import dev.morsel.tokenize.testkit.Europarl;
@@ -48,8 +47,8 @@ public final class EncodeThroughput {
     PieceCounts counts = PieceCounter.builder().threads(2).build().count(bodies);
     Dataset<Row> data = LocalSpark.strings(bodies).toDF("message").cache();
     data.count();
-    for (String scheme : TestModels.TRAINERS.keySet()) {
-      Tokenizer t = TestModels.train(scheme, counts, Pipeline.defaults(), VOCABULARY, List.of());
+    for (String scheme : (Iterable<String>) TestModels.schemes()::iterator) {
+      Tokenizer t = TestModels.train(scheme, counts, VOCABULARY, List.of());
       long[] tokens = new long[1];
       seconds = best(() -> {
         long n = 0;

@@ -8,7 +8,6 @@ import static org.junit.jupiter.api.Assertions.assertNull;
 import static org.junit.jupiter.api.Assertions.assertThrows;
 import static org.junit.jupiter.api.Assertions.assertTrue;
 
-import dev.morsel.tokenize.Pipeline;
 import dev.morsel.tokenize.Tokenizer;
 import dev.morsel.tokenize.Tokens;
 import dev.morsel.tokenize.Trust;
@@ -52,8 +51,8 @@ class SparkEncoderTest {
   static void trainModelsAndBuildData() {
     List<String> bodies = Europarl.bodies().subList(0, SUBSET);
     PieceCounts counts = PieceCounter.builder().threads(2).build().count(bodies);
-    TestModels.TRAINERS.keySet().forEach(scheme ->
-        MODELS.put(scheme, TestModels.train(scheme, counts, Pipeline.defaults(), VOCABULARY, List.of(TestModels.DOCK))));
+    TestModels.schemes().forEach(scheme ->
+        MODELS.put(scheme, TestModels.train(scheme, counts, VOCABULARY, List.of(TestModels.DOCK))));
     texts = new ArrayList<>(bodies);
     texts.add("");
     texts.add("Boarding for Inishcorr closes 10 min before departure \u26f4\ufe0f \u2014 gate B\u00a07");
@@ -209,7 +208,7 @@ class SparkEncoderTest {
    */
   private static Tokenizer freshModel(int vocabularySize) {
     PieceCounts counts = PieceCounter.builder().threads(1).build().count(Europarl.bodies().subList(SUBSET, SUBSET + 500));
-    return TestModels.train("bpe", counts, Pipeline.defaults(), vocabularySize, List.of());
+    return TestModels.train("bpe", counts, vocabularySize, List.of());
   }
 
   @Test

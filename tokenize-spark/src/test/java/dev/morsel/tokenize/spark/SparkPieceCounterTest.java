@@ -1,5 +1,6 @@
 package dev.morsel.tokenize.spark;
 
+import static org.junit.jupiter.api.Assertions.assertArrayEquals;
 import static org.junit.jupiter.api.Assertions.assertEquals;
 import static org.junit.jupiter.api.Assertions.assertFalse;
 import static org.junit.jupiter.api.Assertions.assertThrows;
@@ -90,6 +91,7 @@ class SparkPieceCounterTest {
     PieceCounts single = PieceCounter.builder().pipeline(pipeline).threads(1).build().count(texts);
     PieceCounts spark = SparkPieceCounter.builder().pipeline(pipeline).build().count(LocalSpark.strings(texts));
     assertEquals(single.size(), spark.size(), pipeline.toString());
+    assertEquals(pipeline, spark.pipeline(), "the counts record the pipeline they were counted with");
     assertEquals(single, spark, pipeline.toString());
   }
 
@@ -115,9 +117,9 @@ class SparkPieceCounterTest {
         start = end;
       }
     }
-    PieceCounts spark = SparkPieceCounter.builder().pipeline(Pipeline.of(Normalization.none(), Splitting.whitespace()))
-        .build().count(LocalSpark.strings(texts));
-    assertEquals(PieceCounts.of(oracle), spark);
+    Pipeline none = Pipeline.of(Normalization.none(), Splitting.whitespace());
+    PieceCounts spark = SparkPieceCounter.builder().pipeline(none).build().count(LocalSpark.strings(texts));
+    assertEquals(PieceCounts.of(none, oracle), spark);
   }
 
   @Test
@@ -208,9 +210,26 @@ class SparkPieceCounterTest {
   void aModelTrainedFromSparkCountsHasTheSingleJvmFingerprint(String scheme) {
     Pipeline p = Pipeline.defaults();
     // pieces seen once are left out on both sides (as a trainer's minimum count would) to keep training short
-    Tokenizer fromSpark = TestModels.train(scheme, sparkAll.counts().withMinCount(2), p, 800, List.of(TestModels.DOCK));
-    Tokenizer fromSingle = TestModels.train(scheme, singleAll.withMinCount(2), p, 800, List.of(TestModels.DOCK));
+    Tokenizer fromSpark = TestModels.train(scheme, sparkAll.counts().withMinCount(2), 800, List.of(TestModels.DOCK));
+    Tokenizer fromSingle = TestModels.train(scheme, singleAll.withMinCount(2), 800, List.of(TestModels.DOCK));
     assertEquals(fromSingle.fingerprint(), fromSpark.fingerprint(), scheme);
+    assertEquals(p, fromSpark.pipeline());
+  }
+
+  /**
+   * Counts from Spark carry the pipeline they were counted with, so the tokenizer learned from them
+   * encodes through it: here NFKC with case folding, never the default NFC.
+   */
+  @ParameterizedTest
+  @MethodSource("dev.morsel.tokenize.spark.TestModels#schemes")
+  void aTokenizerLearnedFromSparkCountsEncodesWithTheirPipeline(String scheme) {
+    Pipeline folded = Pipeline.of(Normalization.parse("nfkc+casefold"), Splitting.runs());
+    PieceCounts counts = SparkPieceCounter.builder().pipeline(folded).minCount(2).build()
+        .count(LocalSpark.strings(Europarl.bodies().subList(0, SUBSET)));
+    assertEquals(folded, counts.pipeline());
+    Tokenizer t = TestModels.train(scheme, counts, 800, List.of());
+    assertEquals(folded, t.pipeline(), scheme);
+    assertArrayEquals(t.encode("the ferry").ids(), t.encode("THE \uff26ERRY").ids(), "folded and NFKC-mapped as counted");
   }
 
   @Test

@@ -1,84 +1,49 @@
 package dev.morsel.tokenize.unigram;
 
-import java.util.Arrays;
+import dev.morsel.tokenize.Tokens;
+import java.util.Objects;
 
 /**
- * One segmentation of a piece, as returned by {@link UnigramModel#nBest}: token ids with their
- * absolute spans and the path's total score (sum of log-probabilities; an uncovered character
- * counts once with the unknown score, however many byte tokens it becomes). Immutable.
+ * One segmentation of a whole text, as {@link Unigram#nBest} lists them: the tokens, with offsets
+ * into the original text like every encode result, and the total score of the segmentation (the sum
+ * of its tokens' log-probabilities over all pieces; reserved tokens and framing markers count 0, and
+ * an uncovered character counts once with the unknown token's penalty, however many byte tokens it
+ * becomes). Immutable.
  *
  * @since 0.1.0
  */
 public final class Segmentation {
-  private final int[] ids;
-  private final int[] starts;
-  private final int[] ends;
+  private final Tokens tokens;
   private final double score;
 
-  Segmentation(int[] ids, int[] starts, int[] ends, double score) {
-    this.ids = ids;
-    this.starts = starts;
-    this.ends = ends;
+  Segmentation(Tokens tokens, double score) {
+    this.tokens = tokens;
     this.score = score;
   }
 
-  /**
-   * A segmentation from parallel arrays (copied). Meant for the segmenter implementation.
-   *
-   * @throws IllegalArgumentException if the arrays differ in length
-   */
-  public static Segmentation of(int[] ids, int[] starts, int[] ends, double score) {
-    if (ids.length != starts.length || ids.length != ends.length) {
-      throw new IllegalArgumentException("parallel arrays differ in length: ids=" + ids.length + ", starts="
-          + starts.length + ", ends=" + ends.length);
-    }
-    return new Segmentation(ids.clone(), starts.clone(), ends.clone(), score);
+  /** The tokens, offsets into the original text. */
+  public Tokens tokens() {
+    return tokens;
   }
 
-  /** Number of tokens. */
-  public int size() {
-    return ids.length;
-  }
-
-  /** The id of token {@code i}. */
-  public int id(int i) {
-    return ids[i];
-  }
-
-  /** Start of token {@code i} (UTF-16 index into the segmented text). */
-  public int start(int i) {
-    return starts[i];
-  }
-
-  /** End of token {@code i} (exclusive). */
-  public int end(int i) {
-    return ends[i];
-  }
-
-  /** A copy of the ids. */
-  public int[] ids() {
-    return ids.clone();
-  }
-
-  /** The total log-probability of this path. */
+  /** The total log-probability (natural log); higher is more likely. */
   public double score() {
     return score;
   }
 
   @Override
   public boolean equals(Object o) {
-    return o instanceof Segmentation && Arrays.equals(ids, ((Segmentation) o).ids)
-        && Arrays.equals(starts, ((Segmentation) o).starts) && Arrays.equals(ends, ((Segmentation) o).ends)
+    return o instanceof Segmentation && tokens.equals(((Segmentation) o).tokens)
         && Double.compare(score, ((Segmentation) o).score) == 0;
   }
 
   @Override
   public int hashCode() {
-    return Arrays.hashCode(ids) * 31 + Double.hashCode(score);
+    return Objects.hash(tokens, score);
   }
 
   @Override
   public String toString() {
-    return "Segmentation" + Arrays.toString(ids) + " score " + score;
+    return "Segmentation[score " + score + ", " + tokens + "]";
   }
 }

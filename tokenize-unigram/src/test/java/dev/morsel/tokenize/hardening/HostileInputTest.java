@@ -9,7 +9,7 @@ import static org.junit.jupiter.api.Assertions.assertTrue;
 
 import dev.morsel.tokenize.Tokenizer;
 import dev.morsel.tokenize.Tokens;
-import dev.morsel.tokenize.unigram.UnigramModel;
+import dev.morsel.tokenize.unigram.internal.UnigramSegmenter;
 import java.nio.charset.StandardCharsets;
 import java.util.HashMap;
 import java.util.Map;
@@ -36,7 +36,7 @@ class HostileInputTest {
    * ({@code min(0, lowest piece score) - 10}) and emitted as its UTF-8 bytes (a lone surrogate as
    * U+FFFD's). Ties keep the earlier start (the documented rule: first relaxation wins).
    */
-  static int[] viterbiOracle(UnigramModel m, String piece) {
+  static int[] viterbiOracle(UnigramSegmenter m, String piece) {
     Map<String, Integer> ids = new HashMap<>();
     double lowest = 0;
     int longest = 1;
@@ -135,7 +135,7 @@ class HostileInputTest {
 
   @Test
   void textOfLoneSurrogates() {
-    // byte fallback encodes a lone surrogate as U+FFFD's bytes (UnigramModel's contract)
+    // byte fallback encodes a lone surrogate as U+FFFD's bytes (UnigramSegmenter's contract)
     hostile.loneSurrogatesInEveryForm(Models::tokenizer, true);
   }
 

@@ -11,7 +11,7 @@ import dev.morsel.tokenize.testkit.Europarl;
 import dev.morsel.tokenize.train.PieceCounter;
 import dev.morsel.tokenize.train.PieceCounts;
 import dev.morsel.tokenize.unigram.UnigramLearner;
-import dev.morsel.tokenize.unigram.UnigramModel;
+import dev.morsel.tokenize.unigram.internal.UnigramSegmenter;
 import java.util.ArrayList;
 import java.util.List;
 
@@ -33,17 +33,17 @@ final class Models {
   private static final class Trained {
     static final PieceCounts PIECES = PieceCounter.builder().pipeline(Pipeline.defaults()).threads(2).build()
         .count(Europarl.bodies().subList(0, BODIES));
-    static final UnigramModel MODEL = UnigramLearner.builder().vocabularySize(VOCABULARY).rawBytes(true)
-        .reservedTokens(Spellings.ALL).threads(2).build().train(PIECES);
+    static final UnigramSegmenter MODEL = UnigramSegmenter.of(UnigramLearner.builder().vocabularySize(VOCABULARY)
+        .rawBytes(true).reservedTokens(Spellings.ALL).threads(2).build().train(PIECES));
   }
 
   /** The trained model. */
-  static UnigramModel model() {
+  static UnigramSegmenter model() {
     return Trained.MODEL;
   }
 
   /** The model rebuilt from its parts: a new instance, so its per-thread piece caches start cold. */
-  static UnigramModel rebuilt(UnigramModel m) {
+  static UnigramSegmenter rebuilt(UnigramSegmenter m) {
     List<String> reserved = new ArrayList<>();
     for (int i = 0; i < m.reservedCount(); i++) {
       reserved.add(m.token(i));
@@ -54,13 +54,12 @@ final class Models {
       pieces.add(m.token(id));
       scores[id - m.firstPieceId()] = m.score(id);
     }
-    return UnigramModel.of(reserved, m.rawBytes(), m.token(m.unknownId()), pieces, scores);
+    return UnigramSegmenter.create(reserved, m.rawBytes(), m.token(m.unknownId()), pieces, scores);
   }
 
   /** A tokenizer over {@code model} with normalization {@code form}, rule splitting and the test template. */
-  static Tokenizer tokenizer(String form, UnigramModel model) {
-    return Tokenizers.of(Pipeline.of(Normalization.parse(form), Splitting.runs()), model, model.reservedTokens(),
-        Spellings.template());
+  static Tokenizer tokenizer(String form, UnigramSegmenter model) {
+    return Tokenizers.of(Pipeline.of(Normalization.parse(form), Splitting.runs()), model).withTemplate(Spellings.template());
   }
 
   /** A tokenizer over the trained model. */

@@ -15,7 +15,7 @@ import dev.morsel.tokenize.testkit.Europarl;
 import dev.morsel.tokenize.train.PieceCounter;
 import dev.morsel.tokenize.train.PieceCounts;
 import dev.morsel.tokenize.unigram.UnigramLearner;
-import dev.morsel.tokenize.unigram.UnigramModel;
+import dev.morsel.tokenize.unigram.internal.UnigramSegmenter;
 import java.util.Map;
 import java.util.TreeMap;
 import org.junit.jupiter.api.Test;
@@ -34,7 +34,7 @@ class TrainerAbuseTest {
     return UnigramLearner.builder().vocabularySize(vocabularySize).rawBytes(true).threads(2).build();
   }
 
-  static Tokenizer tokenizer(UnigramModel m) {
+  static Tokenizer tokenizer(UnigramSegmenter m) {
     return Tokenizers.of(Pipeline.defaults(), m, ReservedTokens.none(), Template.none());
   }
 
@@ -53,7 +53,7 @@ class TrainerAbuseTest {
 
   @Test
   void oneDistinctPieceGivesWhatItCan() {
-    UnigramModel m = unigram(32_000).train(PieceCounts.of(Map.of("ferry", 1000L)));
+    UnigramSegmenter m = UnigramSegmenter.of(unigram(32_000).train(PieceCounts.of(Map.of("ferry", 1000L))));
     // the seed is every substring of "ferry": 4 distinct characters and 10 distinct longer ones;
     // there is nothing to prune towards 32,000, so the model keeps at most those 14 pieces
     int pieces = m.vocabularySize() - m.firstPieceId();
@@ -63,7 +63,7 @@ class TrainerAbuseTest {
     String other = "Skarvøy quay";
     assertEquals(t.pipeline().normalization().apply(other).text(), t.decode(t.encode(other).ids()));
     // a single one-character piece
-    UnigramModel a = unigram(300).train(PieceCounts.of(Map.of("a", 5L)));
+    UnigramSegmenter a = UnigramSegmenter.of(unigram(300).train(PieceCounts.of(Map.of("a", 5L))));
     assertEquals(RESERVED + 1, a.vocabularySize());
   }
 
@@ -74,17 +74,17 @@ class TrainerAbuseTest {
     assertTrue(e.getMessage().contains("vocabularySize=" + (RESERVED + 15)) && e.getMessage().contains("16"),
         e.getMessage());
     // exactly the alphabet fits: single characters only
-    UnigramModel m = unigram(RESERVED + 16).train(letters);
+    UnigramSegmenter m = UnigramSegmenter.of(unigram(RESERVED + 16).train(letters));
     assertEquals(RESERVED + 16, m.vocabularySize());
     IllegalArgumentException b = assertThrows(IllegalArgumentException.class,
-        () -> UnigramLearner.builder().vocabularySize(0));
+        () -> UnigramLearner.builder().vocabularySize(0).build());
     assertTrue(b.getMessage().contains("vocabularySize=0"), b.getMessage());
   }
 
   @Test
   void vocabularyLargerThanTheCorpusCanGiveStopsEarly() {
     PieceCounts small = PieceCounter.builder().threads(2).build().count(Europarl.bodies().subList(0, 20));
-    UnigramModel m = UnigramLearner.builder().vocabularySize(1_000_000).rawBytes(true).threads(2).build().train(small);
+    UnigramSegmenter m = UnigramSegmenter.of(UnigramLearner.builder().vocabularySize(1_000_000).rawBytes(true).threads(2).build().train(small));
     assertTrue(m.vocabularySize() < 1_000_000, "vocabulary " + m.vocabularySize());
     assertTrue(m.vocabularySize() > RESERVED + 100, "vocabulary " + m.vocabularySize());
     Tokenizer t = tokenizer(m);
@@ -107,8 +107,8 @@ class TrainerAbuseTest {
     small.forEach((piece, count) -> scaled.put(piece, count << 32));
     PieceCounts big = PieceCounts.of(scaled);
     assertTrue(big.count(0) > Integer.MAX_VALUE);
-    UnigramModel a = unigram(700).train(small);
-    UnigramModel b = unigram(700).train(big);
+    UnigramSegmenter a = UnigramSegmenter.of(unigram(700).train(small));
+    UnigramSegmenter b = UnigramSegmenter.of(unigram(700).train(big));
     assertEquals(a.vocabularySize(), b.vocabularySize());
     int same = 0;
     for (int id = a.firstPieceId(); id < a.vocabularySize(); id++) {
@@ -140,7 +140,7 @@ class TrainerAbuseTest {
     assertTrue(e.getMessage().contains("overflow"), e.getMessage());
     // just below the bound it trains
     PieceCounts fits = PieceCounts.of(Map.of("aaaaaaaa", Long.MAX_VALUE / 8 - 1));
-    UnigramModel m = unigram(400).train(fits);
+    UnigramSegmenter m = UnigramSegmenter.of(unigram(400).train(fits));
     assertEquals("aaaaaaaa", tokenizer(m).decode(tokenizer(m).encode("aaaaaaaa").ids()));
   }
 
@@ -156,11 +156,11 @@ class TrainerAbuseTest {
     IllegalArgumentException e = assertThrows(IllegalArgumentException.class, () -> unigram(400).train(alone));
     assertTrue(e.getMessage().contains("maxPieceLength=" + UnigramLearner.DEFAULT_MAX_PIECE_LENGTH), e.getMessage());
     PieceCounts mixed = PieceCounts.of(new String[] {giant, " ferry", " quay", "the"}, new long[] {1, 40, 30, 20});
-    UnigramModel m = unigram(400).train(mixed);
+    UnigramSegmenter m = UnigramSegmenter.of(unigram(400).train(mixed));
     assertEquals(1, tokenizer(m).encode(" ferry").size());
     assertTrue(m.vocabularySize() < 400, "only the short pieces were learned from: " + m.vocabularySize());
     IllegalArgumentException b = assertThrows(IllegalArgumentException.class,
-        () -> UnigramLearner.builder().maxPieceLength(0));
+        () -> UnigramLearner.builder().maxPieceLength(0).build());
     assertTrue(b.getMessage().contains("maxPieceLength=0"), b.getMessage());
   }
 }

@@ -16,7 +16,7 @@ import dev.morsel.tokenize.split.Splitting;
 import dev.morsel.tokenize.testkit.Europarl;
 import dev.morsel.tokenize.train.PieceCounter;
 import dev.morsel.tokenize.unigram.UnigramLearner;
-import dev.morsel.tokenize.unigram.UnigramModel;
+import dev.morsel.tokenize.unigram.internal.UnigramSegmenter;
 import java.io.BufferedReader;
 import java.io.StringReader;
 import java.util.ArrayList;
@@ -66,9 +66,9 @@ class UnigramReviewRoundTripTest {
     }
     texts.addAll(Europarl.bodies().subList(0, 300));
     Pipeline p = Pipeline.of(Normalization.parse("nfkc"), Splitting.whitespace());
-    UnigramModel m = UnigramLearner.builder().vocabularySize(900).rawBytes(rawBytes).reservedTokens(List.of(AGENT))
-        .threads(1).build().train(PieceCounter.builder().pipeline(p).threads(1).build().count(texts));
-    Tokenizer t = Tokenizers.of(p, m, m.reservedTokens(), Template.of(List.of(AGENT), List.of(), List.of()));
+    Tokenizer t = UnigramLearner.builder().vocabularySize(900).rawBytes(rawBytes).reservedTokens(List.of(AGENT))
+        .threads(1).build().train(PieceCounter.builder().pipeline(p).threads(1).build().count(texts))
+        .withTemplate(Template.of(List.of(AGENT), List.of(), List.of()));
     String text = review(t);
     assertTrue(text.contains("\u00A7 vocabulary\tid\tkind\ttoken\tscore\n0\treserved\t" + AGENT + "\t\n"), text);
     assertEquals(rawBytes, text.contains("\n1\tbyte\t\\{U+0000}\t\n"), "byte rows exactly when bytes are on");
@@ -80,14 +80,14 @@ class UnigramReviewRoundTripTest {
     List<String> pieces = List.of("a\tb", "\r\n", "C:\\berth", SHIP, "q", "u", "a", "y", "\u00A7", "quay");
     double[] scores = {-0.1, -1e-300, -Double.MIN_VALUE, -0.0, -3.2188758248682006, -1.0 / 3, -7e22, -2.5,
         -Math.PI, -12.000000000000002};
-    UnigramModel m = UnigramModel.of(List.of(AGENT), true, "\u2983?\u2984", pieces, scores);
+    UnigramSegmenter m = UnigramSegmenter.create(List.of(AGENT), true, "\u2983?\u2984", pieces, scores);
     Tokenizer t = Tokenizers.of(m);
     String text = review(t);
     assertTrue(text.contains("\ta\\tb\t-0.1\n") && text.contains("\t\\r\\n\t-1.0E-300\n")
         && text.contains("\tC:\\\\berth\t-4.9E-324\n") && text.contains("\t" + SHIP + "\t-0.0\n")
         && text.contains("\t\\{U+00A7}\t-3.141592653589793\n") && text.contains("\tquay\t-12.000000000000002\n"), text);
     assertRoundTrip(t, List.of("quay a\tb C:\\berth " + SHIP + "\r\n", "\u00A7 x"));
-    UnigramModel back = (UnigramModel) Tokenizers.segmenterOf(ModelFile.read(importText(text)));
+    UnigramSegmenter back = (UnigramSegmenter) Tokenizers.segmenterOf(ModelFile.read(importText(text)));
     for (int i = 0; i < pieces.size(); i++) {
       assertEquals(Double.doubleToRawLongBits(scores[i]), Double.doubleToRawLongBits(back.score(back.firstPieceId() + i)),
           "score of " + pieces.get(i) + " bit for bit");
@@ -96,7 +96,7 @@ class UnigramReviewRoundTripTest {
 
   @Test
   void malformedRowsAreRefusedNamingLineAndColumn() {
-    UnigramModel m = UnigramModel.of(List.of(AGENT), false, "\u2983?\u2984", List.of("quay", "q"), new double[] {-1, -2});
+    UnigramSegmenter m = UnigramSegmenter.create(List.of(AGENT), false, "\u2983?\u2984", List.of("quay", "q"), new double[] {-1, -2});
     String text = review(Tokenizers.of(m));
     String[] lines = text.split("\n");
     int quay = List.of(lines).indexOf("2\tpiece\tquay\t-1.0") + 1;
@@ -142,7 +142,7 @@ class UnigramReviewRoundTripTest {
       } while (!Double.isFinite(v));
       scores[i] = v;
     }
-    UnigramModel m = UnigramModel.of(List.of(), false, "\u2983?\u2984", pieces, scores);
+    UnigramSegmenter m = UnigramSegmenter.create(List.of(), false, "\u2983?\u2984", pieces, scores);
     assertRoundTrip(Tokenizers.of(m), List.of("p1 p22 p199"));
   }
 }

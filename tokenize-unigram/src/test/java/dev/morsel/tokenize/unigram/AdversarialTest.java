@@ -1,5 +1,6 @@
 package dev.morsel.tokenize.unigram;
 
+import dev.morsel.tokenize.unigram.internal.UnigramSegmenter;
 import static org.junit.jupiter.api.Assertions.assertArrayEquals;
 import static org.junit.jupiter.api.Assertions.assertEquals;
 import static org.junit.jupiter.api.Assertions.assertTrue;
@@ -17,14 +18,14 @@ import org.junit.jupiter.api.Test;
 class AdversarialTest {
   private static final int MIB = 1 << 20;
 
-  private static UnigramModel ferryModel(boolean bytes) {
+  private static UnigramSegmenter ferryModel(boolean bytes) {
     List<String> pieces = List.of("a", "b", "o", "r", "t", "s", "ab", "boat", "oar", "star", "tar", "ta", "at", "\u00e9",
         "\u26f4");
     double[] scores = new double[pieces.size()];
     for (int i = 0; i < scores.length; i++) {
       scores[i] = -1.0 - 0.25 * i;
     }
-    return UnigramModel.of(List.of(), bytes, "\u2983?\u2984", pieces, scores);
+    return UnigramSegmenter.create(List.of(), bytes, "\u2983?\u2984", pieces, scores);
   }
 
   /** One MiB of random characters from the vocabulary's alphabet, uncovered letters and an astral symbol. */
@@ -38,7 +39,7 @@ class AdversarialTest {
     return sb.toString();
   }
 
-  private static void checkLossless(UnigramModel m, String text, boolean sample) {
+  private static void checkLossless(UnigramSegmenter m, String text, boolean sample) {
     IntArrayList ids = new IntArrayList();
     IntArrayList starts = new IntArrayList();
     IntArrayList ends = new IntArrayList();
@@ -83,7 +84,7 @@ class AdversarialTest {
 
   @Test
   void uncoveredCharactersBecomeOneUnknownTokenEachWithoutRawBytes() {
-    UnigramModel m = ferryModel(false);
+    UnigramSegmenter m = ferryModel(false);
     String text = "boat\uD83D\uDEA2x\u26f4";
     IntArrayList ids = new IntArrayList();
     IntArrayList spans = new IntArrayList();
@@ -99,7 +100,7 @@ class AdversarialTest {
 
   @Test
   void loneSurrogatesBecomeReplacementCharacterBytes() {
-    UnigramModel m = ferryModel(true);
+    UnigramSegmenter m = ferryModel(true);
     String text = "a\uD83Db\uDEA2";
     ByteArrayOutputStream out = new ByteArrayOutputStream();
     IntArrayList spans = new IntArrayList();
@@ -116,7 +117,7 @@ class AdversarialTest {
 
   @Test
   void subrangeSpansAreAbsolute() {
-    UnigramModel m = ferryModel(false);
+    UnigramSegmenter m = ferryModel(false);
     String text = "xx boat star";
     IntArrayList spans = new IntArrayList();
     m.segment(text, 8, 12, (id, s, e) -> {

@@ -1,5 +1,6 @@
 package dev.morsel.tokenize.unigram;
 
+import dev.morsel.tokenize.unigram.internal.UnigramSegmenter;
 import static org.junit.jupiter.api.Assertions.assertEquals;
 
 import it.unimi.dsi.fastutil.ints.IntArrayList;
@@ -21,7 +22,7 @@ class CacheConsistencyTest {
     for (int i = 0; i < scores.length; i++) {
       scores[i] = -1 - r.nextInt(30) / 4.0;
     }
-    UnigramModel m = UnigramModel.of(List.of(), true, UnigramModel.DEFAULT_UNKNOWN, vocab, scores);
+    UnigramSegmenter m = UnigramSegmenter.create(List.of(), true, UnigramSegmenter.DEFAULT_UNKNOWN, vocab, scores);
     // 30,000 pieces of 1..30 chars (some above the cache's 24-char limit), many repeated, many colliding
     String letters = "skifery\u00e9";
     List<String> pieces = new ArrayList<>();
@@ -58,7 +59,7 @@ class CacheConsistencyTest {
   }
 
   /** ids, starts and ends as one flat list. */
-  private static IntArrayList encode(UnigramModel m, String p) {
+  private static IntArrayList encode(UnigramSegmenter m, String p) {
     IntArrayList out = new IntArrayList();
     m.segment(p, 0, p.length(), (id, s, e) -> {
       out.add(id);

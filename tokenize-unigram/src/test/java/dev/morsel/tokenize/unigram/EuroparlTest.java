@@ -1,5 +1,6 @@
 package dev.morsel.tokenize.unigram;
 
+import dev.morsel.tokenize.unigram.internal.UnigramSegmenter;
 import static org.junit.jupiter.api.Assertions.assertArrayEquals;
 import static org.junit.jupiter.api.Assertions.assertEquals;
 import static org.junit.jupiter.api.Assertions.assertNotNull;
@@ -34,7 +35,7 @@ class EuroparlTest {
   private static final int TRAIN_LINES = 1500;
 
   private static List<String> bodies;
-  private static UnigramModel model;
+  private static UnigramSegmenter model;
   private static final List<String> stages = new ArrayList<>();
 
   @BeforeAll
@@ -51,7 +52,7 @@ class EuroparlTest {
     // the resource's documented size
     assertEquals(17_597, bodies.size());
     PieceCounts counts = LocalSplit.count(bodies.subList(0, TRAIN_LINES));
-    model = UnigramLearner.builder().vocabularySize(2000).rawBytes(true).maxTokenCodePoints(12).candidateMultiple(4)
+    model = UnigramSegmenter.of(UnigramLearner.builder().vocabularySize(2000).rawBytes(true).maxTokenCodePoints(12).candidateMultiple(4)
         .threads(2).reservedTokens(List.of("\u00a7start", "\u00a7stop"))
         .listener((stage, done, total, detail) -> {
           synchronized (stages) {
@@ -59,7 +60,7 @@ class EuroparlTest {
               stages.add(stage);
             }
           }
-        }).build().train(counts);
+        }).build().train(counts));
   }
 
   @Test

@@ -1,5 +1,6 @@
 package dev.morsel.tokenize.unigram;
 
+import dev.morsel.tokenize.unigram.internal.UnigramSegmenter;
 import dev.morsel.tokenize.testkit.Sections;
 import static org.junit.jupiter.api.Assertions.assertArrayEquals;
 import static org.junit.jupiter.api.Assertions.assertEquals;
@@ -25,17 +26,17 @@ class ModelSectionsTest {
   private static final List<String> PIECES = List.of(" ferry", " quay", "f", "e", "r", "y", " ", "q", "u", "a", "\u26f4",
       "\uD83D\uDEA2");
 
-  private static UnigramModel model(boolean bytes) {
+  private static UnigramSegmenter model(boolean bytes) {
     double[] scores = new double[PIECES.size()];
     for (int i = 0; i < scores.length; i++) {
       scores[i] = -2.0 - i * 0.5;
     }
-    return UnigramModel.of(List.of("\u00a7hail", "\u00a7moor"), bytes, "\u2983?\u2984", PIECES, scores);
+    return UnigramSegmenter.create(List.of("\u00a7hail", "\u00a7moor"), bytes, "\u2983?\u2984", PIECES, scores);
   }
 
   private static SegmenterProvider provider() {
     for (SegmenterProvider p : ServiceLoader.load(SegmenterProvider.class)) {
-      if (p.kind().equals(UnigramModel.KIND)) {
+      if (p.kind().equals(UnigramSegmenter.KIND)) {
         return p;
       }
     }
@@ -51,22 +52,22 @@ class ModelSectionsTest {
   @Test
   void saveAndLoadGiveIdenticalVocabularyAndIds() {
     for (boolean bytes : new boolean[] {false, true}) {
-      UnigramModel m = model(bytes);
+      UnigramSegmenter m = model(bytes);
       ModelWriter w = new ModelWriter();
       m.write(w);
       Segmenter back = provider().read(Sections.of(w), dev.morsel.tokenize.format.ModelLimits.defaults());
       assertEquals(m.vocabularySize(), back.vocabularySize());
-      assertEquals(UnigramModel.KIND, back.kind());
+      assertEquals(UnigramSegmenter.KIND, back.kind());
       assertEquals(m.unknownId(), back.unknownId());
       for (int id = 0; id < m.vocabularySize(); id++) {
         assertEquals(m.token(id), back.token(id), "id " + id);
         assertEquals(id, back.id(m.token(id)), "id " + id);
-        assertEquals(m.score(id), ((UnigramModel) back).score(id), 0, "id " + id);
+        assertEquals(m.score(id), ((UnigramSegmenter) back).score(id), 0, "id " + id);
       }
       String text = " ferry quay\u26f4 \uD83D\uDEA2 qu\u00e9";
       assertArrayEquals(encode(m, text), encode(back, text));
       ModelWriter w2 = new ModelWriter();
-      ((UnigramModel) back).write(w2);
+      ((UnigramSegmenter) back).write(w2);
       assertEquals(Sections.of(w).fingerprint(), Sections.of(w2).fingerprint());
     }
   }
@@ -159,30 +160,30 @@ class ModelSectionsTest {
   @Test
   void factoryRejectsBadScoresAndPieces() {
     assertThrows(IllegalArgumentException.class,
-        () -> UnigramModel.of(List.of(), false, "?", List.of("a", "b"), new double[] {-1, Double.NaN}));
+        () -> UnigramSegmenter.create(List.of(), false, "?", List.of("a", "b"), new double[] {-1, Double.NaN}));
     assertThrows(IllegalArgumentException.class,
-        () -> UnigramModel.of(List.of(), false, "?", List.of("a"), new double[] {Double.POSITIVE_INFINITY}));
+        () -> UnigramSegmenter.create(List.of(), false, "?", List.of("a"), new double[] {Double.POSITIVE_INFINITY}));
     assertThrows(IllegalArgumentException.class,
-        () -> UnigramModel.of(List.of(), false, "?", List.of("a"), new double[] {-1, -2}));
+        () -> UnigramSegmenter.create(List.of(), false, "?", List.of("a"), new double[] {-1, -2}));
     assertThrows(IllegalArgumentException.class,
-        () -> UnigramModel.of(List.of(), false, "?", List.of("a", "?"), new double[] {-1, -2}));
+        () -> UnigramSegmenter.create(List.of(), false, "?", List.of("a", "?"), new double[] {-1, -2}));
     assertThrows(IllegalArgumentException.class,
-        () -> UnigramModel.of(List.of(), false, "?", List.of("a".repeat(UnigramModel.MAX_PIECE_LENGTH + 1)),
+        () -> UnigramSegmenter.create(List.of(), false, "?", List.of("a".repeat(UnigramSegmenter.MAX_PIECE_LENGTH + 1)),
             new double[] {-1}));
     IllegalArgumentException e = assertThrows(IllegalArgumentException.class,
-        () -> UnigramModel.of(List.of(), true, "?", List.of("a", "\u2983" + "41\u2984"), new double[] {-1, -2}));
+        () -> UnigramSegmenter.create(List.of(), true, "?", List.of("a", "\u2983" + "41\u2984"), new double[] {-1, -2}));
     assertTrue(e.getMessage().contains("piece 1"), e.getMessage());
     e = assertThrows(IllegalArgumentException.class,
-        () -> UnigramModel.of(List.of(), false, "?", List.of("ok", "x\uD83D"), new double[] {-1, -2}));
+        () -> UnigramSegmenter.create(List.of(), false, "?", List.of("ok", "x\uD83D"), new double[] {-1, -2}));
     assertTrue(e.getMessage().contains("piece 1") && e.getMessage().contains("surrogate"), e.getMessage());
     e = assertThrows(IllegalArgumentException.class,
-        () -> UnigramModel.of(List.of("\u00a7hail", "\u00a7hail"), false, "?", List.of("a"), new double[] {-1}));
+        () -> UnigramSegmenter.create(List.of("\u00a7hail", "\u00a7hail"), false, "?", List.of("a"), new double[] {-1}));
     assertTrue(e.getMessage().contains("reserved token 1"), e.getMessage());
   }
 
   @Test
   void decodeTokenWritesBytesAndSpellings() {
-    UnigramModel m = model(true);
+    UnigramSegmenter m = model(true);
     java.io.ByteArrayOutputStream out = new java.io.ByteArrayOutputStream();
     m.decodeToken(m.firstByteId() + 0xE2, out::write);
     m.decodeToken(m.id(" quay"), out::write);
@@ -197,7 +198,7 @@ class ModelSectionsTest {
 
   @Test
   void reservedTokensAreNeverProducedBySegmentation() {
-    UnigramModel m = model(true);
+    UnigramSegmenter m = model(true);
     String text = "\u00a7hail \u00a7moor";
     m.segment(text, 0, text.length(), (id, s, e) -> assertTrue(id >= m.reservedCount(), "reserved id " + id));
     assertEquals(0, m.id("\u00a7hail"));

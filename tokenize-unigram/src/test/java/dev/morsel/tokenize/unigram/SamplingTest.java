@@ -1,5 +1,6 @@
 package dev.morsel.tokenize.unigram;
 
+import dev.morsel.tokenize.unigram.internal.UnigramSegmenter;
 import static org.junit.jupiter.api.Assertions.assertEquals;
 import static org.junit.jupiter.api.Assertions.assertNotNull;
 import static org.junit.jupiter.api.Assertions.assertThrows;
@@ -21,10 +22,10 @@ import org.junit.jupiter.api.Test;
 class SamplingTest {
   private static final int DRAWS = 20_000;
 
-  private static UnigramModel model(Map<String, Double> vocab, boolean bytes) {
+  private static UnigramSegmenter model(Map<String, Double> vocab, boolean bytes) {
     List<String> pieces = new ArrayList<>(vocab.keySet());
     double[] scores = pieces.stream().mapToDouble(vocab::get).toArray();
-    return UnigramModel.of(List.of(), bytes, UnigramModel.DEFAULT_UNKNOWN, pieces, scores);
+    return UnigramSegmenter.create(List.of(), bytes, UnigramSegmenter.DEFAULT_UNKNOWN, pieces, scores);
   }
 
   /**
@@ -65,7 +66,7 @@ class SamplingTest {
     vocab.put("er", -3.25);
     vocab.put("pie", -4.0);
     vocab.put("ier", -4.5);
-    UnigramModel m = model(vocab, false);
+    UnigramSegmenter m = model(vocab, false);
     String text = "pier";
     double alpha = 0.7;
     List<Oracle.Path> paths = Oracle.all(text, vocab);
@@ -108,7 +109,7 @@ class SamplingTest {
     vocab.put("i", -3.0);
     vocab.put("l", -3.0);
     vocab.put("sail", -2.0);
-    UnigramModel m = model(vocab, false);
+    UnigramSegmenter m = model(vocab, false);
     SplittableRandom rng = new SplittableRandom(42);
     for (int d = 0; d < 200; d++) {
       int[] count = {0};
@@ -124,7 +125,7 @@ class SamplingTest {
     vocab.put("o", -1.0);
     vocab.put("ck", -2.0);
     vocab.put("c", -1.5);
-    UnigramModel m = model(vocab, true);
+    UnigramSegmenter m = model(vocab, true);
     String text = "dock\u26f4";
     SplittableRandom rng = new SplittableRandom(9);
     for (int d = 0; d < 100; d++) {
@@ -136,7 +137,7 @@ class SamplingTest {
 
   @Test
   void rejectsNonPositiveAlpha() {
-    UnigramModel m = model(Map.of("w", -1.0), false);
+    UnigramSegmenter m = model(Map.of("w", -1.0), false);
     SplittableRandom rng = new SplittableRandom(1);
     for (double a : new double[] {0, -0.5, Double.NaN, Double.POSITIVE_INFINITY}) {
       IllegalArgumentException e = assertThrows(IllegalArgumentException.class,

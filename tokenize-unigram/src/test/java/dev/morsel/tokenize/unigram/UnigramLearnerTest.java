@@ -5,7 +5,9 @@ import static org.junit.jupiter.api.Assertions.assertEquals;
 import static org.junit.jupiter.api.Assertions.assertThrows;
 import static org.junit.jupiter.api.Assertions.assertTrue;
 
+import dev.morsel.tokenize.Tokenizer;
 import dev.morsel.tokenize.train.PieceCounts;
+import dev.morsel.tokenize.unigram.internal.UnigramSegmenter;
 import java.util.ArrayList;
 import java.util.List;
 import java.util.SplittableRandom;
@@ -41,14 +43,14 @@ class UnigramLearnerTest {
   }
 
   private static UnigramLearner.Builder small() {
-    return UnigramLearner.builder().vocabularySize(120).candidateMultiple(4).maxTokenCodePoints(10);
+    return UnigramLearner.builder().vocabularySize(120).candidateMultiple(4).maxTokenCodePoints(10).rawBytes(false);
   }
 
   @Test
   void resultDoesNotDependOnTheThreadCount() {
     PieceCounts c = corpus(11, 400);
-    UnigramModel one = small().threads(1).build().train(c);
-    UnigramModel two = small().threads(3).build().train(c);
+    UnigramSegmenter one = UnigramSegmenter.of(small().threads(1).build().train(c));
+    UnigramSegmenter two = UnigramSegmenter.of(small().threads(3).build().train(c));
     assertEquals(one.vocabularySize(), two.vocabularySize());
     for (int id = 0; id < one.vocabularySize(); id++) {
       assertEquals(one.token(id), two.token(id), "id " + id);
@@ -58,7 +60,7 @@ class UnigramLearnerTest {
 
   @Test
   void reachesTheVocabularySizeAndLearnsFrequentWords() {
-    UnigramModel m = small().reservedTokens(List.of("\u00a7aboard")).build().train(corpus(3, 500));
+    UnigramSegmenter m = UnigramSegmenter.of(small().reservedTokens(List.of("\u00a7aboard")).build().train(corpus(3, 500)));
     assertEquals(120, m.vocabularySize());
     assertEquals(0, m.id("\u00a7aboard"));
     assertEquals(1, m.unknownId());
@@ -80,7 +82,7 @@ class UnigramLearnerTest {
 
   @Test
   void segmentsTrainingTextIntoFewTokens() {
-    UnigramModel m = small().vocabularySize(300).build().train(corpus(5, 600));
+    UnigramSegmenter m = UnigramSegmenter.of(small().vocabularySize(300).build().train(corpus(5, 600)));
     String text = " ferry";
     List<Integer> ids = new ArrayList<>();
     m.segment(text, 0, text.length(), (id, s, e) -> ids.add(id));
@@ -91,15 +93,22 @@ class UnigramLearnerTest {
   void badInputIsRejected() {
     assertThrows(IllegalArgumentException.class, () -> small().build().train(PieceCounts.empty()));
     IllegalArgumentException e = assertThrows(IllegalArgumentException.class,
-        () -> UnigramLearner.builder().vocabularySize(10).build().train(corpus(1, 50)));
+        () -> UnigramLearner.builder().vocabularySize(10).rawBytes(false).build().train(corpus(1, 50)));
     assertTrue(e.getMessage().contains("vocabularySize=10") && e.getMessage().contains("alphabet"), e.getMessage());
     e = assertThrows(IllegalArgumentException.class,
-        () -> UnigramLearner.builder().vocabularySize(200).rawBytes(true).build().train(corpus(1, 50)));
-    assertTrue(e.getMessage().contains("256 byte tokens"), e.getMessage());
-    assertThrows(IllegalArgumentException.class, () -> UnigramLearner.builder().vocabularySize(0));
-    assertThrows(IllegalArgumentException.class, () -> UnigramLearner.builder().threads(0));
-    assertThrows(IllegalArgumentException.class, () -> UnigramLearner.builder().reservedTokens(List.of("a", "a")));
-    assertThrows(IllegalArgumentException.class, () -> UnigramLearner.builder().unknownToken(""));
+        () -> UnigramLearner.builder().vocabularySize(200).rawBytes(true).build());
+    assertTrue(e.getMessage().contains("256 byte tokens"), "refused when built, before any learning: " + e.getMessage());
+    e = assertThrows(IllegalArgumentException.class,
+        () -> UnigramLearner.builder().vocabularySize(262).build().train(corpus(1, 50)));
+    assertTrue(e.getMessage().contains("256 byte tokens") && e.getMessage().contains("alphabet"), e.getMessage());
+    assertThrows(IllegalArgumentException.class, () -> UnigramLearner.builder().keepShare(1.0).build());
+    assertThrows(IllegalArgumentException.class, () -> UnigramLearner.builder().keepShare(0).build());
+    assertThrows(IllegalArgumentException.class, () -> UnigramLearner.builder().vocabularySize(0).build());
+    assertThrows(IllegalArgumentException.class, () -> UnigramLearner.builder().maxTokenCodePoints(0).build());
+    assertThrows(IllegalArgumentException.class, () -> UnigramLearner.builder().emPasses(0).build());
+    assertThrows(IllegalArgumentException.class, () -> UnigramLearner.builder().threads(0).build());
+    assertThrows(IllegalArgumentException.class, () -> UnigramLearner.builder().reservedTokens(List.of("a", "a")).build());
+    assertThrows(IllegalArgumentException.class, () -> UnigramLearner.builder().unknownToken("").build());
   }
 
   /** Each seed and pruning setting, a value just outside its documented range, and the message's setting name. */
@@ -123,10 +132,9 @@ class UnigramLearnerTest {
   @MethodSource("outOfRange")
   void outOfRangeSettingIsRejectedByName(String setting, String value, Consumer<UnigramLearner.Builder> set) {
     UnigramLearner.Builder b = UnigramLearner.builder();
-    IllegalArgumentException e = assertThrows(IllegalArgumentException.class, () -> set.accept(b));
+    set.accept(b); // settings are checked together at build()
+    IllegalArgumentException e = assertThrows(IllegalArgumentException.class, b::build);
     assertTrue(e.getMessage().startsWith(setting + "=" + value + " is outside "), e.getMessage());
-    // the builder keeps its previous value: training still works with the defaults
-    assertEquals(120, b.vocabularySize(120).candidateMultiple(4).build().train(corpus(2, 100)).vocabularySize());
   }
 
   @Test
@@ -143,7 +151,7 @@ class UnigramLearnerTest {
   void maxTokenCodePointsBoundsEveryLearnedPiece() {
     PieceCounts c = corpus(4, 150);
     for (int limit : new int[] {1, 2, 5}) {
-      UnigramModel m = small().vocabularySize(300).maxTokenCodePoints(limit).build().train(c);
+      UnigramSegmenter m = UnigramSegmenter.of(small().vocabularySize(300).maxTokenCodePoints(limit).build().train(c));
       int longest = 0;
       for (int id = m.firstPieceId(); id < m.vocabularySize(); id++) {
         longest = Math.max(longest, m.token(id).codePointCount(0, m.token(id).length()));
@@ -151,14 +159,14 @@ class UnigramLearnerTest {
       assertEquals(limit, longest, "longest piece with maxTokenCodePoints=" + limit);
     }
     // with single characters only, the model is the alphabet: fewer ids than asked for
-    UnigramModel singles = small().maxTokenCodePoints(1).build().train(c);
+    Tokenizer singles = small().maxTokenCodePoints(1).build().train(c);
     assertTrue(singles.vocabularySize() < 120, "size " + singles.vocabularySize());
   }
 
   @Test
   void rawBytesModelHasByteTokensAfterReservedTokens() {
-    UnigramModel m = small().vocabularySize(400).rawBytes(true).reservedTokens(List.of("\u00a7a", "\u00a7b"))
-        .build().train(corpus(8, 200));
+    UnigramSegmenter m = UnigramSegmenter.of(small().vocabularySize(400).rawBytes(true)
+        .reservedTokens(List.of("\u00a7a", "\u00a7b")).build().train(corpus(8, 200)));
     assertEquals(400, m.vocabularySize());
     assertEquals(2, m.firstByteId());
     assertEquals(2 + 256, m.unknownId());
@@ -170,7 +178,7 @@ class UnigramLearnerTest {
 
   @Test
   void seedTableLimitBoundsMemoryAndStillTrains() {
-    UnigramModel m = small().seedTableLimit(1000).build().train(corpus(4, 300));
+    UnigramSegmenter m = UnigramSegmenter.of(small().seedTableLimit(1000).build().train(corpus(4, 300)));
     assertEquals(120, m.vocabularySize());
   }
 }

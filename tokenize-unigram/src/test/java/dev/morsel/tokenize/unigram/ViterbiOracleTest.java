@@ -1,5 +1,7 @@
 package dev.morsel.tokenize.unigram;
 
+import dev.morsel.tokenize.unigram.internal.UnigramSegmenter;
+import dev.morsel.tokenize.unigram.internal.PiecePath;
 import static org.junit.jupiter.api.Assertions.assertEquals;
 import static org.junit.jupiter.api.Assertions.assertThrows;
 import static org.junit.jupiter.api.Assertions.assertTrue;
@@ -30,7 +32,7 @@ class ViterbiOracleTest {
   }
 
   /** A random case: vocabulary, model and text. */
-  record Case(Map<String, Double> vocab, UnigramModel model, String text, boolean bytes) {}
+  record Case(Map<String, Double> vocab, UnigramSegmenter model, String text, boolean bytes) {}
 
   static Case randomCase(long seed) {
     SplittableRandom r = new SplittableRandom(seed);
@@ -50,7 +52,7 @@ class ViterbiOracleTest {
     for (int i = 0; i < scores.length; i++) {
       scores[i] = vocab.get(pieces.get(i));
     }
-    UnigramModel model = UnigramModel.of(List.of("\u00a7quay"), bytes, UnigramModel.DEFAULT_UNKNOWN, pieces, scores);
+    UnigramSegmenter model = UnigramSegmenter.create(List.of("\u00a7quay"), bytes, UnigramSegmenter.DEFAULT_UNKNOWN, pieces, scores);
     return new Case(vocab, model, word(r, 1 + r.nextInt(9)), bytes);
   }
 
@@ -68,7 +70,7 @@ class ViterbiOracleTest {
   }
 
   /** Converts segmenter tokens to oracle edges (byte tokens of one character collapse into one unknown edge). */
-  static Oracle.Path edges(UnigramModel m, String text, int[] ids, int[] starts, int[] ends, int n) {
+  static Oracle.Path edges(UnigramSegmenter m, String text, int[] ids, int[] starts, int[] ends, int n) {
     List<String> out = new ArrayList<>();
     double score = 0;
     for (int i = 0; i < n; i++) {
@@ -118,11 +120,11 @@ class ViterbiOracleTest {
     List<Oracle.Path> all = new ArrayList<>(Oracle.all(c.text(), c.vocab()));
     all.sort(Comparator.comparingDouble(Oracle.Path::score).reversed());
     int k = 1 + (int) (seed % 9);
-    List<Segmentation> got = c.model().nBest(c.text(), 0, c.text().length(), k);
+    List<PiecePath> got = c.model().nBest(c.text(), 0, c.text().length(), k);
     assertEquals(Math.min(k, all.size()), got.size(), why);
     Set<List<String>> seen = new HashSet<>();
     for (int i = 0; i < got.size(); i++) {
-      Segmentation s = got.get(i);
+      PiecePath s = got.get(i);
       int[] starts = new int[s.size()];
       int[] ends = new int[s.size()];
       for (int t = 0; t < s.size(); t++) {
@@ -142,6 +144,6 @@ class ViterbiOracleTest {
     Case c = randomCase(7);
     assertThrows(IllegalArgumentException.class, () -> c.model().nBest("ab", 0, 2, 0));
     assertThrows(IllegalArgumentException.class, () -> c.model().nBest("ab", 0, 2, -3));
-    assertThrows(IllegalArgumentException.class, () -> c.model().nBest("ab", 0, 2, UnigramModel.MAX_N_BEST + 1));
+    assertThrows(IllegalArgumentException.class, () -> c.model().nBest("ab", 0, 2, UnigramSegmenter.MAX_N_BEST + 1));
   }
 }

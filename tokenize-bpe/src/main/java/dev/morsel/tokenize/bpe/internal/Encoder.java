@@ -1,6 +1,6 @@
 package dev.morsel.tokenize.bpe.internal;
 
-import dev.morsel.tokenize.spi.PieceTable;
+import dev.morsel.tokenize.internal.PieceTable;
 import dev.morsel.tokenize.spi.TokenSink;
 import dev.morsel.tokenize.spi.Workspace;
 import dev.morsel.tokenize.spi.WorkspacePool;

@@ -1,14 +1,18 @@
 package dev.morsel.tokenize.unigram.internal;
 
+import dev.morsel.tokenize.Tokenizer;
+import dev.morsel.tokenize.Tokenizers;
+import dev.morsel.tokenize.train.Learner;
+import dev.morsel.tokenize.train.LearnerSettings;
 import dev.morsel.tokenize.train.PieceCounts;
 import dev.morsel.tokenize.train.TrainingListener;
-import dev.morsel.tokenize.unigram.UnigramModel;
 import it.unimi.dsi.fastutil.ints.IntArrays;
 import it.unimi.dsi.fastutil.ints.IntOpenHashSet;
 import java.util.ArrayList;
 import java.util.Arrays;
 import java.util.HashSet;
 import java.util.List;
+import java.util.Objects;
 import java.util.Set;
 import java.util.concurrent.ExecutorService;
 import java.util.concurrent.Executors;
@@ -21,14 +25,39 @@ import java.util.concurrent.Executors;
  * <p>Pruning: for each multi-character token t the loss is {@code c(t) · (log p(t) − log p(alt(t)))},
  * the drop in corpus log-likelihood if every expected occurrence of t were replaced by the best
  * (Viterbi) segmentation alt(t) of t's string without t itself [1, section 3.2]. The tokens with the
- * highest loss are kept, {@code keepShare} of the vocabulary per round (at least one token goes);
- * single characters always stay so every piece stays covered. {@code emPasses} EM passes run before
- * each round and after the last; the seed keeps {@code candidateMultiple} times as many
- * multi-character candidates as the target, each at most {@code maxTokenCodePoints} code points.
+ * highest loss are kept, {@code keepShare} of the vocabulary per round; single characters always
+ * stay so every piece stays covered.
+ *
+ * <p>Every setting is checked when the training is made (so by {@code UnigramLearner.Builder.build()}
+ * and by the learner provider alike), each refusal naming the setting.
  *
  * <p>References: [1] Kudo (2018), "Subword Regularization", ACL 2018.
  */
-public final class Training {
+public final class Training implements Learner {
+  /** Default vocabulary size, in ids. */
+  public static final int DEFAULT_VOCABULARY_SIZE = 8000;
+  /** Default seed factor: a plain multiple of the pieces wanted. */
+  public static final int DEFAULT_CANDIDATE_MULTIPLE = 8;
+  /** Default longest token, in code points. */
+  public static final int DEFAULT_MAX_TOKEN_CODE_POINTS = 24;
+  /** Default share of the vocabulary each pruning round keeps. */
+  public static final double DEFAULT_KEEP_SHARE = 0.7;
+  /** Largest keepShare: every round removes at least 1 % of the vocabulary (and at least one token). */
+  public static final double MAX_KEEP_SHARE = 0.99;
+  /** Default EM iterations per round. */
+  public static final int DEFAULT_EM_PASSES = 3;
+  /** Default: characters outside the vocabulary become their UTF-8 bytes, never the unknown token. */
+  public static final boolean DEFAULT_RAW_BYTES = true;
+  /** Default seed table entries (about 100 bytes each). */
+  public static final int DEFAULT_SEED_TABLE_LIMIT = 2_000_000;
+  /**
+   * Default longest piece learned from, in UTF-16 units (reason: far above any word of prose; a
+   * longer piece is a run without breaks, whose every substring the seed stage would count).
+   */
+  public static final int DEFAULT_MAX_PIECE_LENGTH = 4096;
+  /** Most threads of the E-step. */
+  public static final int MAX_THREADS = 256;
+
   private final int vocabularySize;
   private final int candidateMultiple;
   private final int maxTokenCodePoints;
@@ -40,28 +69,94 @@ public final class Training {
   private final int threads;
   private final int seedTableLimit;
   private final int maxPieceLength;
+  private final long minCount;
   private final TrainingListener listener;
 
-  /** All settings already validated by the public builder. */
+  /**
+   * A training with every setting checked.
+   *
+   * @throws IllegalArgumentException naming the setting that is out of range, or the reserved token
+   *     (by index) that is invalid or equals the unknown token's spelling
+   * @throws NullPointerException if a reserved token, the unknown token or the listener is null
+   */
   public Training(int vocabularySize, int candidateMultiple, int maxTokenCodePoints, double keepShare, int emPasses,
       boolean rawBytes, List<String> reserved, String unknown, int threads, int seedTableLimit,
-      int maxPieceLength, TrainingListener listener) {
-    this.vocabularySize = vocabularySize;
-    this.candidateMultiple = candidateMultiple;
-    this.maxTokenCodePoints = maxTokenCodePoints;
+      int maxPieceLength, long minCount, TrainingListener listener) {
+    this.vocabularySize = check("vocabularySize", vocabularySize, 1, Integer.MAX_VALUE - 8);
+    this.candidateMultiple = check("candidateMultiple", candidateMultiple, 1, 1000);
+    this.maxTokenCodePoints = check("maxTokenCodePoints", maxTokenCodePoints, 1, 64);
+    if (!(keepShare > 0 && keepShare <= MAX_KEEP_SHARE)) {
+      throw new IllegalArgumentException("keepShare=" + keepShare + " is outside (0, " + MAX_KEEP_SHARE + "]");
+    }
     this.keepShare = keepShare;
-    this.emPasses = emPasses;
+    this.emPasses = check("emPasses", emPasses, 1, 100);
     this.rawBytes = rawBytes;
-    this.reserved = List.copyOf(reserved);
+    this.reserved = LearnerSettings.checkReserved(reserved);
+    Objects.requireNonNull(unknown, "unknownToken");
+    if (unknown.isEmpty() || unknown.length() > UnigramSegmenter.MAX_PIECE_LENGTH
+        || UnigramSegmenter.unpairedSurrogate(unknown) >= 0) {
+      throw new IllegalArgumentException("unknownToken '" + unknown + "' must be 1.." + UnigramSegmenter.MAX_PIECE_LENGTH
+          + " chars of well-formed UTF-16");
+    }
+    int clash = this.reserved.indexOf(unknown);
+    if (clash >= 0) {
+      throw new IllegalArgumentException("reservedTokens[" + clash + "] '" + unknown + "' equals the unknownToken spelling");
+    }
+    if (rawBytes) {
+      for (int i = 0; i < this.reserved.size(); i++) {
+        for (int b = 0; b < 256; b++) {
+          if (this.reserved.get(i).equals(UnigramSegmenter.byteSpelling(b))) {
+            throw new IllegalArgumentException("reservedTokens[" + i + "] '" + this.reserved.get(i)
+                + "' is the spelling of byte token " + b + " (rawBytes is on)");
+          }
+        }
+      }
+    }
     this.unknown = unknown;
-    this.threads = threads;
-    this.seedTableLimit = seedTableLimit;
-    this.maxPieceLength = maxPieceLength;
-    this.listener = listener;
+    this.threads = check("threads", threads, 1, MAX_THREADS);
+    this.seedTableLimit = check("seedTableLimit", seedTableLimit, 1000, 100_000_000);
+    this.maxPieceLength = check("maxPieceLength", maxPieceLength, 1, 1 << 26);
+    if (minCount < 1) {
+      throw new IllegalArgumentException("minCount=" + minCount + " must be at least 1");
+    }
+    this.minCount = minCount;
+    this.listener = Objects.requireNonNull(listener, "listener");
+    long floor = (long) this.reserved.size() + (rawBytes ? 256 : 0) + 2;
+    if (vocabularySize < floor) {
+      throw new IllegalArgumentException("vocabularySize=" + vocabularySize + " is below " + floor + " ("
+          + this.reserved.size() + " reserved tokens" + (rawBytes ? ", 256 byte tokens" : "")
+          + ", the unknown token and at least one piece)");
+    }
   }
 
-  /** Trains on {@code counts}. */
-  public UnigramModel train(PieceCounts counts) {
+  private static int check(String name, int v, int min, int max) {
+    if (v < min || v > max) {
+      throw new IllegalArgumentException(name + "=" + v + " is outside [" + min + ", " + max + "]");
+    }
+    return v;
+  }
+
+  @Override
+  public String scheme() {
+    return UnigramSegmenter.KIND;
+  }
+
+  /** Learns from {@code counts}; the tokenizer encodes with their pipeline. */
+  @Override
+  public Tokenizer train(PieceCounts counts) {
+    return Tokenizers.of(Objects.requireNonNull(counts, "counts").pipeline(), segmenter(counts));
+  }
+
+  /** Learns the segmenter alone from {@code counts}. */
+  public UnigramSegmenter segmenter(PieceCounts counts) {
+    Objects.requireNonNull(counts, "counts");
+    if (minCount > 1 && !counts.isEmpty()) {
+      PieceCounts kept = counts.withMinCount(minCount);
+      if (kept.isEmpty()) {
+        throw new IllegalArgumentException("no piece has a count >= minCount=" + minCount);
+      }
+      counts = kept;
+    }
     if (counts.isEmpty()) {
       throw new IllegalArgumentException("piece counts are empty; training needs at least one piece");
     }
@@ -130,7 +225,6 @@ public final class Training {
         if (vocab.length <= target) {
           break;
         }
-        // at least one token goes per round, whatever the share (rounding could otherwise keep them all)
         int newSize = Math.max(target, Math.min(vocab.length - 1, (int) (vocab.length * keepShare)));
         int[] keep = prune(vocab, logp, expected, newSize);
         String[] v = new String[keep.length];

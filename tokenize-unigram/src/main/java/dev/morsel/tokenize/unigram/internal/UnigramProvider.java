@@ -7,7 +7,6 @@ import dev.morsel.tokenize.format.ReviewDocument;
 import dev.morsel.tokenize.format.SectionReader;
 import dev.morsel.tokenize.spi.Segmenter;
 import dev.morsel.tokenize.spi.SegmenterProvider;
-import dev.morsel.tokenize.unigram.UnigramModel;
 
 /**
  * Reads a unigram model from its two sections, validating every entry before anything is built.
@@ -31,7 +30,7 @@ public final class UnigramProvider implements SegmenterProvider {
 
   @Override
   public String kind() {
-    return UnigramModel.KIND;
+    return UnigramSegmenter.KIND;
   }
 
   @Override

@@ -1,27 +1,36 @@
 package dev.morsel.tokenize.unigram.internal;
 
+import dev.morsel.tokenize.Tokenizer;
+import dev.morsel.tokenize.Tokenizers;
 import dev.morsel.tokenize.format.ModelWriter;
 import dev.morsel.tokenize.format.ReviewWriter;
 import dev.morsel.tokenize.format.SectionWriter;
+import dev.morsel.tokenize.internal.PieceTable;
 import dev.morsel.tokenize.spi.ByteSink;
-import dev.morsel.tokenize.spi.PieceTable;
+import dev.morsel.tokenize.spi.Segmenter;
 import dev.morsel.tokenize.spi.TokenSink;
 import dev.morsel.tokenize.spi.Workspace;
 import dev.morsel.tokenize.spi.WorkspacePool;
-import dev.morsel.tokenize.unigram.Segmentation;
-import dev.morsel.tokenize.unigram.UnigramModel;
 import it.unimi.dsi.fastutil.ints.IntHeapPriorityQueue;
 import it.unimi.dsi.fastutil.objects.Object2IntOpenHashMap;
 import java.nio.charset.StandardCharsets;
 import java.util.ArrayList;
 import java.util.Arrays;
 import java.util.List;
+import java.util.Locale;
 import java.util.Objects;
 import java.util.random.RandomGenerator;
 
 /**
- * The {@link UnigramModel} implementation. Immutable and thread-safe; encoding works in a
- * {@link Scratch} workspace lent to each call and allocates nothing per token.
+ * A unigram language-model segmenter [1]: every token has a log-probability and a piece is split
+ * into the tokens whose probabilities multiply to the most (Viterbi), or into the k best such
+ * splits, or into a split drawn at random for subword regularization. Immutable and thread-safe;
+ * encoding works in a {@link Scratch} workspace lent to each call and allocates nothing per token.
+ *
+ * <p>Id layout: reserved tokens at {@code 0..k-1} (never produced by segmentation); then, with raw
+ * bytes on, 256 byte tokens; then the unknown token; then the pieces. A character that no
+ * single-character piece covers becomes the unknown token, or with raw bytes its UTF-8 bytes as
+ * byte tokens, each spanning that whole character. A lone surrogate counts as U+FFFD for raw bytes.
  *
  * <p>Design notes. Viterbi [1, section 3.1; 2] runs left to right: from every reachable position
  * the piece trie lists the tokens that start there, O(n · L) for a piece of n chars and longest
@@ -37,8 +46,17 @@ import java.util.random.RandomGenerator;
  * <p>References: [1] Kudo (2018), "Subword Regularization", ACL 2018. [2] Viterbi (1967), "Error
  * bounds for convolutional codes and an asymptotically optimum decoding algorithm".
  */
-public final class UnigramSegmenter implements UnigramModel {
+public final class UnigramSegmenter implements Segmenter {
   // ------------------------------------------------------------------ configuration
+
+  /** The kind name in model files: {@value}. */
+  public static final String KIND = "unigram";
+  /** Default spelling of the unknown token. */
+  public static final String DEFAULT_UNKNOWN = "\u2983?\u2984";
+  /** Longest piece accepted, in UTF-16 units (bounds the work per position at Viterbi time). */
+  public static final int MAX_PIECE_LENGTH = 256;
+  /** Largest {@code k} accepted by {@link #nBest}. */
+  public static final int MAX_N_BEST = 10_000;
 
   /** Model-file section holding settings and reserved tokens. */
   static final String SETTINGS = "UNST";
@@ -84,7 +102,17 @@ public final class UnigramSegmenter implements UnigramModel {
   private static final Failure ARGUMENT = (what, index, message) ->
       new IllegalArgumentException(what + " " + index + ": " + message);
 
-  /** See {@link UnigramModel#of}. */
+  /**
+   * A model from its parts. Piece {@code i} gets id {@code firstPieceId() + i}. The unknown token
+   * scores {@code min(0, lowest piece score) - 10} (a penalty below every piece).
+   *
+   * @param reservedTokens reserved tokens (ids 0..k-1), distinct and non-empty
+   * @param rawBytes whether uncovered characters become byte tokens instead of the unknown token
+   * @param unknownToken spelling of the unknown token
+   * @param pieces the pieces: non-empty, distinct, well-formed UTF-16, at most {@link #MAX_PIECE_LENGTH} units
+   * @param scores their log-probabilities, finite
+   * @throws IllegalArgumentException naming the entry that is wrong
+   */
   public static UnigramSegmenter create(List<String> reservedTokens, boolean rawBytes, String unknownToken,
       List<String> pieces, double[] scores) {
     Objects.requireNonNull(reservedTokens, "reservedTokens");
@@ -96,6 +124,30 @@ public final class UnigramSegmenter implements UnigramModel {
     }
     return new UnigramSegmenter(reservedTokens.toArray(new String[0]), rawBytes, unknownToken,
         pieces.toArray(new String[0]), scores.clone(), ARGUMENT);
+  }
+
+  /**
+   * The unigram segmenter of {@code tokenizer}.
+   *
+   * @throws IllegalArgumentException if {@code tokenizer} is not of kind {@value #KIND}, naming its kind
+   */
+  public static UnigramSegmenter of(Tokenizer tokenizer) {
+    return of(tokenizer, "this operation");
+  }
+
+  /**
+   * The unigram segmenter of {@code tokenizer}.
+   *
+   * @param what the operation that needs it, for the message
+   * @throws IllegalArgumentException if {@code tokenizer} is not of kind {@value #KIND}, naming its kind
+   */
+  public static UnigramSegmenter of(Tokenizer tokenizer, String what) {
+    Segmenter s = Tokenizers.segmenterOf(Objects.requireNonNull(tokenizer, "tokenizer"));
+    if (!(s instanceof UnigramSegmenter)) {
+      throw new IllegalArgumentException(what + " needs a tokenizer of kind '" + KIND + "'; this one is of kind '"
+          + tokenizer.kind() + "'");
+    }
+    return (UnigramSegmenter) s;
   }
 
   UnigramSegmenter(String[] reserved, boolean rawBytes, String unknown, String[] pieces, double[] scores,
@@ -251,29 +303,66 @@ public final class UnigramSegmenter implements UnigramModel {
     return unknownId;
   }
 
-  @Override
+  /** Number of reserved tokens (ids {@code 0..reservedCount()-1}). */
   public int reservedCount() {
     return reservedCount;
   }
 
-  @Override
+  /** Whether uncovered characters become byte tokens. */
   public boolean rawBytes() {
     return rawBytes;
   }
 
-  @Override
+  /** The id of the first byte token (byte {@code b} is {@code firstByteId() + b}), or -1 without raw bytes. */
   public int firstByteId() {
     return byteBase;
   }
 
-  @Override
+  /** The id of the first piece. */
   public int firstPieceId() {
     return firstPiece;
   }
 
-  @Override
+  /**
+   * The log-probability of a piece, the penalty of the unknown token, or {@link Double#NaN} for
+   * reserved and byte tokens.
+   *
+   * @throws IndexOutOfBoundsException if {@code id} is not in the vocabulary
+   */
   public double score(int id) {
     return score[Objects.checkIndex(id, score.length)];
+  }
+
+  @Override
+  public List<String> reservedSpellings() {
+    return List.of(reserved);
+  }
+
+  /**
+   * The best segmentation (Viterbi) with each token's log-probability and the total, and the
+   * runner-up segmentation with its total, so a person can see by how much the best one wins.
+   */
+  @Override
+  public List<String> explain(CharSequence text, int start, int end) {
+    List<PiecePath> two = nBest(text, start, end, 2);
+    List<String> out = new ArrayList<>();
+    String[] names = {"best", "runner-up"};
+    for (int k = 0; k < two.size(); k++) {
+      PiecePath p = two.get(k);
+      StringBuilder sb = new StringBuilder(names[k]).append(String.format(Locale.ROOT, " (log-probability %.3f):", p.score()));
+      for (int i = 0; i < p.size(); i++) {
+        double sc = score(p.id(i));
+        sb.append(" '").append(token(p.id(i))).append('\'');
+        if (!Double.isNaN(sc)) {
+          sb.append(String.format(Locale.ROOT, "(%.3f)", sc));
+        }
+      }
+      out.add(sb.toString());
+    }
+    if (two.size() < 2) {
+      out.add("no other segmentation exists");
+    }
+    return out;
   }
 
   @Override
@@ -416,14 +505,19 @@ public final class UnigramSegmenter implements UnigramModel {
     }
   }
 
-  @Override
-  public List<Segmentation> nBest(CharSequence text, int start, int end, int k) {
+  /**
+   * The {@code k} best segmentations of {@code text[start, end)}, best first (fewer if the piece has
+   * fewer). Ties between equal scores are broken deterministically.
+   *
+   * @throws IllegalArgumentException if {@code k <= 0} or {@code k > MAX_N_BEST}
+   */
+  public List<PiecePath> nBest(CharSequence text, int start, int end, int k) {
     checkRange(text, start, end);
     if (k <= 0 || k > MAX_N_BEST) {
       throw new IllegalArgumentException("k=" + k + " is outside [1, MAX_N_BEST=" + MAX_N_BEST + "]");
     }
     int n = end - start;
-    List<Segmentation> out = new ArrayList<>(Math.min(k, 16));
+    List<PiecePath> out = new ArrayList<>(Math.min(k, 16));
     if (n == 0) {
       out.add(new Segmentation0().build(0));
       return out;
@@ -476,7 +570,14 @@ public final class UnigramSegmenter implements UnigramModel {
     return out;
   }
 
-  @Override
+  /**
+   * Draws one segmentation of {@code text[start, end)} with probability proportional to
+   * {@code p(path)^alpha} [1, section 2.2], reporting its tokens to {@code sink}. Deterministic for a
+   * given generator state.
+   *
+   * @param alpha smoothing exponent; small values flatten the distribution, large ones approach Viterbi
+   * @throws IllegalArgumentException if {@code alpha} is not a positive finite number
+   */
   public void sample(CharSequence text, int start, int end, double alpha, RandomGenerator random, TokenSink sink) {
     checkRange(text, start, end);
     if (!(alpha > 0) || Double.isInfinite(alpha)) {
@@ -617,7 +718,7 @@ public final class UnigramSegmenter implements UnigramModel {
     }
   }
 
-  private Segmentation path(CharSequence text, int start, Nodes nodes, int last) {
+  private PiecePath path(CharSequence text, int start, Nodes nodes, int last) {
     int[] chain = new int[16];
     int m = 0;
     for (int a = last; nodes.parent[a] >= 0; a = nodes.parent[a]) {
@@ -739,7 +840,7 @@ public final class UnigramSegmenter implements UnigramModel {
     }
   }
 
-  /** Collects tokens into a {@link Segmentation}. */
+  /** Collects tokens into a {@link PiecePath}. */
   private static final class Segmentation0 implements TokenSink {
     int[] ids = new int[8];
     int[] starts = new int[8];
@@ -759,8 +860,8 @@ public final class UnigramSegmenter implements UnigramModel {
       size++;
     }
 
-    Segmentation build(double score) {
-      return Segmentation.of(Arrays.copyOf(ids, size), Arrays.copyOf(starts, size), Arrays.copyOf(ends, size), score);
+    PiecePath build(double score) {
+      return PiecePath.of(Arrays.copyOf(ids, size), Arrays.copyOf(starts, size), Arrays.copyOf(ends, size), score);
     }
   }
 }

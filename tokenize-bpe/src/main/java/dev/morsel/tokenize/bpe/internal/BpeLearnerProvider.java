@@ -1,0 +1,71 @@
+package dev.morsel.tokenize.bpe.internal;
+
+import dev.morsel.tokenize.Tokenizer;
+import dev.morsel.tokenize.Tokenizers;
+import dev.morsel.tokenize.bpe.BpeLearner;
+import dev.morsel.tokenize.bpe.BpeSegmenter;
+import dev.morsel.tokenize.train.Learner;
+import dev.morsel.tokenize.train.LearnerOption;
+import dev.morsel.tokenize.train.LearnerOptions;
+import dev.morsel.tokenize.train.LearnerProvider;
+import dev.morsel.tokenize.train.LearnerSettings;
+import dev.morsel.tokenize.train.PieceCounts;
+import java.util.List;
+
+/** Makes {@link BpeLearner}s by scheme name; registered for {@link java.util.ServiceLoader}. */
+public final class BpeLearnerProvider implements LearnerProvider {
+  static final String MIN_PAIR_COUNT = "min-pair-count";
+  static final String MAX_TOKEN_BYTES = "max-token-bytes";
+  static final String MAX_PIECE_BYTES = "max-piece-bytes";
+
+  private static final List<LearnerOption> OPTIONS = List.of(
+      LearnerOption.of(MIN_PAIR_COUNT, Long.toString(BpeLearner.DEFAULT_MIN_PAIR_COUNT),
+          "smallest count-weighted pair count worth a merge"),
+      LearnerOption.of(MAX_TOKEN_BYTES, Integer.toString(BpeLearner.DEFAULT_MAX_TOKEN_BYTES),
+          "longest token, in bytes of UTF-8 (2.." + BpeSegmenter.MAX_TOKEN_BYTES + ")"),
+      LearnerOption.of(MAX_PIECE_BYTES, Integer.toString(BpeLearner.DEFAULT_MAX_PIECE_BYTES),
+          "pieces longer than this many bytes of UTF-8 are left out of learning"));
+
+  /** For {@link java.util.ServiceLoader}. */
+  public BpeLearnerProvider() {}
+
+  @Override
+  public String scheme() {
+    return BpeSegmenter.KIND;
+  }
+
+  @Override
+  public String description() {
+    return "byte-level BPE: merges of byte pairs, never an unknown token";
+  }
+
+  @Override
+  public List<LearnerOption> options() {
+    return OPTIONS;
+  }
+
+  @Override
+  public Learner learner(LearnerSettings settings, LearnerOptions options) {
+    BpeLearner learner = BpeLearner.builder()
+        .vocabularySize(settings.vocabularySize())
+        .minPieceCount(settings.minCount())
+        .reservedTokens(settings.reservedTokens())
+        .threads(settings.threads())
+        .listener(settings.listener())
+        .minPairCount(options.longValue(MIN_PAIR_COUNT, 1, Long.MAX_VALUE))
+        .maxTokenBytes(options.intValue(MAX_TOKEN_BYTES, 2, BpeSegmenter.MAX_TOKEN_BYTES))
+        .maxPieceBytes(options.intValue(MAX_PIECE_BYTES, 2, Integer.MAX_VALUE))
+        .build();
+    return new Learner() {
+      @Override
+      public String scheme() {
+        return BpeSegmenter.KIND;
+      }
+
+      @Override
+      public Tokenizer train(PieceCounts counts) {
+        return Tokenizers.of(counts.pipeline(), learner.train(counts));
+      }
+    };
+  }
+}

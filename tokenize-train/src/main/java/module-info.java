@@ -1,0 +1,15 @@
+/**
+ * Morsel's training input: {@link dev.morsel.tokenize.train.PieceCounter} counts the pieces of a
+ * corpus through a {@link dev.morsel.tokenize.Pipeline}, in parallel and within a memory budget,
+ * into {@link dev.morsel.tokenize.train.PieceCounts}, the input every learner takes; and the learner
+ * service interface: each segmenter module provides a {@link dev.morsel.tokenize.train.LearnerProvider},
+ * found by scheme name through {@link dev.morsel.tokenize.train.Learners}.
+ */
+module dev.morsel.tokenize.train {
+  requires transitive dev.morsel.tokenize;
+  requires it.unimi.dsi.fastutil.core;
+
+  exports dev.morsel.tokenize.train;
+
+  uses dev.morsel.tokenize.train.LearnerProvider;
+}
