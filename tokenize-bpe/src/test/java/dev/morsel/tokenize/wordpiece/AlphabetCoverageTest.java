@@ -40,7 +40,7 @@ class AlphabetCoverageTest {
       for (int k = 0; k < bounds.size(); k += 2) {
         int s = bounds.getInt(k);
         int e = bounds.getInt(k + 1);
-        if (e - s > model.settings().maxPieceLength() || !insideAlphabet(model, marker, text, s, e)) {
+        if (e - s > model.pieceLimit() || !insideAlphabet(model, marker, text, s, e)) {
           outside++;
           continue;
         }
