@@ -1,5 +1,7 @@
 /**
- * The unigram language-model segmenter: {@link dev.morsel.tokenize.unigram.UnigramModel} (Viterbi,
- * n-best, sampling) and {@link dev.morsel.tokenize.unigram.UnigramLearner} (seeding, EM, pruning).
+ * The unigram language model: {@link dev.morsel.tokenize.unigram.UnigramLearner} (seeding, EM,
+ * pruning) learns a vocabulary into a tokenizer that encodes with Viterbi, and {@link
+ * dev.morsel.tokenize.unigram.Unigram} reaches any unigram tokenizer's n-best lists ({@link
+ * dev.morsel.tokenize.unigram.Segmentation}), sampling and token scores.
  */
 package dev.morsel.tokenize.unigram;
