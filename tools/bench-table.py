@@ -44,6 +44,8 @@ FIGURE_GOALS = {
 
 
 def unit(name):
+    if name.endswith("_ms"):
+        return "ms"
     if name.endswith("_s"):
         return "s"
     if name.startswith("first_encode_bytes_"):

@@ -52,12 +52,20 @@ public final class Tokenizers {
    * Segmenter#reservedSpellings()} at ids {@code 0..k-1}) and no framing.
    */
   public static Tokenizer of(Pipeline pipeline, Segmenter segmenter) {
+    return of(pipeline, segmenter, ownReserved(segmenter), Template.none());
+  }
+
+  /** The segmenter's own reserved tokens: {@link Segmenter#reservedSpellings()} at ids {@code 0..k-1}. */
+  static ReservedTokens ownReserved(Segmenter segmenter) {
     List<String> spellings = segmenter.reservedSpellings();
+    if (spellings.isEmpty()) {
+      return ReservedTokens.none();
+    }
     ReservedTokens.Builder b = ReservedTokens.builder();
     for (int i = 0; i < spellings.size(); i++) {
       b.add(spellings.get(i), i);
     }
-    return of(pipeline, segmenter, b.build(), Template.none());
+    return b.build();
   }
 
   /** Loads a model file with {@link ModelLimits#defaults()}, validating it fully before building anything. */

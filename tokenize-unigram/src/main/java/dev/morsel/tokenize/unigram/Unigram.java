@@ -4,6 +4,7 @@ import dev.morsel.tokenize.Tokenizer;
 import dev.morsel.tokenize.Tokenizers;
 import dev.morsel.tokenize.Tokens;
 import dev.morsel.tokenize.Trust;
+import dev.morsel.tokenize.spi.Workspace;
 import dev.morsel.tokenize.unigram.internal.PiecePath;
 import dev.morsel.tokenize.unigram.internal.UnigramSegmenter;
 import java.util.ArrayList;
@@ -66,7 +67,7 @@ public final class Unigram {
     }
     List<List<PiecePath>> pieces = new ArrayList<>();
     Tokens all = Tokenizers.encodeWith(tokenizer, text, trust, (s, t, start, end, sink, ws) -> {
-      List<PiecePath> paths = seg.nBest(t, start, end, k);
+      List<PiecePath> paths = viterbiFirst(seg, t, start, end, ws, seg.nBest(t, start, end, k));
       pieces.add(paths);
       for (PiecePath p : paths) {
         for (int i = 0; i < p.size(); i++) {
@@ -245,5 +246,33 @@ public final class Unigram {
       piece++;
     }
     return new Segmentation(Tokens.of(ids, starts, ends, segments, flags), total);
+  }
+
+  /**
+   * {@code paths} with the segmenter's own (Viterbi) path first when it ties with the best one, so the
+   * first candidate is exactly what {@code encode} gives: A* and Viterbi may break exact ties of
+   * equal score differently.
+   */
+  private static List<PiecePath> viterbiFirst(UnigramSegmenter seg, CharSequence t, int start, int end, Workspace ws,
+      List<PiecePath> paths) {
+    if (paths.size() < 2) {
+      return paths;
+    }
+    it.unimi.dsi.fastutil.ints.IntArrayList viterbi = new it.unimi.dsi.fastutil.ints.IntArrayList();
+    seg.segment(t, start, end, (id, s, e) -> viterbi.add(id), ws);
+    int[] ids = viterbi.toIntArray();
+    if (java.util.Arrays.equals(ids, paths.get(0).ids())) {
+      return paths;
+    }
+    double best = paths.get(0).score();
+    double tie = 1e-9 * Math.max(1, Math.abs(best)); // sums in another order differ in the last bits
+    for (int i = 1; i < paths.size() && best - paths.get(i).score() <= tie; i++) {
+      if (java.util.Arrays.equals(ids, paths.get(i).ids())) {
+        List<PiecePath> out = new ArrayList<>(paths);
+        out.add(0, out.remove(i));
+        return out;
+      }
+    }
+    return paths;
   }
 }

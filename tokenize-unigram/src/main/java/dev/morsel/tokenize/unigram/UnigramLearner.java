@@ -120,11 +120,9 @@ public final class UnigramLearner implements Learner {
     }
 
     /**
-     * Seed size as a multiple of the pieces wanted: the seed keeps {@code candidateMultiple × (vocabularySize
-     * − reserved ids)} multi-character substrings as candidates (plus every single character), so that
-     * pruning has that many to choose from. Unit: a plain multiple. Default
-     * {@value UnigramLearner#DEFAULT_CANDIDATE_MULTIPLE}, range 1..1000 (chosen by measurement:
-     * docs/unigram.md).
+     * Seed candidates as a multiple of the number of pieces wanted: the seed keeps this many times as
+     * many multi-character substrings, so pruning has room to choose. Default 8, range 1..1000 (chosen by measurement: docs/unigram.md);
+     * checked at {@link #build()}.
      */
     public Builder candidateMultiple(int multiple) {
       this.candidateMultiple = multiple;
@@ -133,8 +131,8 @@ public final class UnigramLearner implements Learner {
 
     /**
      * Longest token learned, in code points (a surrogate pair counts once; a token holds at most
-     * twice as many UTF-16 units). Default {@value UnigramLearner#DEFAULT_MAX_TOKEN_CODE_POINTS},
-     * range 1..64 (chosen by measurement: docs/unigram.md).
+     * twice as many UTF-16 units). Default 24, range
+     * 1..64 (chosen by measurement: docs/unigram.md); checked at {@link #build()}.
      */
     public Builder maxTokenCodePoints(int codePoints) {
       this.maxTokenCodePoints = codePoints;
@@ -143,10 +141,11 @@ public final class UnigramLearner implements Learner {
 
     /**
      * Share of the current vocabulary that each pruning round keeps (single characters included;
-     * the rest go, lowest loss first), never below the target size [1, section 3.2]. Unit: a
-     * fraction. Default {@value UnigramLearner#DEFAULT_KEEP_SHARE} (chosen by measurement:
-     * docs/unigram.md), range (0, 0.99] (reason for the upper bound: each round runs EM over the
-     * whole corpus, and the number of rounds grows as 1 / (1 − share)).
+     * the rest go, lowest loss first), never below the target size [1, section 3.2]; every round
+     * removes at least one token. Unit: a fraction. Default 0.7
+     * (chosen by measurement: docs/unigram.md), range (0, 0.99] (reason
+     * for the upper bound: each round runs EM over the whole corpus, and the number of rounds grows
+     * as 1 / (1 - share)); checked at {@link #build()}.
      */
     public Builder keepShare(double share) {
       this.keepShare = share;
@@ -155,8 +154,8 @@ public final class UnigramLearner implements Learner {
 
     /**
      * EM passes (one E-step and one M-step each) before every pruning round, and as many again after
-     * the last round to set the final scores. Default {@value UnigramLearner#DEFAULT_EM_PASSES}, range
-     * 1..100 (chosen by measurement: docs/unigram.md).
+     * the last round to set the final scores. Default 3, range
+     * 1..100 (chosen by measurement: docs/unigram.md); checked at {@link #build()}.
      */
     public Builder emPasses(int passes) {
       this.emPasses = passes;
@@ -195,7 +194,8 @@ public final class UnigramLearner implements Learner {
 
     /**
      * Entries of the seed substring table before rare ones are dropped (memory about 100 bytes an
-     * entry). Default {@value UnigramLearner#DEFAULT_SEED_TABLE_LIMIT}, range 1,000..100,000,000.
+     * entry). Default {@value UnigramLearner#DEFAULT_SEED_TABLE_LIMIT} (chosen by measurement: docs/unigram.md),
+     * range 1,000..100,000,000.
      */
     public Builder seedTableLimit(int entries) {
       this.seedTableLimit = entries;

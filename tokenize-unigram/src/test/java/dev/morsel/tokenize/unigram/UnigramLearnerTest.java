@@ -1,12 +1,13 @@
 package dev.morsel.tokenize.unigram;
 
-import dev.morsel.tokenize.unigram.internal.UnigramSegmenter;
 import static org.junit.jupiter.api.Assertions.assertArrayEquals;
 import static org.junit.jupiter.api.Assertions.assertEquals;
 import static org.junit.jupiter.api.Assertions.assertThrows;
 import static org.junit.jupiter.api.Assertions.assertTrue;
 
+import dev.morsel.tokenize.Tokenizer;
 import dev.morsel.tokenize.train.PieceCounts;
+import dev.morsel.tokenize.unigram.internal.UnigramSegmenter;
 import java.util.ArrayList;
 import java.util.List;
 import java.util.SplittableRandom;
@@ -100,7 +101,11 @@ class UnigramLearnerTest {
     e = assertThrows(IllegalArgumentException.class,
         () -> UnigramLearner.builder().vocabularySize(262).build().train(corpus(1, 50)));
     assertTrue(e.getMessage().contains("256 byte tokens") && e.getMessage().contains("alphabet"), e.getMessage());
+    assertThrows(IllegalArgumentException.class, () -> UnigramLearner.builder().keepShare(1.0).build());
+    assertThrows(IllegalArgumentException.class, () -> UnigramLearner.builder().keepShare(0).build());
     assertThrows(IllegalArgumentException.class, () -> UnigramLearner.builder().vocabularySize(0).build());
+    assertThrows(IllegalArgumentException.class, () -> UnigramLearner.builder().maxTokenCodePoints(0).build());
+    assertThrows(IllegalArgumentException.class, () -> UnigramLearner.builder().emPasses(0).build());
     assertThrows(IllegalArgumentException.class, () -> UnigramLearner.builder().threads(0).build());
     assertThrows(IllegalArgumentException.class, () -> UnigramLearner.builder().reservedTokens(List.of("a", "a")).build());
     assertThrows(IllegalArgumentException.class, () -> UnigramLearner.builder().unknownToken("").build());

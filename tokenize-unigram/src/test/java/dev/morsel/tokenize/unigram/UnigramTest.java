@@ -105,9 +105,9 @@ class UnigramTest {
       lists++;
     }
     assertEquals(HELD_OUT, lists);
-    // where they part, the score check above proved an exact tie (Viterbi keeps the first relaxation,
-    // the A* search goes deeper first); most bodies have one best path and agree token for token
-    assertTrue(ties < HELD_OUT / 2, "bodies whose best path ties another: " + ties);
+    // each piece's list puts encode's own path first among exact ties, so they part only where more
+    // than k paths tie; the score check above proved the tie
+    assertTrue(ties <= HELD_OUT / 20, "encode and the n-best list part only on exact ties: " + ties);
     System.out.printf("[unigram n-best] %d held-out bodies, %d with a tied best path%n", lists, ties);
   }
 

@@ -25,10 +25,8 @@ import java.util.concurrent.Executors;
  * <p>Pruning: for each multi-character token t the loss is {@code c(t) · (log p(t) − log p(alt(t)))},
  * the drop in corpus log-likelihood if every expected occurrence of t were replaced by the best
  * (Viterbi) segmentation alt(t) of t's string without t itself [1, section 3.2]. The tokens with the
- * highest loss are kept, {@code keepShare} of the vocabulary per round (at least one token goes);
- * single characters always stay so every piece stays covered. {@code emPasses} EM passes run before
- * each round and after the last; the seed keeps {@code candidateMultiple} times as many
- * multi-character candidates as the target, each at most {@code maxTokenCodePoints} code points.
+ * highest loss are kept, {@code keepShare} of the vocabulary per round; single characters always
+ * stay so every piece stays covered.
  *
  * <p>Every setting is checked when the training is made (so by {@code UnigramLearner.Builder.build()}
  * and by the learner provider alike), each refusal naming the setting.
@@ -229,7 +227,6 @@ public final class Training implements Learner {
         if (vocab.length <= target) {
           break;
         }
-        // at least one token goes per round, whatever the share (rounding could otherwise keep them all)
         int newSize = Math.max(target, Math.min(vocab.length - 1, (int) (vocab.length * keepShare)));
         int[] keep = prune(vocab, logp, expected, newSize);
         String[] v = new String[keep.length];

@@ -58,7 +58,7 @@ public final class UnigramLearnerProvider implements LearnerProvider {
     String unknown = options.string(UNKNOWN_TOKEN);
     int candidates = options.intValue(CANDIDATE_MULTIPLE, 1, 1000);
     int tokenLength = options.intValue(MAX_TOKEN_CODE_POINTS, 1, 64);
-    double keep = options.doubleValue(KEEP_SHARE, 0, 1, false); // (0.99, 1) is refused by Training, naming keepShare
+    double keep = options.doubleValue(KEEP_SHARE, 0, Training.MAX_KEEP_SHARE, true);
     int passes = options.intValue(EM_PASSES, 1, 100);
     int seedTable = options.intValue(SEED_TABLE_LIMIT, 1000, 100_000_000);
     int pieceLength = options.intValue(MAX_PIECE_LENGTH, 1, 1 << 26);
