@@ -42,14 +42,11 @@ public final class Tokenizers {
     return new PipelineTokenizer(pipeline, segmenter, reservedTokens, template, Limits.defaults(), null);
   }
 
-  /** A tokenizer with the default pipeline, the segmenter's own reserved tokens and no framing. */
-  public static Tokenizer of(Segmenter segmenter) {
-    return of(Pipeline.defaults(), segmenter);
-  }
-
   /**
    * A tokenizer with the given pipeline, the segmenter's own reserved tokens ({@link
-   * Segmenter#reservedSpellings()} at ids {@code 0..k-1}) and no framing.
+   * Segmenter#reservedSpellings()} at ids {@code 0..k-1}) and no framing. The pipeline is always
+   * named: there is no overload that picks one, so a vocabulary cannot be paired with a pipeline it
+   * was not learned with by omission (a learner's tokenizer is bound to its counts' pipeline).
    */
   public static Tokenizer of(Pipeline pipeline, Segmenter segmenter) {
     return of(pipeline, segmenter, ownReserved(segmenter), Template.none());

@@ -474,4 +474,20 @@ class TokenizerTest {
     }
     return sb.toString();
   }
+
+  /**
+   * A vocabulary is never paired with a pipeline by omission: every factory that takes a segmenter
+   * takes the pipeline first (learners return tokenizers bound to their counts' pipeline).
+   */
+  @Test
+  void everyFactoryFromASegmenterNamesThePipeline() {
+    int factories = 0;
+    for (java.lang.reflect.Method m : Tokenizers.class.getMethods()) {
+      if (m.getName().equals("of")) {
+        factories++;
+        assertEquals(Pipeline.class, m.getParameterTypes()[0], m.toString());
+      }
+    }
+    assertEquals(2, factories, "Tokenizers.of(pipeline, segmenter) and of(pipeline, segmenter, reserved, template)");
+  }
 }

@@ -1,5 +1,6 @@
 package dev.morsel.tokenize.bpe;
 
+import dev.morsel.tokenize.Pipeline;
 import dev.morsel.tokenize.bpe.internal.BpeSegmenter;
 import dev.morsel.tokenize.bpe.internal.BpeTraining;
 import dev.morsel.tokenize.testkit.Sections;
@@ -164,7 +165,7 @@ class ModelFormatTest {
   /** The review text of a bare segmenter inside a tokenizer with the default pipeline. */
   private static String review(BpeSegmenter s) {
     StringBuilder sb = new StringBuilder();
-    Tokenizers.of(s).writeReview(sb);
+    Tokenizers.of(Pipeline.defaults(), s).writeReview(sb);
     return sb.toString();
   }
 
@@ -180,7 +181,7 @@ class ModelFormatTest {
     assertTrue(text.contains("\n0\treserved\t«dock»\n"), "reserved rows");
     assertTrue(text.contains("\tbyte\t\\s\n"), "the space byte is written \\s");
     Tokenizer back = Tokenizers.load(fromReview(text, "ferry.tsv"));
-    assertEquals(Tokenizers.of(s).fingerprint(), back.fingerprint());
+    assertEquals(Tokenizers.of(Pipeline.defaults(), s).fingerprint(), back.fingerprint());
     assertSameSegmenter(s, BpeSegmenter.readReview(ReviewDocument.read(new BufferedReader(new StringReader(text)),
         "ferry.tsv")));
     // a merge of two partial-character bytes: raw bytes in braces, in the review text and the display
@@ -190,7 +191,7 @@ class ModelFormatTest {
     assertTrue(p.contains("\n1\t\\{E2}\t\\{82}\t\\{E2}\\{82}\n"), p); // a truncated 3-byte sequence
     assertEquals("é", partial.token(256));
     assertEquals("\\{E2}\\{82}", partial.token(257));
-    assertEquals(Tokenizers.of(partial).fingerprint(), Tokenizers.load(fromReview(p, "partial.tsv")).fingerprint());
+    assertEquals(Tokenizers.of(Pipeline.defaults(), partial).fingerprint(), Tokenizers.load(fromReview(p, "partial.tsv")).fingerprint());
   }
 
   /** The review text of the empty model with these merge rows (rank, left, right, token). */

@@ -107,7 +107,7 @@ class ReviewRoundTripTest {
         "a merge row whose token holds the ship, outside the BMP");
     assertTrue(text.contains("\t\\{F0}\t") || text.contains("\\{F0}\\{9F}"), "a part of the ship's UTF-8 as raw bytes");
     assertRoundTrip(framed(p, s));
-    assertRoundTrip(Tokenizers.of(s));
+    assertRoundTrip(Tokenizers.of(Pipeline.defaults(), s));
   }
 
   @Test
@@ -116,10 +116,10 @@ class ReviewRoundTripTest {
     BpeSegmenter s = BpeSegmenter.of(List.of(AGENT), new int[] {1 + '\t', 1 + '\\', 1 + 0xF0, 1 + 0x9A, 259},
         new int[] {1 + '\n', 1 + '\\', 1 + 0x9F, 1 + 0xA2, 260});
     assertEquals(SHIP, s.token(261));
-    String text = review(Tokenizers.of(s));
+    String text = review(Tokenizers.of(Pipeline.defaults(), s));
     assertTrue(text.contains("\n0\t\\t\t\\n\t\\t\\n\n1\t\\\\\t\\\\\t\\\\\\\\\n2\t\\{F0}\t\\{9F}\t\\{F0}\\{9F}\n"
         + "3\t\\{9A}\t\\{A2}\t\\{9A}\\{A2}\n4\t\\{F0}\\{9F}\t\\{9A}\\{A2}\t" + SHIP + "\n"), text);
-    assertRoundTrip(Tokenizers.of(s));
+    assertRoundTrip(Tokenizers.of(Pipeline.defaults(), s));
   }
 
   @Test
@@ -132,21 +132,21 @@ class ReviewRoundTripTest {
     WordPieceSegmenter odd = WordPieceSegmenter.of(List.of(AGENT, WordPieceSettings.DEFAULT_UNKNOWN, "a\tb", "\r\n",
         "C:\\berth", "\u2218\\", SHIP, "\u2218" + SHIP, "\u00A7quay", "\u00B6"), 1,
         WordPieceSettings.defaults().withMaxPieceLength(40));
-    String text = review(Tokenizers.of(odd));
+    String text = review(Tokenizers.of(Pipeline.defaults(), odd));
     assertTrue(text.contains("\n2\tinitial\ta\\tb\n3\tinitial\t\\r\\n\n4\tinitial\tC:\\\\berth\n5\tcontinuation\t\u2218\\\\\n"
         + "6\tinitial\t" + SHIP + "\n7\tcontinuation\t\u2218" + SHIP + "\n8\tinitial\t\\{U+00A7}quay\n"
         + "9\tinitial\t\\{U+00B6}\n"), text); // a section or note sign is escaped at the start of a field
-    assertRoundTrip(Tokenizers.of(odd));
+    assertRoundTrip(Tokenizers.of(Pipeline.defaults(), odd));
   }
 
   @Test
   void anEditChangesTheFingerprint() {
     BpeSegmenter s = BpeSegmenter.of(List.of(), new int[] {'f', 'e'}, new int[] {'e', 'r'});
-    String text = review(Tokenizers.of(s));
+    String text = review(Tokenizers.of(Pipeline.defaults(), s));
     String edited = text.replace("\n1\te\tr\ter\n", "\n1\te\tr\ter\n2\tfe\ter\tfeer\n");
     assertNotEquals(text, edited);
     byte[] back = importText(edited);
-    assertNotEquals(Tokenizers.of(s).fingerprint(), ModelFile.read(back).fingerprint());
+    assertNotEquals(Tokenizers.of(Pipeline.defaults(), s).fingerprint(), ModelFile.read(back).fingerprint());
     assertEquals(3, ((BpeSegmenter) Tokenizers.segmenterOf(ModelFile.read(back))).mergeCount());
   }
 
@@ -188,7 +188,7 @@ class ReviewRoundTripTest {
 
   @Test
   void missingAndUnknownSectionsAreNamed() {
-    String text = review(Tokenizers.of(BpeSegmenter.of(List.of(), new int[0], new int[0])));
+    String text = review(Tokenizers.of(Pipeline.defaults(), BpeSegmenter.of(List.of(), new int[0], new int[0])));
     ModelFormatException missing = assertThrows(ModelFormatException.class,
         () -> importText(text.substring(0, text.indexOf("\u00A7 merges"))));
     assertEquals("ferry.tsv", missing.section());

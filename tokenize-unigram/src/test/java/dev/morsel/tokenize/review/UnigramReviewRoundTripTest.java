@@ -81,7 +81,7 @@ class UnigramReviewRoundTripTest {
     double[] scores = {-0.1, -1e-300, -Double.MIN_VALUE, -0.0, -3.2188758248682006, -1.0 / 3, -7e22, -2.5,
         -Math.PI, -12.000000000000002};
     UnigramSegmenter m = UnigramSegmenter.create(List.of(AGENT), true, "\u2983?\u2984", pieces, scores);
-    Tokenizer t = Tokenizers.of(m);
+    Tokenizer t = Tokenizers.of(Pipeline.defaults(), m);
     String text = review(t);
     assertTrue(text.contains("\ta\\tb\t-0.1\n") && text.contains("\t\\r\\n\t-1.0E-300\n")
         && text.contains("\tC:\\\\berth\t-4.9E-324\n") && text.contains("\t" + SHIP + "\t-0.0\n")
@@ -97,7 +97,7 @@ class UnigramReviewRoundTripTest {
   @Test
   void malformedRowsAreRefusedNamingLineAndColumn() {
     UnigramSegmenter m = UnigramSegmenter.create(List.of(AGENT), false, "\u2983?\u2984", List.of("quay", "q"), new double[] {-1, -2});
-    String text = review(Tokenizers.of(m));
+    String text = review(Tokenizers.of(Pipeline.defaults(), m));
     String[] lines = text.split("\n");
     int quay = List.of(lines).indexOf("2\tpiece\tquay\t-1.0") + 1;
     assertTrue(quay > 0, text);
@@ -143,6 +143,6 @@ class UnigramReviewRoundTripTest {
       scores[i] = v;
     }
     UnigramSegmenter m = UnigramSegmenter.create(List.of(), false, "\u2983?\u2984", pieces, scores);
-    assertRoundTrip(Tokenizers.of(m), List.of("p1 p22 p199"));
+    assertRoundTrip(Tokenizers.of(Pipeline.defaults(), m), List.of("p1 p22 p199"));
   }
 }

@@ -6,6 +6,7 @@ import static org.junit.jupiter.api.Assertions.assertFalse;
 import static org.junit.jupiter.api.Assertions.assertThrows;
 import static org.junit.jupiter.api.Assertions.assertTrue;
 
+import dev.morsel.tokenize.Pipeline;
 import dev.morsel.tokenize.wordpiece.internal.WordPieceSegmenter;
 import dev.morsel.tokenize.wordpiece.internal.WordPieceSettings;
 import dev.morsel.tokenize.Tokenizers;
@@ -214,14 +215,14 @@ class WordPieceSegmenterTest {
     WordPieceSegmenter s = WordPieceSegmenter.of(List.of("harbour-bell", UNK, "\n", " pier", M + "s", "a\\b", "\t",
         "\uD83D\uDEA2"), 1, WordPieceSettings.defaults().withMaxPieceLength(12));
     StringBuilder sb = new StringBuilder();
-    Tokenizers.of(s).writeReview(sb);
+    Tokenizers.of(Pipeline.defaults(), s).writeReview(sb);
     String text = sb.toString();
     assertTrue(text.contains("\n§ settings\tsetting\tvalue\nmarker\t" + M + "\nunknown\t" + UNK
         + "\nmax-piece-length\t12\n§ vocabulary\tid\tkind\ttoken\n0\treserved\tharbour-bell\n1\tunknown\t" + UNK
         + "\n2\tinitial\t\\n\n3\tinitial\t\\spier\n4\tcontinuation\t" + M + "s\n5\tinitial\ta\\\\b\n"
         + "6\tinitial\t\\t\n7\tinitial\t\uD83D\uDEA2\n"), text);
     byte[] file = Tokenizers.modelFromReview(new BufferedReader(new StringReader(text)), "wp.tsv");
-    assertEquals(Tokenizers.of(s).fingerprint(), Tokenizers.load(file).fingerprint());
+    assertEquals(Tokenizers.of(Pipeline.defaults(), s).fingerprint(), Tokenizers.load(file).fingerprint());
     WordPieceSegmenter back = (WordPieceSegmenter) Tokenizers.segmenterOf(ModelFile.read(file));
     assertEquals(s.tokens(), back.tokens());
     assertEquals(s.settings(), back.settings());
