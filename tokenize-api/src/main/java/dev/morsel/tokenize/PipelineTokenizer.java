@@ -37,6 +37,7 @@ final class PipelineTokenizer implements Tokenizer {
   static final String PIPE = ModelFile.TAG_PIPE;
   static final String RSRV = ModelFile.TAG_RESERVED;
   static final String FRAM = ModelFile.TAG_FRAM;
+  static final String BASE = ModelFile.TAG_BASE;
 
   // ------------------------------------------------------------------ configuration
 
@@ -50,6 +51,8 @@ final class PipelineTokenizer implements Tokenizer {
   private final int[] separatorIds;
   private final int[] endIds;
   private final byte[][] reservedBytes;
+  /** The model this one extends, or null. */
+  private final Lineage lineage;
 
   // ------------------------------------------------------------------ state
 
@@ -61,11 +64,21 @@ final class PipelineTokenizer implements Tokenizer {
 
   PipelineTokenizer(Pipeline pipeline, Segmenter segmenter, ReservedTokens reserved, Template template, Limits limits,
       String fingerprint) {
-    this(pipeline, segmenter, reserved, template, limits, fingerprint, null);
+    this(pipeline, segmenter, reserved, template, limits, fingerprint, null, null);
+  }
+
+  PipelineTokenizer(Pipeline pipeline, Segmenter segmenter, ReservedTokens reserved, Template template, Limits limits,
+      String fingerprint, Lineage lineage) {
+    this(pipeline, segmenter, reserved, template, limits, fingerprint, null, lineage);
   }
 
   private PipelineTokenizer(Pipeline pipeline, Segmenter segmenter, ReservedTokens reserved, Template template,
-      Limits limits, String fingerprint, WorkspacePool<Context> contexts) {
+      Limits limits, String fingerprint, WorkspacePool<Context> contexts, Lineage lineage) {
+    this.lineage = lineage;
+    if (lineage != null && lineage.baseVocabularySize() > segmenter.vocabularySize()) {
+      throw new IllegalArgumentException("the lineage names a base of " + lineage.baseVocabularySize()
+          + " ids, more than this model's " + segmenter.vocabularySize() + ": an extension only adds ids");
+    }
     this.contexts = contexts != null ? contexts : WorkspacePool.of(() -> new Context(segmenter));
     this.pipeline = Objects.requireNonNull(pipeline, "pipeline");
     this.segmenter = Objects.requireNonNull(segmenter, "segmenter");
@@ -515,12 +528,17 @@ final class PipelineTokenizer implements Tokenizer {
 
   @Override
   public Tokenizer withTemplate(Template t) {
-    return new PipelineTokenizer(pipeline, segmenter, reserved, t, limits, null, contexts);
+    return new PipelineTokenizer(pipeline, segmenter, reserved, t, limits, null, contexts, lineage);
   }
 
   @Override
   public Tokenizer withLimits(Limits l) {
-    return new PipelineTokenizer(pipeline, segmenter, reserved, template, l, fingerprint, contexts);
+    return new PipelineTokenizer(pipeline, segmenter, reserved, template, l, fingerprint, contexts, lineage);
+  }
+
+  @Override
+  public java.util.Optional<Lineage> lineage() {
+    return java.util.Optional.ofNullable(lineage);
   }
 
   /** The segmenter (for modules that need their own segmenter's extra features). */
@@ -547,6 +565,9 @@ final class PipelineTokenizer implements Tokenizer {
       for (String s : list) {
         f.putString(s);
       }
+    }
+    if (lineage != null) {
+      w.section(BASE).putString(lineage.baseFingerprint()).putInt(lineage.baseVocabularySize());
     }
     segmenter.write(w);
     return w;

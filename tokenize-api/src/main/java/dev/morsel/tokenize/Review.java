@@ -29,6 +29,8 @@ final class Review {
   static final String RESERVED = "reserved";
   static final String FRAMING = "framing";
   static final String METADATA = "metadata";
+  static final String LINEAGE = "lineage";
+  private static final String[] LINEAGE_COLUMNS = {"base", "value"};
   private static final String[] PIPELINE_COLUMNS = {"setting", "value"};
   private static final String[] RESERVED_COLUMNS = {"id", "token"};
   private static final String[] FRAMING_COLUMNS = {"place", "position", "token"};
@@ -62,6 +64,11 @@ final class Review {
         w.row(PLACES[p], Integer.toString(i), ReviewText.escape(lists.get(p).get(i)));
       }
     }
+    t.lineage().ifPresent(l -> {
+      w.section(LINEAGE, LINEAGE_COLUMNS);
+      w.row("fingerprint", l.baseFingerprint());
+      w.row("vocabulary", Integer.toString(l.baseVocabularySize()));
+    });
     segmenter.writeReview(w);
     if (metadata != null) {
       w.section(METADATA, METADATA_COLUMNS);
@@ -162,7 +169,38 @@ final class Review {
       list.add(token);
     }
 
+    Lineage lineage = null;
+    ReviewDocument.Section ls = doc.optionalSection(LINEAGE, LINEAGE_COLUMNS);
+    if (ls != null) {
+      ReviewDocument.Row fingerprintRow = null;
+      ReviewDocument.Row sizeRow = null;
+      for (ReviewDocument.Row r : ls.rows()) {
+        String key = r.word(0, "fingerprint", "vocabulary");
+        ReviewDocument.Row before = key.equals("fingerprint") ? fingerprintRow : sizeRow;
+        if (before != null) {
+          throw r.fail(0, key + " repeats line " + before.line());
+        }
+        if (key.equals("fingerprint")) {
+          fingerprintRow = r;
+        } else {
+          sizeRow = r;
+        }
+      }
+      if (fingerprintRow == null || sizeRow == null) {
+        throw ls.fail("needs a row for " + (fingerprintRow == null ? "fingerprint" : "vocabulary"));
+      }
+      int size = (int) sizeRow.integer(1, 1, Integer.MAX_VALUE);
+      try {
+        lineage = Lineage.of(fingerprintRow.text(1), size);
+      } catch (IllegalArgumentException e) {
+        throw fingerprintRow.fail(1, e.getMessage());
+      }
+    }
     Segmenter segmenter = provider.readReview(doc);
+    if (lineage != null && lineage.baseVocabularySize() > segmenter.vocabularySize()) {
+      throw ls.fail("the base had " + lineage.baseVocabularySize() + " ids, more than this model's "
+          + segmenter.vocabularySize() + ": an extension only adds ids");
+    }
     for (int i = 0; i < reservedRows.size(); i++) {
       if (reservedIds.get(i) >= segmenter.vocabularySize()) {
         throw reservedRows.get(i).fail(0, "id " + reservedIds.get(i) + " is outside the vocabulary of "
@@ -188,7 +226,7 @@ final class Review {
     PipelineTokenizer t;
     try {
       t = new PipelineTokenizer(Pipeline.of(normalization, splitting), segmenter, reserved,
-          Template.of(lists.get(0), lists.get(1), lists.get(2)), Limits.defaults(), null);
+          Template.of(lists.get(0), lists.get(1), lists.get(2)), Limits.defaults(), null, lineage);
     } catch (IllegalArgumentException e) {
       throw doc.fail(e.getMessage());
     }

@@ -194,6 +194,17 @@ public interface Tokenizer {
   /** Normalization and splitting. */
   Pipeline pipeline();
 
+  /**
+   * The model this one extends, if it was made by extending another ({@link
+   * Tokenizers#extension}); empty for a model learned from scratch or loaded from a file without
+   * the record. Kept by {@link #withTemplate}, {@link #withLimits}, save and load, and the review text.
+   *
+   * @since 0.3.0
+   */
+  default java.util.Optional<Lineage> lineage() {
+    return java.util.Optional.empty();
+  }
+
   /** This tokenizer with another template (reserved tokens it names must be registered). */
   Tokenizer withTemplate(Template template);
 

@@ -52,6 +52,81 @@ public final class Tokenizers {
     return of(pipeline, segmenter, ownReserved(segmenter), Template.none());
   }
 
+  /**
+   * A model that extends {@code base}: {@code segmenter} in place of the base's, with the base's
+   * pipeline, reserved tokens, framing and limits, and a {@link Lineage} naming the base ({@link
+   * Tokenizer#lineage()}). The extenders of each scheme make their result with it. Checked here, in
+   * one pass over the base's ids: the segmenter is of the base's kind, has more ids, and every id
+   * below the base's vocabulary size has the same display spelling and the same bytes; no new id
+   * spells a reserved token.
+   *
+   * @throws IllegalArgumentException naming the first id that differs, or the kind, size or spelling
+   *     that is wrong; or if {@code base} was not made by this class
+   * @since 0.3.0
+   */
+  public static Tokenizer extension(Tokenizer base, Segmenter segmenter) {
+    PipelineTokenizer b = pipelineTokenizer(base);
+    Objects.requireNonNull(segmenter, "segmenter");
+    Segmenter old = b.segmenter();
+    if (!old.kind().equals(segmenter.kind())) {
+      throw new IllegalArgumentException("an extension of a model of kind '" + old.kind()
+          + "' needs a segmenter of that kind, not '" + segmenter.kind() + "'");
+    }
+    int n = old.vocabularySize();
+    int m = segmenter.vocabularySize();
+    if (m <= n) {
+      throw new IllegalArgumentException("the extension has " + m + " ids, not more than the base's " + n);
+    }
+    if (!old.reservedSpellings().equals(segmenter.reservedSpellings())) {
+      throw new IllegalArgumentException("the extension's own reserved tokens " + segmenter.reservedSpellings()
+          + " differ from the base's " + old.reservedSpellings());
+    }
+    for (int id = 0; id < n; id++) {
+      if (!old.token(id).equals(segmenter.token(id))) {
+        throw new IllegalArgumentException("id " + id + " is '" + segmenter.token(id) + "' in the extension but '"
+            + old.token(id) + "' in the base: an extension keeps every base id");
+      }
+      if (!java.util.Arrays.equals(b.tokenBytes(id), bytesOf(segmenter, id))) {
+        throw new IllegalArgumentException("id " + id + " ('" + old.token(id)
+            + "') decodes to other bytes in the extension than in the base: an extension keeps every base id");
+      }
+    }
+    ReservedTokens reserved = b.reservedTokens();
+    for (int id = n; id < m; id++) {
+      if (reserved.id(segmenter.token(id)) >= 0) {
+        throw new IllegalArgumentException("new id " + id + " spells the reserved token '" + segmenter.token(id) + "'");
+      }
+    }
+    return new PipelineTokenizer(b.pipeline(), segmenter, reserved, b.template(), b.limits(), null,
+        Lineage.of(b.fingerprint(), n));
+  }
+
+  /**
+   * {@code tokenizer} with {@code segmenter} in place of its own, everything else kept (pipeline,
+   * reserved tokens, framing, limits, {@link Tokenizer#lineage() lineage}): for a segmenter module's
+   * variants of one vocabulary (another cache size, another piece limit).
+   *
+   * @throws IllegalArgumentException if {@code tokenizer} was not made by this class, or the segmenter
+   *     is of another kind or has fewer ids than the lineage's base
+   * @since 0.3.0
+   */
+  public static Tokenizer withSegmenter(Tokenizer tokenizer, Segmenter segmenter) {
+    PipelineTokenizer t = pipelineTokenizer(tokenizer);
+    Objects.requireNonNull(segmenter, "segmenter");
+    if (!t.kind().equals(segmenter.kind())) {
+      throw new IllegalArgumentException("a tokenizer of kind '" + t.kind() + "' cannot take a segmenter of kind '"
+          + segmenter.kind() + "'");
+    }
+    return new PipelineTokenizer(t.pipeline(), segmenter, t.reservedTokens(), t.template(), t.limits(), null,
+        t.lineage().orElse(null));
+  }
+
+  private static byte[] bytesOf(Segmenter s, int id) {
+    java.io.ByteArrayOutputStream out = new java.io.ByteArrayOutputStream(16);
+    s.decodeToken(id, (bytes, off, len) -> out.write(bytes, off, len));
+    return out.toByteArray();
+  }
+
   /** The segmenter's own reserved tokens: {@link Segmenter#reservedSpellings()} at ids {@code 0..k-1}. */
   static ReservedTokens ownReserved(Segmenter segmenter) {
     List<String> spellings = segmenter.reservedSpellings();
@@ -296,7 +371,23 @@ public final class Tokenizers {
       lists.add(list);
     }
     f.expectEnd();
+    Lineage lineage = null;
+    if (sections.has(PipelineTokenizer.BASE)) {
+      SectionReader l = sections.reader(PipelineTokenizer.BASE);
+      String baseFingerprint = l.getString("base fingerprint");
+      int baseSize = l.getInt("base vocabulary size");
+      l.expectEnd();
+      try {
+        lineage = Lineage.of(baseFingerprint, baseSize);
+      } catch (IllegalArgumentException e) {
+        throw new ModelFormatException(PipelineTokenizer.BASE, e.getMessage(), e);
+      }
+    }
     Segmenter segmenter = provider.read(sections, limits);
+    if (lineage != null && lineage.baseVocabularySize() > segmenter.vocabularySize()) {
+      throw new ModelFormatException(PipelineTokenizer.BASE, "the base had " + lineage.baseVocabularySize()
+          + " ids, more than this model's " + segmenter.vocabularySize() + ": an extension only adds ids");
+    }
     List<String> own = segmenter.reservedSpellings();
     ReservedTokens reserved;
     ReservedTokens.Builder cb = ReservedTokens.builder();
@@ -314,7 +405,7 @@ public final class Tokenizers {
     try {
       // with another Unicode version allowed, the fingerprint is this runtime's (the file's no longer proves encodings)
       return new PipelineTokenizer(pipeline, segmenter, reserved, Template.of(lists.get(0), lists.get(1), lists.get(2)),
-          Limits.defaults(), otherUnicode ? null : sections.fingerprint());
+          Limits.defaults(), otherUnicode ? null : sections.fingerprint(), lineage);
     } catch (IllegalArgumentException e) {
       throw new ModelFormatException(PipelineTokenizer.RSRV, e.getMessage(), e);
     }
@@ -368,5 +459,5 @@ public final class Tokenizers {
   }
 
   private static final Set<String> API_TAGS = Set.of(PipelineTokenizer.KIND, PipelineTokenizer.PIPE,
-      PipelineTokenizer.RSRV, PipelineTokenizer.FRAM, ModelFile.TAG_META);
+      PipelineTokenizer.RSRV, PipelineTokenizer.FRAM, PipelineTokenizer.BASE, ModelFile.TAG_META);
 }

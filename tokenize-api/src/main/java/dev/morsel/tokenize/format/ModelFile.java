@@ -56,6 +56,14 @@ public final class ModelFile {
   /** Section tag: the framing template, three lists of reserved spellings (begin, separator, end). */
   public static final String TAG_FRAM = "FRAM";
 
+  /**
+   * Section tag: the lineage of an extended model, the base model's fingerprint (string) then its
+   * vocabulary size (u32); absent in a model learned from scratch.
+   *
+   * @since 0.3.0
+   */
+  public static final String TAG_BASE = "BASE";
+
   /** Section tag: free key/value metadata, excluded from the fingerprint. */
   public static final String TAG_META = "META";
 

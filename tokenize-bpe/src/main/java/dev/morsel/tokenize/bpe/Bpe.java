@@ -69,8 +69,7 @@ public final class Bpe {
    */
   public static Tokenizer withCacheEntries(Tokenizer tokenizer, int entries) {
     BpeSegmenter s = segmenter(tokenizer, "withCacheEntries").withCacheEntries(entries);
-    return Tokenizers.of(tokenizer.pipeline(), s, tokenizer.reservedTokens(), tokenizer.template())
-        .withLimits(tokenizer.limits());
+    return Tokenizers.withSegmenter(tokenizer, s);
   }
 
   /**

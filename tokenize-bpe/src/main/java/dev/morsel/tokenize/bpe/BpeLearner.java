@@ -1,8 +1,10 @@
 package dev.morsel.tokenize.bpe;
 
 import dev.morsel.tokenize.Tokenizer;
+import dev.morsel.tokenize.bpe.internal.BpeExtension;
 import dev.morsel.tokenize.bpe.internal.BpeSegmenter;
 import dev.morsel.tokenize.bpe.internal.BpeTraining;
+import dev.morsel.tokenize.train.Extender;
 import dev.morsel.tokenize.train.Learner;
 import dev.morsel.tokenize.train.PieceCounts;
 import dev.morsel.tokenize.train.TrainingListener;
@@ -68,6 +70,22 @@ public final class BpeLearner implements Learner {
   /** A builder with the defaults above, no reserved tokens, all processors, no listener. */
   public static Builder builder() {
     return new Builder();
+  }
+
+  /**
+   * A builder of an {@link Extender} that extends a BPE model by continuing to learn merges on a new
+   * corpus: the new pieces are written in the base's own encoding, new merges are learned on them as
+   * {@link #train} learns (same counts, tie-break and eligibility) and appended after the base's
+   * ranks; every base id, merge and rank is kept.
+   *
+   * <pre>{@code
+   * Tokenizer extended = BpeLearner.extender().addedIds(2_000).build().extend(base, codeCounts);
+   * }</pre>
+   *
+   * @since 0.3.0
+   */
+  public static ExtenderBuilder extender() {
+    return new ExtenderBuilder();
   }
 
   @Override
@@ -161,6 +179,75 @@ public final class BpeLearner implements Learner {
      */
     public BpeLearner build() {
       return new BpeLearner(b.build());
+    }
+  }
+
+  /**
+   * Builder of a BPE {@link Extender}; every setting is checked at {@link #build()}. Not thread-safe.
+   *
+   * @since 0.3.0
+   */
+  public static final class ExtenderBuilder {
+    private int addedIds;
+    private long minPairCount = DEFAULT_MIN_PAIR_COUNT;
+    private int maxTokenBytes = DEFAULT_MAX_TOKEN_BYTES;
+    private long minCount = DEFAULT_MIN_COUNT;
+    private int maxPieceBytes = DEFAULT_MAX_PIECE_BYTES;
+    private int threads = Runtime.getRuntime().availableProcessors();
+    private TrainingListener listener = TrainingListener.NONE;
+
+    private ExtenderBuilder() {}
+
+    /** Most merges (so ids) to add after the base's; required, at least 1. */
+    public ExtenderBuilder addedIds(int n) {
+      this.addedIds = n;
+      return this;
+    }
+
+    /** Smallest weighted pair count worth a new merge (at least 1). Default 2. */
+    public ExtenderBuilder minPairCount(long count) {
+      this.minPairCount = count;
+      return this;
+    }
+
+    /** Longest new token, in bytes, in [2, {@link #MAX_TOKEN_BYTES}]. Default 64. */
+    public ExtenderBuilder maxTokenBytes(int bytes) {
+      this.maxTokenBytes = bytes;
+      return this;
+    }
+
+    /** New-corpus pieces counted fewer times are left out of learning (at least 1). Default 1. */
+    public ExtenderBuilder minCount(long count) {
+      this.minCount = count;
+      return this;
+    }
+
+    /** New-corpus pieces longer than this many bytes of UTF-8 are left out of learning (at least 2). */
+    public ExtenderBuilder maxPieceBytes(int bytes) {
+      this.maxPieceBytes = bytes;
+      return this;
+    }
+
+    /** Threads for the initial pair count (at least 1). Default: available processors. */
+    public ExtenderBuilder threads(int n) {
+      this.threads = n;
+      return this;
+    }
+
+    /** Progress: stage {@code "merges"}, new merges done, {@code addedIds}, the merge. */
+    public ExtenderBuilder listener(TrainingListener l) {
+      this.listener = Objects.requireNonNull(l, "listener");
+      return this;
+    }
+
+    /**
+     * The extender.
+     *
+     * @throws IllegalArgumentException naming the setting that is out of range ({@code addedIds} unset or
+     *     below 1 included)
+     */
+    public Extender build() {
+      return new BpeExtension(addedIds, minPairCount, maxTokenBytes, minCount, maxPieceBytes, threads, listener);
     }
   }
 }

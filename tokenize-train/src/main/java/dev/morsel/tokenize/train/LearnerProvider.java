@@ -34,4 +34,17 @@ public interface LearnerProvider {
    * @throws IllegalArgumentException naming the setting or option that is wrong
    */
   Learner learner(LearnerSettings settings, LearnerOptions options);
+
+  /**
+   * An extender with the common {@code settings} and the scheme's {@code options} (the same
+   * declarations as {@link #options()}, every one present, defaults filled in; options that only
+   * shape a vocabulary from scratch are ignored, as each scheme documents), checked here.
+   *
+   * @throws IllegalArgumentException naming the setting or option that is wrong, or, by default,
+   *     saying that the scheme cannot extend a model
+   * @since 0.3.0
+   */
+  default Extender extender(ExtensionSettings settings, LearnerOptions options) {
+    throw new IllegalArgumentException("scheme '" + scheme() + "' cannot extend a trained model");
+  }
 }

@@ -70,6 +70,29 @@ public final class Learners {
     return p.learner(settings, LearnerOptions.of(scheme, p.options(), options));
   }
 
+  /**
+   * An extender of {@code scheme} with the common settings and {@code name=value} options.
+   *
+   * @throws IllegalArgumentException if the scheme is not found or cannot extend, an option is
+   *     malformed or not declared by the scheme, or a setting or option value is refused, naming it
+   * @since 0.3.0
+   */
+  public static Extender extender(String scheme, ExtensionSettings settings, String... options) {
+    return extender(scheme, settings, LearnerOptions.parse(List.of(Objects.requireNonNull(options, "options"))));
+  }
+
+  /**
+   * An extender of {@code scheme} with the common settings and options by name.
+   *
+   * @throws IllegalArgumentException as {@link #extender(String, ExtensionSettings, String...)}
+   * @since 0.3.0
+   */
+  public static Extender extender(String scheme, ExtensionSettings settings, Map<String, String> options) {
+    Objects.requireNonNull(settings, "settings");
+    LearnerProvider p = provider(scheme);
+    return p.extender(settings, LearnerOptions.of(scheme, p.options(), options));
+  }
+
   // ------------------------------------------------------------------ internals
 
   private static Map<String, LearnerProvider> providerMap() {

@@ -1,10 +1,12 @@
 package dev.morsel.tokenize.unigram;
 
 import dev.morsel.tokenize.Tokenizer;
+import dev.morsel.tokenize.train.Extender;
 import dev.morsel.tokenize.train.Learner;
 import dev.morsel.tokenize.train.PieceCounts;
 import dev.morsel.tokenize.train.TrainingListener;
 import dev.morsel.tokenize.unigram.internal.Training;
+import dev.morsel.tokenize.unigram.internal.UnigramExtension;
 import dev.morsel.tokenize.unigram.internal.UnigramSegmenter;
 import java.util.List;
 import java.util.Objects;
@@ -62,6 +64,23 @@ public final class UnigramLearner implements Learner {
   /** A builder with the documented defaults. */
   public static Builder builder() {
     return new Builder();
+  }
+
+  /**
+   * A builder of an {@link Extender} that extends a unigram model with pieces of a new corpus,
+   * appended after the base's ids: candidates are seeded from the new corpus, EM re-estimates the
+   * scores of the base's pieces and the candidates together (the base model weighs as a prior, so
+   * the old domain keeps its share), and pruning removes only candidates. A text piece the base
+   * encoded as one token still is that token. The base's reserved, byte and unknown tokens are kept.
+   *
+   * <pre>{@code
+   * Tokenizer extended = UnigramLearner.extender().addedIds(2_000).build().extend(base, codeCounts);
+   * }</pre>
+   *
+   * @since 0.3.0
+   */
+  public static ExtenderBuilder extender() {
+    return new ExtenderBuilder();
   }
 
   @Override
@@ -227,6 +246,97 @@ public final class UnigramLearner implements Learner {
     public UnigramLearner build() {
       return new UnigramLearner(new Training(vocabularySize, candidateMultiple, maxTokenCodePoints, keepShare, emPasses,
           rawBytes, reservedTokens, unknownToken, threads, seedTableLimit, maxPieceLength, minCount, listener));
+    }
+  }
+
+  /**
+   * Builder of a unigram {@link Extender}; every setting is checked at {@link #build()}. Not thread-safe.
+   *
+   * @since 0.3.0
+   */
+  public static final class ExtenderBuilder {
+    private int addedIds;
+    private long minCount = 1;
+    private int candidateMultiple = DEFAULT_CANDIDATE_MULTIPLE;
+    private int maxTokenCodePoints = DEFAULT_MAX_TOKEN_CODE_POINTS;
+    private double keepShare = DEFAULT_KEEP_SHARE;
+    private int emPasses = DEFAULT_EM_PASSES;
+    private int threads = Math.max(1, Math.min(Training.MAX_THREADS, Runtime.getRuntime().availableProcessors()));
+    private int seedTableLimit = DEFAULT_SEED_TABLE_LIMIT;
+    private int maxPieceLength = DEFAULT_MAX_PIECE_LENGTH;
+    private TrainingListener listener = TrainingListener.NONE;
+
+    private ExtenderBuilder() {}
+
+    /** Most pieces (so ids) to add after the base's; required, at least 1. */
+    public ExtenderBuilder addedIds(int n) {
+      this.addedIds = n;
+      return this;
+    }
+
+    /** New-corpus pieces counted fewer times are not learned from (at least 1). Default 1. */
+    public ExtenderBuilder minCount(long count) {
+      this.minCount = count;
+      return this;
+    }
+
+    /** Seed candidates as a multiple of {@code addedIds} (1..1000). Default 8. */
+    public ExtenderBuilder candidateMultiple(int multiple) {
+      this.candidateMultiple = multiple;
+      return this;
+    }
+
+    /** Longest new token, in code points (1..64). Default 24. */
+    public ExtenderBuilder maxTokenCodePoints(int codePoints) {
+      this.maxTokenCodePoints = codePoints;
+      return this;
+    }
+
+    /** Share of the candidates each pruning round keeps, in (0, 0.99]. Default 0.7. */
+    public ExtenderBuilder keepShare(double share) {
+      this.keepShare = share;
+      return this;
+    }
+
+    /** EM passes before each pruning round (1..100). Default 3. */
+    public ExtenderBuilder emPasses(int passes) {
+      this.emPasses = passes;
+      return this;
+    }
+
+    /** Threads of the E-step. Default: available processors. */
+    public ExtenderBuilder threads(int n) {
+      this.threads = n;
+      return this;
+    }
+
+    /** Entries of the seed substring table before rare ones are dropped. */
+    public ExtenderBuilder seedTableLimit(int entries) {
+      this.seedTableLimit = entries;
+      return this;
+    }
+
+    /** Longest new-corpus piece learned from, in UTF-16 units. */
+    public ExtenderBuilder maxPieceLength(int length) {
+      this.maxPieceLength = length;
+      return this;
+    }
+
+    /** Progress listener, stages {@code "seed"}, {@code "em"}, {@code "prune"}. */
+    public ExtenderBuilder listener(TrainingListener listener) {
+      this.listener = Objects.requireNonNull(listener, "listener");
+      return this;
+    }
+
+    /**
+     * The extender.
+     *
+     * @throws IllegalArgumentException naming the setting that is out of range ({@code addedIds} unset or
+     *     below 1 included)
+     */
+    public Extender build() {
+      return new UnigramExtension(addedIds, candidateMultiple, maxTokenCodePoints, keepShare, emPasses, seedTableLimit,
+          maxPieceLength, minCount, threads, listener);
     }
   }
 }

@@ -64,8 +64,7 @@ public final class WordPiece {
   public static Tokenizer withMaxPieceLength(Tokenizer tokenizer, int maxPieceLength) {
     WordPieceSegmenter s = segmenter(tokenizer, "withMaxPieceLength");
     WordPieceSegmenter wide = WordPieceSegmenter.of(s.tokens(), s.reservedCount(), s.settings().withMaxPieceLength(maxPieceLength));
-    return Tokenizers.of(tokenizer.pipeline(), wide, tokenizer.reservedTokens(), tokenizer.template())
-        .withLimits(tokenizer.limits());
+    return Tokenizers.withSegmenter(tokenizer, wide);
   }
 
   /**

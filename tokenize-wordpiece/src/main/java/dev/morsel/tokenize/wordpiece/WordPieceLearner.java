@@ -1,9 +1,11 @@
 package dev.morsel.tokenize.wordpiece;
 
 import dev.morsel.tokenize.Tokenizer;
+import dev.morsel.tokenize.train.Extender;
 import dev.morsel.tokenize.train.Learner;
 import dev.morsel.tokenize.train.PieceCounts;
 import dev.morsel.tokenize.train.TrainingListener;
+import dev.morsel.tokenize.wordpiece.internal.WordPieceExtension;
 import dev.morsel.tokenize.wordpiece.internal.WordPieceSegmenter;
 import dev.morsel.tokenize.wordpiece.internal.WordPieceSettings;
 import dev.morsel.tokenize.wordpiece.internal.WordPieceTraining;
@@ -86,6 +88,23 @@ public final class WordPieceLearner implements Learner {
   /** A builder with the defaults. */
   public static Builder builder() {
     return new Builder();
+  }
+
+  /**
+   * A builder of an {@link Extender} that extends a WordPiece model with the units the
+   * likelihood-gain criterion picks on a new corpus, appended after the base's ids: the base's units
+   * start the merging (the new pieces written in them as encoding writes them), code points the base
+   * lacks are added in both forms, and merges that make a unit the base already has cost no id. The
+   * base's marker, unknown token, reserved tokens and piece limit setting are kept.
+   *
+   * <pre>{@code
+   * Tokenizer extended = WordPieceLearner.extender().addedIds(2_000).build().extend(base, codeCounts);
+   * }</pre>
+   *
+   * @since 0.3.0
+   */
+  public static ExtenderBuilder extender() {
+    return new ExtenderBuilder();
   }
 
   @Override
@@ -216,6 +235,70 @@ public final class WordPieceLearner implements Learner {
           .minPairCount(minPairCount)
           .listener(listener)
           .build());
+    }
+  }
+
+  /**
+   * Builder of a WordPiece {@link Extender}; every setting is checked at {@link #build()}. Not thread-safe.
+   *
+   * @since 0.3.0
+   */
+  public static final class ExtenderBuilder {
+    private int addedIds;
+    private long minCount = DEFAULT_MIN_COUNT;
+    private int maxAlphabet = DEFAULT_MAX_ALPHABET;
+    private long minPairCount = DEFAULT_MIN_PAIR_COUNT;
+    private Score score = Score.LIKELIHOOD_GAIN;
+    private TrainingListener listener = TrainingListener.NONE;
+
+    private ExtenderBuilder() {}
+
+    /** Most ids to add after the base's; required, at least 1. */
+    public ExtenderBuilder addedIds(int n) {
+      this.addedIds = n;
+      return this;
+    }
+
+    /** New-corpus pieces counted fewer times are left out (at least 1). Default 1. */
+    public ExtenderBuilder minCount(long count) {
+      this.minCount = count;
+      return this;
+    }
+
+    /** Most code points the base lacks that are added (each in both forms; at least 1). Default 1,000. */
+    public ExtenderBuilder maxAlphabet(int codePoints) {
+      this.maxAlphabet = codePoints;
+      return this;
+    }
+
+    /** Pairs occurring fewer times are never merged (at least 1). Default 1. */
+    public ExtenderBuilder minPairCount(long count) {
+      this.minPairCount = count;
+      return this;
+    }
+
+    /** How candidate pairs are ranked. Default {@link Score#LIKELIHOOD_GAIN}. */
+    public ExtenderBuilder score(Score score) {
+      this.score = Objects.requireNonNull(score, "score");
+      return this;
+    }
+
+    /** Progress listener, stage {@code "merges"}. */
+    public ExtenderBuilder listener(TrainingListener listener) {
+      this.listener = Objects.requireNonNull(listener, "listener");
+      return this;
+    }
+
+    /**
+     * The extender.
+     *
+     * @throws IllegalArgumentException naming the setting that is out of range ({@code addedIds} unset or
+     *     below 1 included)
+     */
+    public Extender build() {
+      return new WordPieceExtension(addedIds, minCount, maxAlphabet, minPairCount,
+          score == Score.PAIR_RATIO ? WordPieceTraining.Score.PAIR_RATIO : WordPieceTraining.Score.LIKELIHOOD_GAIN,
+          listener);
     }
   }
 }

@@ -1,5 +1,7 @@
 package dev.morsel.tokenize.bpe.internal;
 
+import dev.morsel.tokenize.train.ExtensionSettings;
+import dev.morsel.tokenize.train.Extender;
 import dev.morsel.tokenize.train.Learner;
 import dev.morsel.tokenize.train.LearnerOption;
 import dev.morsel.tokenize.train.LearnerOptions;
@@ -51,5 +53,14 @@ public final class BpeLearnerProvider implements LearnerProvider {
         .maxTokenBytes(options.intValue(MAX_TOKEN_BYTES, 2, BpeSegmenter.MAX_TOKEN_BYTES))
         .maxPieceBytes(options.intValue(MAX_PIECE_BYTES, 2, Integer.MAX_VALUE))
         .build();
+  }
+
+  /** All three options apply to the new merges. */
+  @Override
+  public Extender extender(ExtensionSettings settings, LearnerOptions options) {
+    return new BpeExtension(settings.addedIds(), options.longValue(MIN_PAIR_COUNT, 1, Long.MAX_VALUE),
+        options.intValue(MAX_TOKEN_BYTES, 2, BpeSegmenter.MAX_TOKEN_BYTES),
+        settings.minCount(), options.intValue(MAX_PIECE_BYTES, 2, Integer.MAX_VALUE), settings.threads(),
+        settings.listener());
   }
 }

@@ -80,17 +80,44 @@ public final class MergeLearner {
    */
   public MergeLearner(int k, List<byte[]> words, long[] weights, int maxMerges, long minPairCount, int maxTokenBytes,
       List<String> reserved, TrainingListener listener) {
-    this.k = k;
-    this.words = new int[words.size()][];
-    this.lens = new int[words.size()];
-    for (int w = 0; w < this.words.length; w++) {
+    this(k, byteSymbols(k, words), weights, List.of(), maxMerges, minPairCount, maxTokenBytes, reserved, listener);
+  }
+
+  /**
+   * Continues learning after existing merges [1]: {@code words} are already written in the existing
+   * vocabulary (each piece as the ids the existing merges give it), {@code mergedBytes} holds the
+   * bytes of the existing merges in rank order (ids {@code k+256..}), and new merges get the ids
+   * after them. No pair of {@code words} is an existing merge (encoding applied them all), so the
+   * merges learned here are exactly those the new corpus asks for on top of the old ones.
+   *
+   * @param words the symbols of each word (ids of the existing vocabulary); the arrays are taken over
+   * @param mergedBytes bytes of each existing merge, in rank order
+   */
+  public static MergeLearner continuing(int k, int[][] words, long[] weights, List<byte[]> mergedBytes, int maxMerges,
+      long minPairCount, int maxTokenBytes, List<String> reserved, TrainingListener listener) {
+    return new MergeLearner(k, words, weights, mergedBytes, maxMerges, minPairCount, maxTokenBytes, reserved, listener);
+  }
+
+  private static int[][] byteSymbols(int k, List<byte[]> words) {
+    int[][] out = new int[words.size()][];
+    for (int w = 0; w < out.length; w++) {
       byte[] b = words.get(w);
       int[] s = new int[b.length];
       for (int i = 0; i < b.length; i++) {
         s[i] = k + (b[i] & 0xFF);
       }
-      this.words[w] = s;
-      this.lens[w] = s.length;
+      out[w] = s;
+    }
+    return out;
+  }
+
+  private MergeLearner(int k, int[][] words, long[] weights, List<byte[]> mergedBytes, int maxMerges,
+      long minPairCount, int maxTokenBytes, List<String> reserved, TrainingListener listener) {
+    this.k = k;
+    this.words = words;
+    this.lens = new int[words.length];
+    for (int w = 0; w < words.length; w++) {
+      this.lens[w] = words[w].length;
     }
     this.weights = weights;
     this.maxMerges = maxMerges;
@@ -103,6 +130,10 @@ public final class MergeLearner {
       byte[] one = {(byte) b};
       tokenBytes.add(one);
       known.add(key(one));
+    }
+    for (byte[] m : mergedBytes) {
+      tokenBytes.add(m);
+      known.add(key(m));
     }
   }
 
@@ -153,7 +184,7 @@ public final class MergeLearner {
           || (!reserved.isEmpty() && reserved.contains(ReviewText.escape(merged)))) {
         continue;
       }
-      int id = k + 256 + leftOut.size();
+      int id = k + tokenBytes.size();
       leftOut.add(a);
       rightOut.add(b);
       tokenBytes.add(merged);

@@ -308,7 +308,7 @@ public final class Training implements Learner {
   }
 
   /** Viterbi score of {@code s} over the vocabulary without token {@code self}. */
-  private static double bestWithout(String s, int self, PieceTrie trie, double[] logp, double[] best) {
+  static double bestWithout(String s, int self, PieceTrie trie, double[] logp, double[] best) {
     int n = s.length();
     if (best.length < n + 1) {
       best = new double[n + 1];
@@ -334,7 +334,7 @@ public final class Training implements Learner {
     return best[n];
   }
 
-  private static void renormalize(double[] logp) {
+  static void renormalize(double[] logp) {
     double m = Double.NEGATIVE_INFINITY;
     for (double v : logp) {
       m = Math.max(m, v);

@@ -1,5 +1,7 @@
 package dev.morsel.tokenize.unigram.internal;
 
+import dev.morsel.tokenize.train.Extender;
+import dev.morsel.tokenize.train.ExtensionSettings;
 import dev.morsel.tokenize.train.Learner;
 import dev.morsel.tokenize.train.LearnerOption;
 import dev.morsel.tokenize.train.LearnerOptions;
@@ -66,6 +68,23 @@ public final class UnigramLearnerProvider implements LearnerProvider {
       return new Training(settings.vocabularySize(), candidates, tokenLength, keep, passes, rawBytes,
           settings.reservedTokens(), unknown, Math.min(settings.threads(), Training.MAX_THREADS), seedTable, pieceLength,
           settings.minCount(), settings.listener());
+    } catch (IllegalArgumentException e) {
+      throw new IllegalArgumentException(scheme() + ": " + e.getMessage(), e);
+    }
+  }
+
+  /**
+   * The seed, pruning and piece-length options apply to the new pieces; {@code raw-bytes} and
+   * {@code unknown-token} are the base's (given values are ignored).
+   */
+  @Override
+  public Extender extender(ExtensionSettings settings, LearnerOptions options) {
+    try {
+      return new UnigramExtension(settings.addedIds(), options.intValue(CANDIDATE_MULTIPLE, 1, 1000),
+          options.intValue(MAX_TOKEN_CODE_POINTS, 1, 64), options.doubleValue(KEEP_SHARE, 0, Training.MAX_KEEP_SHARE, true),
+          options.intValue(EM_PASSES, 1, 100), options.intValue(SEED_TABLE_LIMIT, 1000, 100_000_000),
+          options.intValue(MAX_PIECE_LENGTH, 1, 1 << 26), settings.minCount(),
+          Math.min(settings.threads(), Training.MAX_THREADS), settings.listener());
     } catch (IllegalArgumentException e) {
       throw new IllegalArgumentException(scheme() + ": " + e.getMessage(), e);
     }

@@ -1,6 +1,9 @@
 package dev.morsel.tokenize.wordpiece.internal;
 
 import dev.morsel.tokenize.Tokenizer;
+import dev.morsel.tokenize.Tokenizers;
+import dev.morsel.tokenize.train.Extender;
+import dev.morsel.tokenize.train.ExtensionSettings;
 import dev.morsel.tokenize.train.Learner;
 import dev.morsel.tokenize.train.LearnerOption;
 import dev.morsel.tokenize.train.LearnerOptions;
@@ -101,6 +104,45 @@ public final class WordPieceLearnerProvider implements LearnerProvider {
   static int autoAlphabet(int vocabularySize, int reservedIds) {
     int room = (vocabularySize - reservedIds - 1) / AUTO_ALPHABET_DIVISOR;
     return Math.max(1, Math.min(WordPieceTraining.DEFAULT_MAX_ALPHABET, room));
+  }
+
+  /**
+   * Options {@code max-alphabet} (the code points the base lacks that may be added; {@code auto}:
+   * {@value WordPieceTraining#DEFAULT_MAX_ALPHABET}), {@code min-pair-count} and {@code score} apply;
+   * {@code marker} and {@code unknown-token} are the base's and must be left at their defaults or equal the base's.
+   */
+  @Override
+  public Extender extender(ExtensionSettings settings, LearnerOptions options) {
+    String score = options.choice(SCORE, SCORES);
+    int alphabet = options.string(MAX_ALPHABET).equals(AUTO) ? WordPieceTraining.DEFAULT_MAX_ALPHABET
+        : options.intValue(MAX_ALPHABET, 1, Integer.MAX_VALUE);
+    Extender inner = new WordPieceExtension(settings.addedIds(), settings.minCount(), alphabet,
+        options.longValue(MIN_PAIR_COUNT, 1, Long.MAX_VALUE),
+        score.equals(SCORES.get(0)) ? WordPieceTraining.Score.LIKELIHOOD_GAIN : WordPieceTraining.Score.PAIR_RATIO,
+        settings.listener());
+    String marker = options.string(MARKER);
+    String unknown = options.string(UNKNOWN_TOKEN);
+    return new Extender() {
+      @Override
+      public String scheme() {
+        return WordPieceSegmenter.KIND;
+      }
+
+      @Override
+      public Tokenizer extend(Tokenizer base, PieceCounts counts) {
+        Extender.checkInputs(WordPieceSegmenter.KIND, base, counts);
+        WordPieceSettings own = ((WordPieceSegmenter) Tokenizers.segmenterOf(base)).settings();
+        if (!marker.equals(WordPieceSettings.DEFAULT_MARKER) && !marker.equals(own.marker())) {
+          throw options.wrong(MARKER, marker, "differs from the base's marker '" + own.marker()
+              + "'; an extension keeps the base's", null);
+        }
+        if (!unknown.equals(WordPieceSettings.DEFAULT_UNKNOWN) && !unknown.equals(own.unknownToken())) {
+          throw options.wrong(UNKNOWN_TOKEN, unknown, "differs from the base's unknown token '" + own.unknownToken()
+              + "'; an extension keeps the base's", null);
+        }
+        return inner.extend(base, counts);
+      }
+    };
   }
 
   private static String name(WordPieceTraining.Score s) {

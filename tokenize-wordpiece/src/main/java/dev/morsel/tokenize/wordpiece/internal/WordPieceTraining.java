@@ -313,6 +313,23 @@ public final class WordPieceTraining implements Learner {
     return new Run(counts).run();
   }
 
+  /**
+   * Extends {@code base} with the units this learner's criterion picks on {@code counts}: the base's
+   * units are the starting units (ids unchanged), each new piece is written in them by greedy
+   * longest match (as encoding writes it), code points the base lacks are added in both forms (most
+   * frequent first, at most {@code maxAlphabet}), then pairs are merged exactly as in {@link #train}
+   * until the vocabulary reaches {@code vocabularySize}; a merge that makes a unit the base already
+   * has costs no id. The result has the base's tokens first, then the new ones in the order made.
+   *
+   * @param alsoReserved spellings no new unit may take (the whole tokenizer's reserved tokens)
+   * @throws IllegalArgumentException if no new piece is usable
+   */
+  public WordPieceSegmenter extend(WordPieceSegmenter base, PieceCounts counts, java.util.Collection<String> alsoReserved) {
+    Objects.requireNonNull(base, "base");
+    Objects.requireNonNull(counts, "counts");
+    return new Run(counts, base, alsoReserved).run();
+  }
+
   // ------------------------------------------------------------------ internals
 
   private static long pairKey(int a, int b) {
@@ -363,9 +380,18 @@ public final class WordPieceTraining implements Learner {
     private final LongOpenHashSet blocked = new LongOpenHashSet();
     private final PairHeap heap = new PairHeap();
 
+    /** The model extended, or null when learning from scratch. */
+    private final WordPieceSegmenter base;
+
     Run(PieceCounts counts) {
+      this(counts, null, List.of());
+    }
+
+    Run(PieceCounts counts, WordPieceSegmenter base, java.util.Collection<String> alsoReserved) {
       this.counts = counts;
+      this.base = base;
       reserved.addAll(reservedTokens);
+      reserved.addAll(alsoReserved);
       reserved.add(settings.unknownToken());
       unitBySpelling.defaultReturnValue(-1);
     }
@@ -377,7 +403,11 @@ public final class WordPieceTraining implements Learner {
             + " (" + counts.size() + " pieces given)");
       }
       kept = withinLimits(kept);
-      buildAlphabetAndWords(kept);
+      if (base == null) {
+        buildAlphabetAndWords(kept);
+      } else {
+        extendAlphabetAndWords(kept);
+      }
       int reservedCount = reservedTokens.size() + 1;
       int initial = reservedCount + spelling.size();
       if (vocabularySize < initial) {
@@ -528,6 +558,105 @@ public final class WordPieceTraining implements Learner {
         }
         words[j] = units;
         weights[j] = kept.count(i);
+      }
+    }
+
+    /**
+     * The base's units first (unit {@code u} is base id {@code reservedCount + 1 + u}), then both forms
+     * of each code point the base lacks, most frequent first, while the vocabulary has room; then
+     * every piece written in these units by greedy longest match, leftmost first, as encoding writes it.
+     */
+    private void extendAlphabetAndWords(PieceCounts kept) {
+      int first = base.reservedCount() + 1;
+      int maxUnitChars = 1;
+      for (int id = first; id < base.vocabularySize(); id++) {
+        String sp = base.token(id);
+        boolean cont = base.isContinuation(id);
+        String text = cont ? sp.substring(marker.length()) : sp;
+        addUnit(text, cont);
+        maxUnitChars = Math.max(maxUnitChars, text.length());
+      }
+      Int2LongOpenHashMap freq = new Int2LongOpenHashMap();
+      for (int i = 0; i < kept.size(); i++) {
+        String p = kept.piece(i);
+        for (int k = 0; k < p.length(); ) {
+          int cp = p.codePointAt(k);
+          String c = new String(Character.toChars(cp));
+          if (unitBySpelling.getInt(c) < 0 || unitBySpelling.getInt(marker + c) < 0) {
+            freq.addTo(cp, kept.count(i));
+          }
+          k += Character.charCount(cp);
+        }
+      }
+      int[] cps = freq.keySet().toIntArray();
+      Integer[] order = new Integer[cps.length];
+      for (int i = 0; i < cps.length; i++) {
+        order[i] = i;
+      }
+      Arrays.sort(order, (x, y) -> {
+        int c = Long.compare(freq.get(cps[y]), freq.get(cps[x]));
+        return c != 0 ? c : Integer.compare(cps[x], cps[y]);
+      });
+      int room = vocabularySize - first - spelling.size();
+      for (int r = 0; r < Math.min(maxAlphabet, cps.length); r++) {
+        String c = new String(Character.toChars(cps[order[r]]));
+        if (reserved.contains(c) || reserved.contains(marker + c)) {
+          continue; // its spelling is taken by a reserved token: stays outside the alphabet
+        }
+        int need = (unitBySpelling.getInt(c) < 0 ? 1 : 0) + (unitBySpelling.getInt(marker + c) < 0 ? 1 : 0);
+        if (need > room) {
+          break;
+        }
+        if (unitBySpelling.getInt(c) < 0) {
+          addUnit(c, false);
+        }
+        if (unitBySpelling.getInt(marker + c) < 0) {
+          addUnit(c, true);
+        }
+        room -= need;
+      }
+      List<int[]> ws = new ArrayList<>();
+      IntArrayList wt = new IntArrayList();
+      IntArrayList units = new IntArrayList();
+      for (int i = 0; i < kept.size(); i++) {
+        String p = kept.piece(i);
+        units.clear();
+        int k = 0;
+        while (k < p.length()) {
+          int found = -1;
+          int end = -1;
+          for (int e = Math.min(p.length(), k + maxUnitChars); e > k; e--) {
+            String text = p.substring(k, e);
+            int u = unitBySpelling.getInt(k == 0 ? text : marker + text);
+            if (u >= 0) {
+              found = u;
+              end = e;
+              break;
+            }
+          }
+          if (found < 0) {
+            break;
+          }
+          units.add(found);
+          k = end;
+        }
+        if (k < p.length()) {
+          continue; // a code point outside the units: encoding maps the piece to the unknown token
+        }
+        for (int j = 0; j < units.size(); j++) {
+          unitCount[units.getInt(j)] += kept.count(i);
+        }
+        ws.add(units.toIntArray());
+        wt.add(i);
+      }
+      if (ws.isEmpty()) {
+        throw new IllegalArgumentException("no new piece can be written in the base's units and the code points"
+            + " added (maxAlphabet=" + maxAlphabet + ")");
+      }
+      words = ws.toArray(new int[0][]);
+      weights = new long[words.length];
+      for (int j = 0; j < words.length; j++) {
+        weights[j] = kept.count(wt.getInt(j));
       }
     }
 
