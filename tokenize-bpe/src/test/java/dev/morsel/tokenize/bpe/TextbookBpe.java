@@ -39,6 +39,40 @@ final class TextbookBpe {
       spelled.put(k + v, new byte[] {(byte) v});
       existing.add(Arrays.toString(new byte[] {(byte) v}));
     }
+    return learn(words, weights, spelled, existing, k + 256, maxMerges, minPairCount, maxTokenBytes);
+  }
+
+  /**
+   * Continues after {@code base}'s merges: each piece written by the textbook encoder with the
+   * base's ranks, then the same greedy loop, new merge {@code r} getting id {@code base size + r}.
+   */
+  static int[][] extend(BpeSegmenter base, Map<String, Long> pieces, int maxMerges, long minPairCount,
+      int maxTokenBytes) {
+    int k = base.reservedSpellings().size();
+    Map<List<Integer>, Integer> ranks = ranks(base);
+    List<String> keys = new ArrayList<>(pieces.keySet());
+    keys.sort(null);
+    List<List<Integer>> words = new ArrayList<>();
+    List<Long> weights = new ArrayList<>();
+    for (String p : keys) {
+      List<Integer> w = new ArrayList<>();
+      for (int id : encode(p.getBytes(StandardCharsets.UTF_8), k, ranks)) {
+        w.add(id);
+      }
+      words.add(w);
+      weights.add(pieces.get(p));
+    }
+    Map<Integer, byte[]> spelled = new HashMap<>();
+    Set<String> existing = new HashSet<>();
+    for (int id = k; id < base.vocabularySize(); id++) {
+      spelled.put(id, base.tokenBytes(id));
+      existing.add(Arrays.toString(base.tokenBytes(id)));
+    }
+    return learn(words, weights, spelled, existing, base.vocabularySize(), maxMerges, minPairCount, maxTokenBytes);
+  }
+
+  private static int[][] learn(List<List<Integer>> words, List<Long> weights, Map<Integer, byte[]> spelled,
+      Set<String> existing, int firstId, int maxMerges, long minPairCount, int maxTokenBytes) {
     List<Integer> lefts = new ArrayList<>();
     List<Integer> rights = new ArrayList<>();
     while (lefts.size() < maxMerges) {
@@ -83,7 +117,7 @@ final class TextbookBpe {
       if (best == null) {
         break;
       }
-      int id = k + 256 + lefts.size();
+      int id = firstId + lefts.size();
       lefts.add(best.get(0));
       rights.add(best.get(1));
       spelled.put(id, bestBytes);
