@@ -30,7 +30,7 @@ public final class CodeCorpus {
   /** A file only the sources jar has: it finds the jar on the class path. */
   static final String PROBE = "it/unimi/dsi/fastutil/ints/IntArrayList.java";
   /** Most training lines kept. */
-  public static final int MAX_LINES = 40_000;
+  public static final int MAX_LINES = 25_000;
 
   private CodeCorpus() {}
 
