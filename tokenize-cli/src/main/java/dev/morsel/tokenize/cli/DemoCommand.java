@@ -118,7 +118,7 @@ final class DemoCommand implements Callable<Integer> {
     }
     Path report = out.resolve("report");
     SweepCommand.write(rows, report, "Morsel demo: vocabulary sweep on ferry passenger messages",
-        Report.Meta.of(files, 10, pipeline, "defaults"), o);
+        Report.Meta.of(files, 10, pipeline, "defaults"), o, "sweep");
     o.printf(Locale.ROOT, "%nDone in %.1f s. Open %s in a browser.%n", (System.nanoTime() - t0) / 1e9,
         report.resolve("sweep.html").toAbsolutePath());
     return 0;

@@ -57,6 +57,8 @@ final class InspectCommand implements Callable<Integer> {
     o.printf(Locale.ROOT, "reserved tokens  %s%n", t.reservedTokens().isEmpty() ? "none" : describeReserved(t));
     o.printf(Locale.ROOT, "unknown token    %s%n", t.unknownId() < 0 ? "none (every input is representable)"
         : t.unknownId() + " " + quote(t.token(t.unknownId())));
+    t.lineage().ifPresent(l -> o.printf(Locale.ROOT, "extends          %s (ids 0..%,d kept from its %,d)%n",
+        l.baseFingerprint(), l.baseVocabularySize() - 1, l.baseVocabularySize()));
     o.printf(Locale.ROOT, "file size        %,d bytes%n", Files.size(model));
     if (top > 0) {
       o.println();

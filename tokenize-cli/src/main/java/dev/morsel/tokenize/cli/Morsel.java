@@ -14,7 +14,7 @@ import picocli.CommandLine.Option;
  */
 @Command(name = "morsel", mixinStandardHelpOptions = true, separator = " ", versionProvider = Morsel.Version.class,
     description = "Train subword vocabularies, encode and decode text with exact offsets, measure before you deploy.",
-    subcommands = {TrainCommand.class, EncodeCommand.class, DecodeCommand.class, InspectCommand.class, ReviewCommand.class,
+    subcommands = {TrainCommand.class, ExtendCommand.class, CompareCommand.class, EncodeCommand.class, DecodeCommand.class, InspectCommand.class, ReviewCommand.class,
         SweepCommand.class, BenchCommand.class, DemoCommand.class, SchemesCommand.class, CommandLine.HelpCommand.class},
     footer = {"", "Examples:", "  morsel demo",
         "  morsel train --scheme bpe --vocab-size 2000 --out ferry.morsel \\",

@@ -70,6 +70,12 @@ final class Report {
   record Meta(List<String> files, String heldOut, String pipeline, String options, String version, String date,
       String machine) {
     static Meta of(List<Path> paths, int every, Pipeline pipeline, String options) throws IOException {
+      return of(paths, String.format(Locale.ROOT, "line i (0-based) of each file is held out when i %% %d = %d;"
+          + " the other lines train", every, every - 1), pipeline, options);
+    }
+
+    /** As {@link #of(List, int, Pipeline, String)} with the held-out text described in words. */
+    static Meta of(List<Path> paths, String heldOut, Pipeline pipeline, String options) throws IOException {
       List<String> files = new ArrayList<>();
       for (Path p : paths) {
         files.add(String.format(Locale.ROOT, "%s (%,d bytes)", p, Files.size(p)));
@@ -79,8 +85,7 @@ final class Report {
       String machine = String.format(Locale.ROOT, "%s %s, %d cores, Java %s, max heap %,d MB", System.getProperty("os.name"),
           System.getProperty("os.arch"), rt.availableProcessors(), System.getProperty("java.version"),
           rt.maxMemory() / (1024 * 1024));
-      return new Meta(files, String.format(Locale.ROOT, "line i (0-based) of each file is held out when i %% %d = %d;"
-          + " the other lines train", every, every - 1), "normalization " + pipeline.normalization().spec()
+      return new Meta(files, heldOut, "normalization " + pipeline.normalization().spec()
           + ", splitting " + pipeline.splitting().spec(), options, v,
           ZonedDateTime.now().format(DateTimeFormatter.ofPattern("yyyy-MM-dd HH:mm z", Locale.ROOT)), machine);
     }
@@ -180,9 +185,9 @@ final class Report {
     for (Sweep.Row r : all) {
       if (r.feasible()) {
         sb.append(String.format(Locale.ROOT, "<tr><td class=\"t\">%s</td><td>%s</td><td>%s</td><td>%.3f</td><td>%.1f</td>"
-            + "<td>%.2f</td><td>%s</td><td>%.3f</td><td>%.1f%%</td><td>%.2f</td><td>%.1f</td><td class=\"t w\">%s</td></tr>%n",
+            + "<td>%.2f</td><td>%s</td><td>%.3f</td><td>%.1f%%</td><td>%s</td><td>%.1f</td><td class=\"t w\">%s</td></tr>%n",
             esc(r.scheme()), num(r.requestedSize()), num(r.vocabularySize()), r.tokensPerWord(), r.tokensPer1000Chars(),
-            r.bytesPerToken(), num(r.unknown()), r.unknownPer1000Chars(), 100 * r.vocabularyUsed(), r.trainSeconds(),
+            r.bytesPerToken(), num(r.unknown()), r.unknownPer1000Chars(), 100 * r.vocabularyUsed(), fixed(r.trainSeconds(), 2),
             r.mbPerSecond(), esc(r.warmup())));
       } else {
         sb.append("<tr class=\"no\"><td class=\"t\">").append(esc(r.scheme())).append("</td><td>")

@@ -1,6 +1,7 @@
 package dev.morsel.tokenize.cli;
 
 import dev.morsel.tokenize.Tokenizer;
+import dev.morsel.tokenize.train.ExtensionSettings;
 import dev.morsel.tokenize.train.Learner;
 import dev.morsel.tokenize.train.LearnerOptions;
 import dev.morsel.tokenize.train.LearnerSettings;
@@ -67,6 +68,38 @@ final class Schemes {
     };
   }
 
+  /** An extender whose settings are checked. */
+  interface ExtensionPlan {
+    Tokenizer extend(Tokenizer base, PieceCounts counts, TrainingListener listener);
+  }
+
+  /**
+   * Checks the settings of an extension of a {@code scheme} model by {@code added} ids before
+   * counting, as {@link #plan} does for learning.
+   */
+  static ExtensionPlan extensionPlan(String scheme, int added, List<String> options, int threads) {
+    check(scheme);
+    if (added <= 0) {
+      throw new Morsel.UsageException("--add must be positive, got " + added);
+    }
+    Map<String, String> own = optionsOf(scheme, options);
+    ExtensionSettings settings;
+    try {
+      settings = ExtensionSettings.of(added).withThreads(threads);
+      Learners.extender(scheme, settings, own); // every setting checked now
+    } catch (IllegalArgumentException | NullPointerException e) {
+      throw new Morsel.UsageException(cliWords(e.getMessage()));
+    }
+    ExtensionSettings checked = settings;
+    return (base, counts, listener) -> {
+      try {
+        return Learners.extender(scheme, checked.withListener(listener), own).extend(base, counts);
+      } catch (IllegalArgumentException e) {
+        throw new IllegalArgumentException(cliWords(e.getMessage()), e);
+      }
+    };
+  }
+
   /**
    * The {@code --option} values that apply to {@code scheme}: unscoped ones and those scoped
    * {@code scheme:}, later ones winning.
@@ -98,7 +131,7 @@ final class Schemes {
   /** Rewrites a learner's message in terms of command-line options. */
   static String cliWords(String message) {
     return message.replace("vocabularySize=", "--vocab-size ").replace("raise vocabularySize", "raise --vocab-size")
-        .replace("reservedTokens", "--reserved").replace("threads=", "--threads ")
+        .replace("reservedTokens", "--reserved").replace("threads=", "--threads ").replace("addedIds=", "--add ")
         .replaceAll("(?<!-)\\boption ([a-z][a-z0-9-]*)", "--option $1");
   }
 }

@@ -117,33 +117,45 @@ final class Sweep {
           continue;
         }
         double trainSeconds = (System.nanoTime() - t0) / 1e9;
-        double[] speed = new double[1];
-        Steady.Warmup w = throughput(t, allHeld, speed, maxWarmupNanos);
-        boolean[] usedAll = new boolean[t.vocabularySize()];
-        long[] sums = new long[6];
-        for (Map.Entry<String, List<String>> e : held.entrySet()) {
-          boolean[] used = new boolean[t.vocabularySize()];
-          Row r = measure(t, scheme, size, e.getKey(), e.getValue(), used);
-          rows.add(r);
-          for (int i = 0; i < used.length; i++) {
-            usedAll[i] |= used[i];
-          }
-          sums[0] += r.texts();
-          sums[1] += r.words();
-          sums[2] += r.chars();
-          sums[3] += r.bytes();
-          sums[4] += r.tokens();
-          sums[5] += r.unknown();
-        }
-        int distinct = 0;
-        for (boolean b : usedAll) {
-          distinct += b ? 1 : 0;
-        }
-        rows.add(new Row(scheme, size, t.vocabularySize(), ALL, sums[0], sums[1], sums[2], sums[3], sums[4], sums[5], distinct,
-            trainSeconds, speed[0], w.brief(), ""));
+        rows.addAll(measureAll(t, scheme, size, held, allHeld, trainSeconds, maxWarmupNanos));
       }
     }
     listener.progress("sweep", steps, steps, "done");
+    return rows;
+  }
+
+  /**
+   * Measures {@code t} on each group of held-out texts and on all of them: one row per group, then
+   * the {@link #ALL} row with the summed counts, the ids used anywhere, {@code trainSeconds} and the
+   * encode speed on {@code allHeld}.
+   */
+  static List<Row> measureAll(Tokenizer t, String scheme, int size, Map<String, List<String>> held, List<String> allHeld,
+      double trainSeconds, long maxWarmupNanos) {
+    List<Row> rows = new ArrayList<>();
+    double[] speed = new double[1];
+    Steady.Warmup w = throughput(t, allHeld, speed, maxWarmupNanos);
+    boolean[] usedAll = new boolean[t.vocabularySize()];
+    long[] sums = new long[6];
+    for (Map.Entry<String, List<String>> e : held.entrySet()) {
+      boolean[] used = new boolean[t.vocabularySize()];
+      Row r = measure(t, scheme, size, e.getKey(), e.getValue(), used);
+      rows.add(r);
+      for (int i = 0; i < used.length; i++) {
+        usedAll[i] |= used[i];
+      }
+      sums[0] += r.texts();
+      sums[1] += r.words();
+      sums[2] += r.chars();
+      sums[3] += r.bytes();
+      sums[4] += r.tokens();
+      sums[5] += r.unknown();
+    }
+    int distinct = 0;
+    for (boolean b : usedAll) {
+      distinct += b ? 1 : 0;
+    }
+    rows.add(new Row(scheme, size, t.vocabularySize(), ALL, sums[0], sums[1], sums[2], sums[3], sums[4], sums[5], distinct,
+        trainSeconds, speed[0], w.brief(), ""));
     return rows;
   }
 

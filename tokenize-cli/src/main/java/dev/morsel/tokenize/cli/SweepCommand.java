@@ -100,7 +100,7 @@ final class SweepCommand implements Callable<Integer> {
           (long) (maxWarmup * 1e9));
     }
     Report.Meta meta = Report.Meta.of(files, every, pipeline, options.isEmpty() ? "defaults" : String.join(" ", options));
-    write(rows, out, "Vocabulary sweep", meta, spec.commandLine().getOut());
+    write(rows, out, "Vocabulary sweep", meta, spec.commandLine().getOut(), "sweep");
     return 0;
   }
 
@@ -128,24 +128,30 @@ final class SweepCommand implements Callable<Integer> {
     return groups;
   }
 
-  static void write(List<Sweep.Row> rows, Path dir, String title, Report.Meta meta, PrintWriter o) throws java.io.IOException {
+  /** Writes {@code NAME.csv} and {@code NAME.html} into {@code dir} and a summary of the overall rows on {@code o}. */
+  static void write(List<Sweep.Row> rows, Path dir, String title, Report.Meta meta, PrintWriter o, String name)
+      throws java.io.IOException {
     Files.createDirectories(dir);
-    Report.csv(rows, dir.resolve("sweep.csv"));
-    Report.html(rows, dir.resolve("sweep.html"), title, meta);
-    o.printf(Locale.ROOT, "%-10s %9s %11s %12s %14s %9s%n", "scheme", "vocab", "tokens/word", "bytes/token", "unknown/1k ch",
-        "MB/s");
+    Report.csv(rows, dir.resolve(name + ".csv"));
+    Report.html(rows, dir.resolve(name + ".html"), title, meta);
+    int width = 10;
+    for (Sweep.Row r : rows) {
+      width = Math.max(width, r.scheme().length());
+    }
+    o.printf(Locale.ROOT, "%-" + width + "s %9s %11s %12s %14s %9s%n", "scheme", "vocab", "tokens/word", "bytes/token",
+        "unknown/1k ch", "MB/s");
     for (Sweep.Row r : rows) {
       if (r.group().equals(Sweep.ALL)) {
         if (r.feasible()) {
-          o.printf(Locale.ROOT, "%-10s %,9d %11.3f %12.2f %14.3f %9.1f%n", r.scheme(), r.vocabularySize(), r.tokensPerWord(),
+          o.printf(Locale.ROOT, "%-" + width + "s %,9d %11.3f %12.2f %14.3f %9.1f%n", r.scheme(), r.vocabularySize(), r.tokensPerWord(),
               r.bytesPerToken(), r.unknownPer1000Chars(), r.mbPerSecond());
         } else {
-          o.printf(Locale.ROOT, "%-10s %,9d   not feasible (see the report)%n", r.scheme(), r.requestedSize());
+          o.printf(Locale.ROOT, "%-" + width + "s %,9d   not feasible (see the report)%n", r.scheme(), r.requestedSize());
         }
       }
     }
     o.println("encode speed: one thread, median of " + Sweep.TIMED_ROUNDS + " rounds of at least 50 ms after a warm-up"
         + " until " + Steady.WINDOW + " consecutive rounds agree within 5%");
-    o.println("wrote " + dir.resolve("sweep.csv") + " and " + dir.resolve("sweep.html"));
+    o.println("wrote " + dir.resolve(name + ".csv") + " and " + dir.resolve(name + ".html"));
   }
 }
