@@ -86,7 +86,7 @@ public final class Tokenizers {
         throw new IllegalArgumentException("id " + id + " is '" + segmenter.token(id) + "' in the extension but '"
             + old.token(id) + "' in the base: an extension keeps every base id");
       }
-      if (!java.util.Arrays.equals(b.tokenBytes(id), bytesOf(segmenter, id))) {
+      if (!java.util.Arrays.equals(bytesOf(old, id), bytesOf(segmenter, id))) {
         throw new IllegalArgumentException("id " + id + " ('" + old.token(id)
             + "') decodes to other bytes in the extension than in the base: an extension keeps every base id");
       }
