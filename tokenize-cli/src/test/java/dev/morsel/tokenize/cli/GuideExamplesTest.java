@@ -7,6 +7,7 @@ import static org.junit.jupiter.api.Assertions.assertNotEquals;
 import static org.junit.jupiter.api.Assertions.assertThrows;
 import static org.junit.jupiter.api.Assertions.assertTrue;
 
+import dev.morsel.tokenize.Lineage;
 import dev.morsel.tokenize.Pipeline;
 import dev.morsel.tokenize.Side;
 import dev.morsel.tokenize.StreamDecoder;
@@ -20,6 +21,8 @@ import dev.morsel.tokenize.bpe.Bpe;
 import dev.morsel.tokenize.bpe.BpeLearner;
 import dev.morsel.tokenize.format.ModelLimits;
 import dev.morsel.tokenize.normalize.Normalization;
+import dev.morsel.tokenize.train.Extender;
+import dev.morsel.tokenize.train.ExtensionSettings;
 import dev.morsel.tokenize.train.PieceCounter;
 import dev.morsel.tokenize.train.PieceCounts;
 import dev.morsel.tokenize.train.LearnerSettings;
@@ -106,6 +109,27 @@ class GuideExamplesTest {
       joined.append(tokens.text(text, i));
     }
     assertEquals(text, joined.toString());
+  }
+
+  @Test
+  void extendingAModel() {
+    Tokenizer base = smallBpe(Pipeline.defaults(), List.of());
+    // invented timetable code of the ferry operator: the new domain
+    List<String> newCorpus = List.of("departures.put(\"Oskevik\", LocalTime.of(7, 40));",
+        "for (Departure d : departures) { if (d.delayed()) notifyPassengers(d); }",
+        "int seats = ferry.capacity() - ferry.booked(); // Harrowmere quay",
+        "departures.put(\"Harrowmere\", LocalTime.of(9, 15));");
+    // @start region="extend"
+    PieceCounts code = PieceCounter.builder().pipeline(base.pipeline()).build().count(newCorpus); // the base's pipeline
+    Tokenizer extended = BpeLearner.extender().addedIds(200).build().extend(base, code);
+    Lineage lineage = extended.lineage().orElseThrow();           // the base's fingerprint and vocabulary size
+    boolean keeps = lineage.isBase(base) && Extender.keepsIds(base, extended);  // every base id, byte for byte
+    Tokenizer same = Learners.extender(base.kind(), ExtensionSettings.of(200)).extend(base, code);  // by scheme name
+    // @end region="extend"
+    assertTrue(keeps);
+    assertEquals(extended.fingerprint(), same.fingerprint());
+    assertEquals(base.vocabularySize(), lineage.baseVocabularySize());
+    assertTrue(extended.encode(newCorpus.get(0)).size() < base.encode(newCorpus.get(0)).size());
   }
 
   @Test
