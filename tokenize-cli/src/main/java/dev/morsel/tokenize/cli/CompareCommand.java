@@ -18,10 +18,11 @@ import picocli.CommandLine.Model.CommandSpec;
 
 /** {@code morsel compare}: measure trained models side by side on held-out text, for example before and after an extension. */
 @Command(name = "compare", mixinStandardHelpOptions = true, separator = " ",
-    description = "Encode held-out text with each model and report tokens per word, tokens per 1,000 characters, bytes"
-        + " per token, unknown tokens per 1,000 characters, vocabulary used and encode speed, per input file and"
-        + " overall, as CSV and as an HTML report in the style of the sweep report. Give one file per domain (the old"
-        + " one and the new one) to see what an extension buys on one and costs on the other.",
+    description = {"Measure models side by side on held-out text, for example before and after 'morsel extend'.",
+        "Encodes every file with each model and reports tokens per word, tokens per 1,000 characters, bytes per token,"
+        + " unknown tokens per 1,000 characters, vocabulary used and encode speed, per input file and overall, as CSV"
+        + " and as an HTML report like the sweep report's. Give one file per domain (the old one and the new one) to"
+        + " see what an extension buys on one and costs on the other."},
     footer = {"", "Example:",
         "  morsel compare --model ferry.morsel --model ferry-code.morsel --out cmp held-out-ferry.txt held-out-code.txt"})
 final class CompareCommand implements Callable<Integer> {

@@ -21,10 +21,10 @@ import picocli.CommandLine.Model.CommandSpec;
 
 /** {@code morsel extend}: add ids for a new corpus to a trained model, keeping every existing id. */
 @Command(name = "extend", mixinStandardHelpOptions = true, separator = " ", usageHelpWidth = 110,
-    description = "Extend a trained model with the pieces a new corpus needs (one text per line; files, folders, globs,"
-        + " .gz, or - for standard input). The new ids come after the model's own, which keep their tokens, reserved"
-        + " tokens and framing; the new model records the fingerprint of the one it extends. The corpus is counted"
-        + " with the model's own normalization and splitting.",
+    description = {"Extend a trained model with the pieces a new corpus needs; every existing id keeps its meaning.",
+        "The corpus is one text per line (files, folders, globs, .gz, or - for standard input), counted with the"
+        + " model's own normalization and splitting. The new ids come after the model's own, which keep their tokens,"
+        + " reserved tokens and framing; the new model records the fingerprint of the one it extends."},
     footer = {"", "Examples:",
         "  morsel extend --model ferry.morsel --add 500 --out ferry-code.morsel src/**/*.java",
         "  morsel compare --model ferry.morsel --model ferry-code.morsel --out cmp held-out-ferry.txt held-out-code.txt"})
