@@ -13,7 +13,6 @@ import dev.morsel.tokenize.train.ExtensionSettings;
 import dev.morsel.tokenize.train.Learners;
 import dev.morsel.tokenize.train.PieceCounts;
 import dev.morsel.tokenize.train.testkit.ExtensionChecks;
-import java.util.HashMap;
 import java.util.List;
 import java.util.Map;
 import java.util.SplittableRandom;
@@ -25,20 +24,6 @@ import org.junit.jupiter.params.provider.ValueSource;
 class BpeExtensionTest {
   private static final String AGENT = "\u27e8agent\u27e9";
 
-  /** Random words over a small alphabet, with Zipf-like counts: two "domains" use two alphabets. */
-  private static Map<String, Long> words(SplittableRandom r, String alphabet, int n) {
-    Map<String, Long> m = new HashMap<>();
-    for (int i = 0; i < n; i++) {
-      StringBuilder sb = new StringBuilder();
-      int len = 1 + r.nextInt(7);
-      for (int j = 0; j < len; j++) {
-        sb.append(alphabet.charAt(r.nextInt(alphabet.length())));
-      }
-      m.merge(sb.toString(), 1L + r.nextInt(50) / (1 + i % 7), Long::sum);
-    }
-    return m;
-  }
-
   /**
    * Oracle: the textbook continuation ({@link TextbookBpe#extend}: its own encoder writes each new
    * piece in the base's merges, then it recounts every pair after every merge) learns exactly the
@@ -48,8 +33,8 @@ class BpeExtensionTest {
   @ValueSource(longs = {1, 2, 3, 4, 5, 6})
   void newMergesAreTheTextbookContinuation(long seed) {
     SplittableRandom r = new SplittableRandom(seed);
-    Map<String, Long> old = words(r, "aeiklmnorst", 300);
-    Map<String, Long> fresh = words(r, "aeio{}();=xyz_", 300);
+    Map<String, Long> old = ExtensionChecks.randomWords(r, "aeiklmnorst", 300);
+    Map<String, Long> fresh = ExtensionChecks.randomWords(r, "aeio{}();=xyz_", 300);
     Tokenizer base = BpeLearner.builder().vocabularySize(256 + 40).threads(1).build().train(PieceCounts.of(old));
     Tokenizer ext = BpeLearner.extender().addedIds(60).threads(1).build().extend(base, PieceCounts.of(fresh));
     ExtensionChecks.assertExtends(base, ext, 60);

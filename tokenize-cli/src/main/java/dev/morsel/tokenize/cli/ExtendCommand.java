@@ -83,11 +83,7 @@ final class ExtendCommand implements Callable<Integer> {
       long t1 = System.nanoTime();
       Tokenizer t = plan.extend(base, counts, progress);
       progress.close();
-      Path parent = out.toAbsolutePath().getParent();
-      if (parent != null) {
-        Files.createDirectories(parent);
-      }
-      t.save(out);
+      TrainCommand.save(t, out);
       long t2 = System.nanoTime();
       int added = t.vocabularySize() - base.vocabularySize();
       o.printf(Locale.ROOT, "pieces counted   %,d distinct, %,d in all, from %,d lines (%.1f s)%n", counts.size(),

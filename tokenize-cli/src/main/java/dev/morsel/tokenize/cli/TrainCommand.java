@@ -98,11 +98,7 @@ final class TrainCommand implements Callable<Integer> {
       long t1 = System.nanoTime();
       Tokenizer t = plan.train(counts, progress);
       progress.close();
-      Path parent = out.toAbsolutePath().getParent();
-      if (parent != null) {
-        Files.createDirectories(parent);
-      }
-      t.save(out);
+      save(t, out);
       long t2 = System.nanoTime();
       o.printf(Locale.ROOT, "pieces counted   %,d distinct, %,d in all, from %,d lines (%.1f s)%n", counts.size(), counts.total(),
           report.texts(), (t1 - t0) / 1e9);
@@ -112,6 +108,15 @@ final class TrainCommand implements Callable<Integer> {
       shortfall(err, "train", scheme, vocabularySize, t.vocabularySize());
     }
     return 0;
+  }
+
+  /** Writes the model file, making its folder if need be. */
+  static void save(Tokenizer t, Path out) throws java.io.IOException {
+    Path parent = out.toAbsolutePath().getParent();
+    if (parent != null) {
+      Files.createDirectories(parent);
+    }
+    t.save(out);
   }
 
   /** Says on standard error when the corpus gave fewer ids than asked for (the run still succeeds). */

@@ -26,19 +26,6 @@ class UnigramExtensionTest {
   /** Seed candidates per wanted piece in the measurement. */
   static final int CANDIDATES = 4;
 
-  private static Map<String, Long> words(SplittableRandom r, String alphabet, int n) {
-    Map<String, Long> m = new HashMap<>();
-    for (int i = 0; i < n; i++) {
-      StringBuilder sb = new StringBuilder();
-      int len = 1 + r.nextInt(7);
-      for (int j = 0; j < len; j++) {
-        sb.append(alphabet.charAt(r.nextInt(alphabet.length())));
-      }
-      m.merge(sb.toString(), 1L + r.nextInt(50) / (1 + i % 7), Long::sum);
-    }
-    return m;
-  }
-
   /**
    * Brute-force oracle ({@link Oracle}: every segmentation enumerated) over the extended model's
    * pieces and scores: for every new piece of at most 8 chars the model's path has the best score;
@@ -48,8 +35,8 @@ class UnigramExtensionTest {
   @ValueSource(longs = {1, 2, 3, 4})
   void pathsAreBestOverOldAndNewPieces(long seed) {
     SplittableRandom r = new SplittableRandom(seed);
-    Map<String, Long> old = words(r, "aeiklmnorst", 400);
-    Map<String, Long> fresh = words(r, "aeio{}();=xy", 400);
+    Map<String, Long> old = ExtensionChecks.randomWords(r, "aeiklmnorst", 400);
+    Map<String, Long> fresh = ExtensionChecks.randomWords(r, "aeio{}();=xy", 400);
     Tokenizer base = UnigramLearner.builder().vocabularySize(256 + 1 + 60).threads(1).build().train(PieceCounts.of(old));
     Tokenizer ext = UnigramLearner.extender().addedIds(40).threads(1).build().extend(base, PieceCounts.of(fresh));
     ExtensionChecks.assertExtends(base, ext, 40);

@@ -24,19 +24,6 @@ import org.junit.jupiter.params.provider.ValueSource;
 /** WordPiece vocabulary extension: units by likelihood gain on the new corpus, every base id kept. */
 class WordPieceExtensionTest {
 
-  private static Map<String, Long> words(SplittableRandom r, String alphabet, int n) {
-    Map<String, Long> m = new HashMap<>();
-    for (int i = 0; i < n; i++) {
-      StringBuilder sb = new StringBuilder();
-      int len = 1 + r.nextInt(7);
-      for (int j = 0; j < len; j++) {
-        sb.append(alphabet.charAt(r.nextInt(alphabet.length())));
-      }
-      m.merge(sb.toString(), 1L + r.nextInt(50) / (1 + i % 7), Long::sum);
-    }
-    return m;
-  }
-
   /**
    * Oracle for the first new unit, computed naively here from the criterion's definition: write each
    * new piece with the base by greedy longest match ({@link TestSupport.NaiveGreedy}), count units
@@ -50,10 +37,10 @@ class WordPieceExtensionTest {
   void firstNewUnitHasTheBestGain(long seed) {
     SplittableRandom r = new SplittableRandom(seed);
     String alphabet = "aeiklmnorst";
-    Map<String, Long> old = words(r, alphabet, 300);
+    Map<String, Long> old = ExtensionChecks.randomWords(r, alphabet, 300);
     old.put(alphabet, 1L); // every letter in both forms
     old.put("t" + new StringBuilder(alphabet).reverse(), 1L);
-    Map<String, Long> fresh = words(r, "aeiost", 300);
+    Map<String, Long> fresh = ExtensionChecks.randomWords(r, "aeiost", 300);
     Tokenizer base = WordPieceLearner.builder().vocabularySize(70).build().train(PieceCounts.of(old));
     Tokenizer ext = WordPieceLearner.extender().addedIds(20).build().extend(base, PieceCounts.of(fresh));
     ExtensionChecks.assertExtends(base, ext, 20);

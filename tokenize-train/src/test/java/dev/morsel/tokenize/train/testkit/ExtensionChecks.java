@@ -79,6 +79,23 @@ public final class ExtensionChecks {
     return c;
   }
 
+  /**
+   * {@code n} random words of 1 to 7 characters of {@code alphabet}, with counts that fall with the
+   * draw index (a rough Zipf shape), for the schemes' small seeded corpora; repeats add up.
+   */
+  public static java.util.Map<String, Long> randomWords(SplittableRandom r, String alphabet, int n) {
+    java.util.Map<String, Long> m = new java.util.HashMap<>();
+    for (int i = 0; i < n; i++) {
+      StringBuilder sb = new StringBuilder();
+      int len = 1 + r.nextInt(7);
+      for (int j = 0; j < len; j++) {
+        sb.append(alphabet.charAt(r.nextInt(alphabet.length())));
+      }
+      m.merge(sb.toString(), 1L + r.nextInt(50) / (1 + i % 7), Long::sum);
+    }
+    return m;
+  }
+
   // ------------------------------------------------------------------ invariants
 
   /**

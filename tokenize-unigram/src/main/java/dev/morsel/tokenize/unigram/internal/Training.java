@@ -209,11 +209,7 @@ public final class Training implements Learner {
     String[] vocab = seeds.tokens();
     double[] logp = seeds.logp();
     Em em = new Em(corpus, weights);
-    ExecutorService pool = threads > 1 ? Executors.newFixedThreadPool(threads, r -> {
-      Thread t = new Thread(r, "morsel-unigram-em");
-      t.setDaemon(true);
-      return t;
-    }) : null;
+    ExecutorService pool = emPool(threads);
     try {
       int round = 0;
       long step = 0;
@@ -263,6 +259,15 @@ public final class Training implements Learner {
       scores[i] = fl[order[i]];
     }
     return UnigramSegmenter.create(reserved, rawBytes, unknown, pieces, scores);
+  }
+
+  /** The E-step's threads: null for one (the caller's thread runs it), else daemon threads. */
+  static ExecutorService emPool(int threads) {
+    return threads > 1 ? Executors.newFixedThreadPool(threads, r -> {
+      Thread t = new Thread(r, "morsel-unigram-em");
+      t.setDaemon(true);
+      return t;
+    }) : null;
   }
 
   /** Indices of the tokens kept (in their current order): all single characters, then the highest losses. */

@@ -13,7 +13,6 @@ import java.util.List;
 import java.util.Objects;
 import java.util.Set;
 import java.util.concurrent.ExecutorService;
-import java.util.concurrent.Executors;
 
 /**
  * Extends a unigram model [1] with pieces of a new corpus, appended after the base's ids. Candidates
@@ -155,11 +154,7 @@ public final class UnigramExtension implements Extender {
       logp[nOld + i] = seeds.logp()[i] + Math.log(0.5);
     }
     Em em = new Em(corpus, weights);
-    ExecutorService pool = threads > 1 ? Executors.newFixedThreadPool(threads, r -> {
-      Thread t = new Thread(r, "morsel-unigram-em");
-      t.setDaemon(true);
-      return t;
-    }) : null;
+    ExecutorService pool = Training.emPool(threads);
     try {
       int round = 0;
       long step = 0;

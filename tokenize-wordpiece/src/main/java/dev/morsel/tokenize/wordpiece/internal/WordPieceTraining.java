@@ -480,14 +480,7 @@ public final class WordPieceTraining implements Learner {
         }
       }
       int[] cps = freq.keySet().toIntArray();
-      Integer[] order = new Integer[cps.length];
-      for (int i = 0; i < cps.length; i++) {
-        order[i] = i;
-      }
-      Arrays.sort(order, (x, y) -> {
-        int c = Long.compare(freq.get(cps[y]), freq.get(cps[x]));
-        return c != 0 ? c : Integer.compare(cps[x], cps[y]);
-      });
+      Integer[] order = byFrequency(cps, freq);
       int keep = Math.min(maxAlphabet, cps.length);
       Int2LongOpenHashMap rank = new Int2LongOpenHashMap();
       rank.defaultReturnValue(-1);
@@ -589,14 +582,7 @@ public final class WordPieceTraining implements Learner {
         }
       }
       int[] cps = freq.keySet().toIntArray();
-      Integer[] order = new Integer[cps.length];
-      for (int i = 0; i < cps.length; i++) {
-        order[i] = i;
-      }
-      Arrays.sort(order, (x, y) -> {
-        int c = Long.compare(freq.get(cps[y]), freq.get(cps[x]));
-        return c != 0 ? c : Integer.compare(cps[x], cps[y]);
-      });
+      Integer[] order = byFrequency(cps, freq);
       int room = vocabularySize - first - spelling.size();
       for (int r = 0; r < Math.min(maxAlphabet, cps.length); r++) {
         String c = new String(Character.toChars(cps[order[r]]));
@@ -658,6 +644,19 @@ public final class WordPieceTraining implements Learner {
       for (int j = 0; j < words.length; j++) {
         weights[j] = kept.count(wt.getInt(j));
       }
+    }
+
+    /** Indices into {@code cps} by total occurrences, most first, ties by smaller code point: the alphabet rank. */
+    private Integer[] byFrequency(int[] cps, Int2LongOpenHashMap freq) {
+      Integer[] order = new Integer[cps.length];
+      for (int i = 0; i < cps.length; i++) {
+        order[i] = i;
+      }
+      Arrays.sort(order, (x, y) -> {
+        int c = Long.compare(freq.get(cps[y]), freq.get(cps[x]));
+        return c != 0 ? c : Integer.compare(cps[x], cps[y]);
+      });
+      return order;
     }
 
     private int addUnit(String text, boolean cont) {
