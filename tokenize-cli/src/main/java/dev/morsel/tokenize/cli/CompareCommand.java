@@ -75,8 +75,9 @@ final class CompareCommand implements Callable<Integer> {
           }
         }
       }
-      described.add(String.format(Locale.ROOT, "%s: %,d ids, fingerprint %s%s", labels.get(i), t.vocabularySize(),
-          t.fingerprint().substring(0, 12), lineage));
+      described.add(String.format(Locale.ROOT, "%s: %,d ids, fingerprint %s%s%s", labels.get(i), t.vocabularySize(),
+          t.fingerprint().substring(0, 12), lineage, t.pipeline().equals(loaded.get(0).pipeline()) ? ""
+              : ", pipeline " + t.pipeline().normalization().spec() + " / " + t.pipeline().splitting().spec()));
     }
     List<Path> files = Inputs.expand(text);
     Map<String, List<String>> groups = SweepCommand.read(files, badUtf8.policy(), spec.commandLine().getErr(), "compare");
@@ -93,7 +94,7 @@ final class CompareCommand implements Callable<Integer> {
       progress.progress("compare", loaded.size(), loaded.size(), "done");
     }
     Report.Meta meta = Report.Meta.of(files, "every non-blank line of each file (text the models were not trained on)",
-        loaded.get(0).pipeline(), String.join("; ", described));
+        loaded.get(0).pipeline(), "").withModels(described);
     SweepCommand.write(rows, out, "Model comparison", meta, spec.commandLine().getOut(), "compare");
     return 0;
   }

@@ -19,9 +19,11 @@ import java.text.DecimalFormatSymbols;
 import java.time.ZonedDateTime;
 import java.time.format.DateTimeFormatter;
 import java.util.ArrayList;
+import java.util.LinkedHashMap;
 import java.util.LinkedHashSet;
 import java.util.List;
 import java.util.Locale;
+import java.util.Map;
 import java.util.Set;
 import java.util.TreeSet;
 import java.util.function.ToDoubleFunction;
@@ -68,7 +70,12 @@ final class Report {
 
   /** What the report records about its inputs and the machine. */
   record Meta(List<String> files, String heldOut, String pipeline, String options, String version, String date,
-      String machine) {
+      String machine, List<String> models) {
+    /** These facts with the models compared named, one line each (a comparison has no scheme options). */
+    Meta withModels(List<String> described) {
+      return new Meta(files, heldOut, pipeline, "", version, date, machine, List.copyOf(described));
+    }
+
     static Meta of(List<Path> paths, int every, Pipeline pipeline, String options) throws IOException {
       return of(paths, String.format(Locale.ROOT, "line i (0-based) of each file is held out when i %% %d = %d;"
           + " the other lines train", every, every - 1), pipeline, options);
@@ -87,7 +94,7 @@ final class Report {
           rt.maxMemory() / (1024 * 1024));
       return new Meta(files, heldOut, "normalization " + pipeline.normalization().spec()
           + ", splitting " + pipeline.splitting().spec(), options, v,
-          ZonedDateTime.now().format(DateTimeFormatter.ofPattern("yyyy-MM-dd HH:mm z", Locale.ROOT)), machine);
+          ZonedDateTime.now().format(DateTimeFormatter.ofPattern("yyyy-MM-dd HH:mm z", Locale.ROOT)), machine, List.of());
     }
   }
 
@@ -144,8 +151,14 @@ final class Report {
     sb.append("<h2>What was measured</h2>\n<dl>");
     sb.append("<dt>corpus</dt><dd>").append(esc(String.join("; ", meta.files()))).append("</dd>");
     sb.append("<dt>held out</dt><dd>").append(esc(meta.heldOut())).append("</dd>");
-    sb.append("<dt>pipeline</dt><dd>").append(esc(meta.pipeline())).append("; scheme options ")
-        .append(esc(meta.options())).append("</dd>");
+    sb.append("<dt>pipeline</dt><dd>").append(esc(meta.pipeline()));
+    if (meta.models().isEmpty()) {
+      sb.append("; scheme options ").append(esc(meta.options()));
+    }
+    sb.append("</dd>");
+    for (String m : meta.models()) {
+      sb.append("<dt>model</dt><dd>").append(esc(m)).append("</dd>");
+    }
     sb.append("<dt>encode speed</dt><dd>one thread, median of ").append(Sweep.TIMED_ROUNDS)
         .append(" rounds (passes over the held-out text for at least 50 ms) after a warm-up until ").append(Steady.WINDOW)
         .append(" consecutive rounds agree within 5% (the warm-up of each cell is in the table)</dd>");
@@ -344,20 +357,27 @@ final class Report {
     return svg(chart);
   }
 
+  /**
+   * Tokens per word per input, one bar per scheme at its largest feasible size: in a sweep all
+   * schemes usually share that size (the title names it); in a comparison each model has its own.
+   */
   private static String groupChart(List<Sweep.Row> rows) {
-    int largest = 0;
+    Map<String, Integer> largest = new LinkedHashMap<>();
     for (Sweep.Row r : rows) {
       if (r.feasible()) {
-        largest = Math.max(largest, r.requestedSize());
+        largest.merge(r.scheme(), r.requestedSize(), Math::max);
       }
     }
     DefaultCategoryDataset data = new DefaultCategoryDataset();
     for (Sweep.Row r : rows) {
-      if (r.requestedSize() == largest && r.feasible() && !r.group().equals(Sweep.ALL)) {
+      if (r.feasible() && r.requestedSize() == largest.get(r.scheme()) && !r.group().equals(Sweep.ALL)) {
         data.addValue(r.tokensPerWord(), r.scheme(), r.group());
       }
     }
-    JFreeChart chart = ChartFactory.createBarChart("Tokens per word by input at vocabulary size " + num(largest), "input",
+    Set<Integer> sizes = new TreeSet<>(largest.values());
+    String title = sizes.size() == 1 ? "Tokens per word by input at vocabulary size " + num(sizes.iterator().next())
+        : "Tokens per word by input, each at its largest vocabulary size";
+    JFreeChart chart = ChartFactory.createBarChart(title, "input",
         "tokens per word", data, PlotOrientation.VERTICAL, true, false, false);
     CategoryPlot plot = chart.getCategoryPlot();
     plot.setBackgroundPaint(Color.WHITE);

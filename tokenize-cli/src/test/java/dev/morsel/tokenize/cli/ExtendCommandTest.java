@@ -83,6 +83,10 @@ class ExtendCommandTest {
     assertTrue(extNo < baseNo, "tokens per word on the new domain: base " + baseNo + ", extended " + extNo);
     String html = Files.readString(out.resolve("compare.html"));
     assertTrue(html.contains("extends " + base.getFileName()), "the report names the lineage");
+    // the per-input chart holds a bar of each model, not only of the largest one
+    int at = html.indexOf("<figure id=\"chart-fertility\">");
+    String figure = html.substring(at, html.indexOf("</figure>", at));
+    assertTrue(figure.contains(base.getFileName().toString()) && figure.contains(ext.getFileName().toString()), figure);
   }
 
   @ParameterizedTest
