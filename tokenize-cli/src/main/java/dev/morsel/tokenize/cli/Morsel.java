@@ -14,8 +14,8 @@ import picocli.CommandLine.Option;
  */
 @Command(name = "morsel", mixinStandardHelpOptions = true, separator = " ", versionProvider = Morsel.Version.class,
     description = "Train subword vocabularies, encode and decode text with exact offsets, measure before you deploy.",
-    subcommands = {TrainCommand.class, ExtendCommand.class, CompareCommand.class, EncodeCommand.class, DecodeCommand.class, InspectCommand.class, ReviewCommand.class,
-        SweepCommand.class, BenchCommand.class, DemoCommand.class, SchemesCommand.class, CommandLine.HelpCommand.class},
+    subcommands = {TrainCommand.class, EncodeCommand.class, DecodeCommand.class, InspectCommand.class, ReviewCommand.class,
+        SweepCommand.class, ExtendCommand.class, CompareCommand.class, BenchCommand.class, DemoCommand.class, SchemesCommand.class, CommandLine.HelpCommand.class},
     footer = {"", "Examples:", "  morsel demo",
         "  morsel train --scheme bpe --vocab-size 2000 --out ferry.morsel \\",
         "      morsel-demo/corpus/*.txt",

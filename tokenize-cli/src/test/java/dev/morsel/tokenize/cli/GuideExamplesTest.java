@@ -112,27 +112,6 @@ class GuideExamplesTest {
   }
 
   @Test
-  void extendingAModel() {
-    Tokenizer base = smallBpe(Pipeline.defaults(), List.of());
-    // invented timetable code of the ferry operator: the new domain
-    List<String> newCorpus = List.of("departures.put(\"Oskevik\", LocalTime.of(7, 40));",
-        "for (Departure d : departures) { if (d.delayed()) notifyPassengers(d); }",
-        "int seats = ferry.capacity() - ferry.booked(); // Harrowmere quay",
-        "departures.put(\"Harrowmere\", LocalTime.of(9, 15));");
-    // @start region="extend"
-    PieceCounts code = PieceCounter.builder().pipeline(base.pipeline()).build().count(newCorpus); // the base's pipeline
-    Tokenizer extended = BpeLearner.extender().addedIds(200).build().extend(base, code);
-    Lineage lineage = extended.lineage().orElseThrow();           // the base's fingerprint and vocabulary size
-    boolean keeps = lineage.isBase(base) && Extender.keepsIds(base, extended);  // every base id, byte for byte
-    Tokenizer same = Learners.extender(base.kind(), ExtensionSettings.of(200)).extend(base, code);  // by scheme name
-    // @end region="extend"
-    assertTrue(keeps);
-    assertEquals(extended.fingerprint(), same.fingerprint());
-    assertEquals(base.vocabularySize(), lineage.baseVocabularySize());
-    assertTrue(extended.encode(newCorpus.get(0)).size() < base.encode(newCorpus.get(0)).size());
-  }
-
-  @Test
   void choosingAScheme() throws IOException {
     // @start region="schemes"
     PieceCounts counts = PieceCounter.builder().build().countFiles(List.of(corpus));
@@ -169,6 +148,27 @@ class GuideExamplesTest {
       long chars = held.stream().mapToLong(String::length).sum();
       assertTrue(tokens < chars / 2, t.kind() + ": " + tokens + " tokens for " + chars + " chars");
     }
+  }
+
+  @Test
+  void extendingAModel() {
+    Tokenizer base = smallBpe(Pipeline.defaults(), List.of());
+    // invented timetable code of the ferry operator: the new domain
+    List<String> newCorpus = List.of("departures.put(\"Oskevik\", LocalTime.of(7, 40));",
+        "for (Departure d : departures) { if (d.delayed()) notifyPassengers(d); }",
+        "int seats = ferry.capacity() - ferry.booked(); // Harrowmere quay",
+        "departures.put(\"Harrowmere\", LocalTime.of(9, 15));");
+    // @start region="extend"
+    PieceCounts code = PieceCounter.builder().pipeline(base.pipeline()).build().count(newCorpus); // the base's pipeline
+    Tokenizer extended = BpeLearner.extender().addedIds(200).build().extend(base, code);
+    Lineage lineage = extended.lineage().orElseThrow();           // the base's fingerprint and vocabulary size
+    boolean keeps = lineage.isBase(base) && Extender.keepsIds(base, extended);  // every base id, byte for byte
+    Tokenizer same = Learners.extender(base.kind(), ExtensionSettings.of(200)).extend(base, code);  // by scheme name
+    // @end region="extend"
+    assertTrue(keeps);
+    assertEquals(extended.fingerprint(), same.fingerprint());
+    assertEquals(base.vocabularySize(), lineage.baseVocabularySize());
+    assertTrue(extended.encode(newCorpus.get(0)).size() < base.encode(newCorpus.get(0)).size());
   }
 
   @Test
@@ -393,7 +393,7 @@ class GuideExamplesTest {
     while (m.find()) {
       regions.put(m.group(1), m.group(2).lines().map(String::strip).filter(s -> !s.isEmpty()).toList());
     }
-    assertEquals(List.of("start", "schemes", "by-name", "nfkc", "reserved", "reserved-safe", "lengths", "batch", "tuning", "file",
+    assertEquals(List.of("start", "schemes", "by-name", "extend", "nfkc", "reserved", "reserved-safe", "lengths", "batch", "tuning", "file",
         "limits"),
         new ArrayList<>(regions.keySet()));
     List<String> blocks = new ArrayList<>();
