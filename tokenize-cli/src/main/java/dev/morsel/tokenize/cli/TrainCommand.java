@@ -74,6 +74,7 @@ final class TrainCommand implements Callable<Integer> {
   Corpus.BadUtf8 badUtf8;
 
   @Override
+  @SuppressWarnings("try") // progress.close() is called early on purpose: it clears the bar before the summary (close is idempotent)
   public Integer call() throws Exception {
     if (threads <= 0) {
       throw new Morsel.UsageException("--threads must be positive, got " + threads);
