@@ -434,7 +434,7 @@ class TokenizerTest {
     assertEquals(t.pipeline(), back.pipeline());
     String text = "Lost: one blue umbrella, Deck C \ud83c\udf02";
     assertEquals(t.encodePair(text, "Pier 3"), back.encodePair(text, "Pier 3"));
-    assertTrue(Tokenizers.kinds().contains(ByteSegmenter.KIND));
+    assertTrue(Tokenizers.schemes().contains(ByteSegmenter.SCHEME));
     java.nio.file.Path file = java.nio.file.Files.createTempFile("morsel", ".model");
     try {
       t.save(file);

@@ -49,7 +49,7 @@ final class InspectCommand implements Callable<Integer> {
     }
     Tokenizer t = Tokenizers.load(model);
     PrintWriter o = spec.commandLine().getOut();
-    o.printf(Locale.ROOT, "kind             %s%n", t.kind());
+    o.printf(Locale.ROOT, "scheme           %s%n", t.scheme());
     o.printf(Locale.ROOT, "vocabulary       %,d ids%n", t.vocabularySize());
     o.printf(Locale.ROOT, "fingerprint      %s%n", t.fingerprint());
     o.printf(Locale.ROOT, "normalization    %s%n", t.pipeline().normalization().spec());
