@@ -18,7 +18,7 @@ import picocli.CommandLine.Model.CommandSpec;
 
 /** {@code morsel inspect}: what a model holds, and why a text segments the way it does. */
 @Command(name = "inspect", mixinStandardHelpOptions = true, separator = " ",
-    description = "Summarize a model (kind, vocabulary, fingerprint, normalization, splitting, reserved tokens),"
+    description = "Summarize a model (scheme, vocabulary, fingerprint, normalization, splitting, reserved tokens),"
         + " list its most frequent and longest tokens, and explain how a text is segmented.",
     footer = {"", "Examples:", "  morsel inspect --model ferry.morsel",
         "  morsel inspect --model ferry.morsel --sample messages.txt --top 30",
