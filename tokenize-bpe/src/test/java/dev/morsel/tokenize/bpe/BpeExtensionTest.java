@@ -76,7 +76,7 @@ class BpeExtensionTest {
   void refusesWrongInputs() {
     Tokenizer base = BpeLearner.builder().vocabularySize(300).threads(1).build()
         .train(PieceCounts.of(Map.of("ferry", 40L, "Oskevik", 12L)));
-    ExtensionChecks.assertRefusesWrongInputs(Bpe.KIND, base, n -> BpeLearner.extender().addedIds(n).build());
+    ExtensionChecks.assertRefusesWrongInputs(Bpe.SCHEME, base, n -> BpeLearner.extender().addedIds(n).build());
     IllegalArgumentException unset = assertThrows(IllegalArgumentException.class, () -> BpeLearner.extender().build());
     assertTrue(unset.getMessage().contains("addedIds"), unset.getMessage());
     IllegalArgumentException option = assertThrows(IllegalArgumentException.class,
@@ -99,7 +99,7 @@ class BpeExtensionTest {
   @Test
   void measuredOnSourceCode() {
     ExtensionChecks.Corpora c = ExtensionChecks.corpora();
-    ExtensionChecks.Measured m = ExtensionChecks.measure(Bpe.KIND,
+    ExtensionChecks.Measured m = ExtensionChecks.measure(Bpe.SCHEME,
         size -> counts -> BpeLearner.builder().vocabularySize(size).threads(2).build().train(counts),
         base -> BpeLearner.extender().addedIds(ExtensionChecks.ADDED_IDS).threads(2).build().extend(base, c.code()));
     assertTrue(m.baseCode() > m.extendedCode(), "the extension shortens code: " + m.table());

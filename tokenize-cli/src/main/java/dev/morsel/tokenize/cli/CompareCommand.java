@@ -58,9 +58,9 @@ final class CompareCommand implements Callable<Integer> {
     for (Path p : models) {
       Tokenizer t = Tokenizers.load(p);
       loaded.add(t);
-      String label = p.getFileName() + " (" + t.kind() + ")";
+      String label = p.getFileName() + " (" + t.scheme() + ")";
       for (int k = 2; labels.contains(label); k++) {
-        label = p.getFileName() + " (" + t.kind() + ", " + k + ")";
+        label = p.getFileName() + " (" + t.scheme() + ", " + k + ")";
       }
       labels.add(label);
     }

@@ -60,6 +60,7 @@ final class ExtendCommand implements Callable<Integer> {
   Corpus.BadUtf8 badUtf8;
 
   @Override
+  @SuppressWarnings("try") // progress.close() is called early on purpose, as in TrainCommand: it clears the bar first
   public Integer call() throws Exception {
     if (threads <= 0) {
       throw new Morsel.UsageException("--threads must be positive, got " + threads);
@@ -71,7 +72,7 @@ final class ExtendCommand implements Callable<Integer> {
       throw new Morsel.UsageException("--out " + out + " is a folder; name the model file to write");
     }
     Tokenizer base = Tokenizers.load(model);
-    Schemes.ExtensionPlan plan = Schemes.extensionPlan(base.kind(), add, options, threads); // checked before counting
+    Schemes.ExtensionPlan plan = Schemes.extensionPlan(base.scheme(), add, options, threads); // checked before counting
     PrintWriter o = spec.commandLine().getOut();
     PrintWriter err = spec.commandLine().getErr();
     long t0 = System.nanoTime();
@@ -89,13 +90,13 @@ final class ExtendCommand implements Callable<Integer> {
       o.printf(Locale.ROOT, "pieces counted   %,d distinct, %,d in all, from %,d lines (%.1f s)%n", counts.size(),
           counts.total(), report.texts(), (t1 - t0) / 1e9);
       o.printf(Locale.ROOT, "vocabulary       %,d ids = %,d of %s + %,d new, scheme %s (%.1f s)%n", t.vocabularySize(),
-          base.vocabularySize(), model.getFileName(), added, t.kind(), (t2 - t1) / 1e9);
+          base.vocabularySize(), model.getFileName(), added, t.scheme(), (t2 - t1) / 1e9);
       o.printf(Locale.ROOT, "extends          %s%n", base.fingerprint());
       o.printf(Locale.ROOT, "fingerprint      %s%n", t.fingerprint());
       o.printf(Locale.ROOT, "model            %s (%,d bytes)%n", out, Files.size(out));
       if (added < add) {
         err.printf(Locale.ROOT, "morsel extend: note: %s gave %,d new ids, %,d fewer than --add %,d: the corpus holds"
-            + " nothing more to learn%n", t.kind(), added, add - added, add);
+            + " nothing more to learn%n", t.scheme(), added, add - added, add);
         err.flush();
       }
     }

@@ -23,7 +23,7 @@ import java.util.Objects;
  * @since 0.3.0
  */
 public interface Extender {
-  /** The scheme name, for example {@code "bpe"}: the {@link Tokenizer#kind()} of the bases it takes. */
+  /** The scheme name, for example {@code "bpe"}: the {@link Tokenizer#scheme()} of the bases it takes. */
   String scheme();
 
   /**
@@ -45,8 +45,8 @@ public interface Extender {
   static void checkInputs(String scheme, Tokenizer base, PieceCounts counts) {
     Objects.requireNonNull(base, "base");
     Objects.requireNonNull(counts, "counts");
-    if (!base.kind().equals(scheme)) {
-      throw new IllegalArgumentException("a " + scheme + " extender cannot extend a model of scheme '" + base.kind()
+    if (!base.scheme().equals(scheme)) {
+      throw new IllegalArgumentException("a " + scheme + " extender cannot extend a model of scheme '" + base.scheme()
           + "'; use the extender of that scheme");
     }
     if (!counts.pipeline().equals(base.pipeline())) {
@@ -67,7 +67,7 @@ public interface Extender {
   static boolean keepsIds(Tokenizer base, Tokenizer extended) {
     Objects.requireNonNull(base, "base");
     Objects.requireNonNull(extended, "extended");
-    if (extended.lineage().map(l -> l.isBase(base)).orElse(false) && extended.kind().equals(base.kind())) {
+    if (extended.lineage().map(l -> l.isBase(base)).orElse(false) && extended.scheme().equals(base.scheme())) {
       for (int id = 0; id < base.vocabularySize(); id++) {
         if (!base.token(id).equals(extended.token(id))
             || !java.util.Arrays.equals(base.tokenBytes(id), extended.tokenBytes(id))) {

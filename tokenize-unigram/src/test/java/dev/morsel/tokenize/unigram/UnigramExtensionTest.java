@@ -78,7 +78,7 @@ class UnigramExtensionTest {
   void refusesWrongInputs() {
     Tokenizer base = UnigramLearner.builder().vocabularySize(300).threads(1).build().train(PieceCounts.of(Map.of(
         "ferry", 20L, "Oskevik", 4L)));
-    ExtensionChecks.assertRefusesWrongInputs(Unigram.KIND, base, n -> UnigramLearner.extender().addedIds(n).build());
+    ExtensionChecks.assertRefusesWrongInputs(Unigram.SCHEME, base, n -> UnigramLearner.extender().addedIds(n).build());
     IllegalArgumentException option = assertThrows(IllegalArgumentException.class,
         () -> Learners.extender("unigram", ExtensionSettings.of(5), "keep-share=2"));
     assertTrue(option.getMessage().contains("keep-share=2"), option.getMessage());
@@ -93,7 +93,7 @@ class UnigramExtensionTest {
   @Test
   void measuredOnSourceCode() {
     ExtensionChecks.Corpora c = ExtensionChecks.corpora();
-    ExtensionChecks.Measured m = ExtensionChecks.measure(Unigram.KIND,
+    ExtensionChecks.Measured m = ExtensionChecks.measure(Unigram.SCHEME,
         size -> counts -> UnigramLearner.builder().vocabularySize(size).candidateMultiple(CANDIDATES).threads(2).build()
             .train(counts),
         base -> UnigramLearner.extender().addedIds(ExtensionChecks.ADDED_IDS).candidateMultiple(CANDIDATES).threads(2)

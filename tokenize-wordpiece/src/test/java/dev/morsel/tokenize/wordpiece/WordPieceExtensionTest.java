@@ -114,7 +114,7 @@ class WordPieceExtensionTest {
   void refusesWrongInputs() {
     Tokenizer base = WordPieceLearner.builder().vocabularySize(60).build().train(PieceCounts.of(Map.of(
         "ferry", 20L, "Oskevik", 4L)));
-    ExtensionChecks.assertRefusesWrongInputs(WordPiece.KIND, base, n -> WordPieceLearner.extender().addedIds(n).build());
+    ExtensionChecks.assertRefusesWrongInputs(WordPiece.SCHEME, base, n -> WordPieceLearner.extender().addedIds(n).build());
     IllegalArgumentException marker = assertThrows(IllegalArgumentException.class,
         () -> Learners.extender("wordpiece", ExtensionSettings.of(5), "marker=~").extend(base,
             PieceCounts.of(Map.of("deck", 3L))));
@@ -128,7 +128,7 @@ class WordPieceExtensionTest {
   @Test
   void measuredOnSourceCode() {
     ExtensionChecks.Corpora c = ExtensionChecks.corpora();
-    ExtensionChecks.Measured m = ExtensionChecks.measure(WordPiece.KIND,
+    ExtensionChecks.Measured m = ExtensionChecks.measure(WordPiece.SCHEME,
         size -> counts -> WordPieceLearner.builder().vocabularySize(size).build().train(counts),
         base -> WordPieceLearner.extender().addedIds(ExtensionChecks.ADDED_IDS).build().extend(base, c.code()));
     assertTrue(m.baseCode() > m.extendedCode(), "the extension shortens code: " + m.table());

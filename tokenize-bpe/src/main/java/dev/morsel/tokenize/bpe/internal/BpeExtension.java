@@ -74,12 +74,12 @@ public final class BpeExtension implements Extender {
 
   @Override
   public String scheme() {
-    return BpeSegmenter.KIND;
+    return BpeSegmenter.SCHEME;
   }
 
   @Override
   public Tokenizer extend(Tokenizer base, PieceCounts counts) {
-    Extender.checkInputs(BpeSegmenter.KIND, base, counts);
+    Extender.checkInputs(BpeSegmenter.SCHEME, base, counts);
     Segmenter seg = Tokenizers.segmenterOf(base);
     if (!(seg instanceof BpeSegmenter)) {
       throw new IllegalArgumentException("the base's segmenter is not Morsel's BPE segmenter: " + seg);

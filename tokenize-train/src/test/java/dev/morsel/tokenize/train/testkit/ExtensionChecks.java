@@ -104,7 +104,7 @@ public final class ExtensionChecks {
    * the lineage names the base and survives save/load and the review text.
    */
   public static void assertExtends(Tokenizer base, Tokenizer extended, int addedIds) {
-    assertEquals(base.kind(), extended.kind());
+    assertEquals(base.scheme(), extended.scheme());
     int n = base.vocabularySize();
     assertTrue(extended.vocabularySize() > n && extended.vocabularySize() <= n + addedIds,
         "base " + n + " ids, extended " + extended.vocabularySize() + ", at most " + addedIds + " added");
@@ -217,8 +217,8 @@ public final class ExtensionChecks {
     assertEquals(scheme, e.scheme());
     Tokenizer other = Tokenizers.of(Pipeline.defaults(), new ByteSegmenter(0));
     PieceCounts some = PieceCounts.of(base.pipeline(), java.util.Map.of("ferry", 3, "Oskevik", 2));
-    IllegalArgumentException kind = assertThrows(IllegalArgumentException.class, () -> e.extend(other, some));
-    assertTrue(kind.getMessage().contains(ByteSegmenter.KIND) && kind.getMessage().contains(scheme), kind.getMessage());
+    IllegalArgumentException scheme0 = assertThrows(IllegalArgumentException.class, () -> e.extend(other, some));
+    assertTrue(scheme0.getMessage().contains(ByteSegmenter.SCHEME) && scheme0.getMessage().contains(scheme), scheme0.getMessage());
     Pipeline folded = Pipeline.of(Normalization.parse("nfkc+casefold"), Splitting.runs());
     PieceCounts foldedCounts = PieceCounts.of(folded, java.util.Map.of("ferry", 3));
     IllegalArgumentException pipe = assertThrows(IllegalArgumentException.class, () -> e.extend(base, foldedCounts));

@@ -86,12 +86,12 @@ public final class UnigramExtension implements Extender {
 
   @Override
   public String scheme() {
-    return UnigramSegmenter.KIND;
+    return UnigramSegmenter.SCHEME;
   }
 
   @Override
   public Tokenizer extend(Tokenizer base, PieceCounts counts) {
-    Extender.checkInputs(UnigramSegmenter.KIND, base, counts);
+    Extender.checkInputs(UnigramSegmenter.SCHEME, base, counts);
     UnigramSegmenter s = UnigramSegmenter.of(base, "a unigram extension");
     long total = (long) s.vocabularySize() + addedIds;
     if (total > dev.morsel.tokenize.format.ModelLimits.DEFAULT_MAX_VOCABULARY) {

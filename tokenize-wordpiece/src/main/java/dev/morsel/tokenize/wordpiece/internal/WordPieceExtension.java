@@ -55,12 +55,12 @@ public final class WordPieceExtension implements Extender {
 
   @Override
   public String scheme() {
-    return WordPieceSegmenter.KIND;
+    return WordPieceSegmenter.SCHEME;
   }
 
   @Override
   public Tokenizer extend(Tokenizer base, PieceCounts counts) {
-    Extender.checkInputs(WordPieceSegmenter.KIND, base, counts);
+    Extender.checkInputs(WordPieceSegmenter.SCHEME, base, counts);
     Segmenter seg = Tokenizers.segmenterOf(base);
     if (!(seg instanceof WordPieceSegmenter)) {
       throw new IllegalArgumentException("the base's segmenter is not Morsel's WordPiece segmenter: " + seg);

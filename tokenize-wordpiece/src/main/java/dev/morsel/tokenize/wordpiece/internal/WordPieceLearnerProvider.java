@@ -42,7 +42,7 @@ public final class WordPieceLearnerProvider implements LearnerProvider {
 
   @Override
   public String scheme() {
-    return WordPieceSegmenter.KIND;
+    return WordPieceSegmenter.SCHEME;
   }
 
   @Override
@@ -81,7 +81,7 @@ public final class WordPieceLearnerProvider implements LearnerProvider {
     return new Learner() {
       @Override
       public String scheme() {
-        return WordPieceSegmenter.KIND;
+        return WordPieceSegmenter.SCHEME;
       }
 
       @Override
@@ -125,12 +125,12 @@ public final class WordPieceLearnerProvider implements LearnerProvider {
     return new Extender() {
       @Override
       public String scheme() {
-        return WordPieceSegmenter.KIND;
+        return WordPieceSegmenter.SCHEME;
       }
 
       @Override
       public Tokenizer extend(Tokenizer base, PieceCounts counts) {
-        Extender.checkInputs(WordPieceSegmenter.KIND, base, counts);
+        Extender.checkInputs(WordPieceSegmenter.SCHEME, base, counts);
         WordPieceSettings own = ((WordPieceSegmenter) Tokenizers.segmenterOf(base)).settings();
         if (!marker.equals(WordPieceSettings.DEFAULT_MARKER) && !marker.equals(own.marker())) {
           throw options.wrong(MARKER, marker, "differs from the base's marker '" + own.marker()
