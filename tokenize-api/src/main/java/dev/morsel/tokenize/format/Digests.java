@@ -45,7 +45,7 @@ final class Digests {
   }
 
   /**
-   * The model fingerprint: SHA-256 over, for each section but {@link ModelFile#TAG_META} in tag
+   * The model fingerprint: SHA-256 over, for each section but {@link ModelFile#TAG_METADATA} in tag
    * order, the four tag bytes, the payload length as 8 bytes little-endian, then the payload.
    * {@code payloads} must iterate in tag order (a sorted map); payload positions are not moved.
    */
@@ -53,7 +53,7 @@ final class Digests {
     MessageDigest md = sha256();
     byte[] head = new byte[12];
     for (Map.Entry<String, ByteBuffer> e : payloads.entrySet()) {
-      if (e.getKey().equals(ModelFile.TAG_META)) {
+      if (e.getKey().equals(ModelFile.TAG_METADATA)) {
         continue;
       }
       String tag = e.getKey();

@@ -98,7 +98,7 @@ public final class BpeTraining implements Learner {
 
   @Override
   public String scheme() {
-    return BpeSegmenter.KIND;
+    return BpeSegmenter.SCHEME;
   }
 
   /** Learns the segmenter alone. */
@@ -220,7 +220,7 @@ public final class BpeTraining implements Learner {
     }
 
     /**
-     * The trainer.
+     * The learner.
      *
      * @throws IllegalArgumentException naming the setting that is out of range or the reserved token
      *     that is invalid

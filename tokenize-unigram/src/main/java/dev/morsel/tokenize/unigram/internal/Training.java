@@ -140,7 +140,7 @@ public final class Training implements Learner {
 
   @Override
   public String scheme() {
-    return UnigramSegmenter.KIND;
+    return UnigramSegmenter.SCHEME;
   }
 
   /** Learns from {@code counts}; the tokenizer encodes with their pipeline. */

@@ -39,7 +39,7 @@ public final class UnigramLearnerProvider implements LearnerProvider {
 
   @Override
   public String scheme() {
-    return UnigramSegmenter.KIND;
+    return UnigramSegmenter.SCHEME;
   }
 
   @Override

@@ -39,7 +39,7 @@ public final class WordPieceLearnerProvider implements LearnerProvider {
 
   @Override
   public String scheme() {
-    return WordPieceSegmenter.KIND;
+    return WordPieceSegmenter.SCHEME;
   }
 
   @Override
@@ -78,7 +78,7 @@ public final class WordPieceLearnerProvider implements LearnerProvider {
     return new Learner() {
       @Override
       public String scheme() {
-        return WordPieceSegmenter.KIND;
+        return WordPieceSegmenter.SCHEME;
       }
 
       @Override
