@@ -49,7 +49,7 @@ public final class Encoder {
    * pieces are one whole token (answered by the read-only whole-token table before any cache), 24.5%
    * are shorter pieces of several tokens, 0.8% are of 17 to 256 units. Replaying the pieces through a
    * direct-mapped table, the short ones hit in 9% of lookups with 4,096 slots and 33% with 65,536 (too
-   * few to pay for a probe and a store when the array scan merges them in about the same time); the
+   * few for a probe and a store on every miss to pay off against the array scan); the
    * long ones hit in 33% with 65,536 slots, and each hit saves a heap merge of at least 17 bytes.
    */
   public static final int CACHE_MIN_PIECE_CHARS = 17;
