@@ -33,6 +33,9 @@ GOALS = {
     "vthreads_wordpiece_vs_2threads": (">=", 0.8),
     "vthreads_unigram_vs_2threads": (">=", 0.8),
 }
+for _scheme in ("bpe", "wordpiece", "unigram"):
+    for _kind in ("marks", "emoji", "mixed"):
+        GOALS["%s_adversarial_%s_scale" % (_scheme, _kind)] = ("<=", 12)
 
 # goals on figures themselves (memory figures have absolute bounds)
 FIGURE_GOALS = {

@@ -1,5 +1,6 @@
 package dev.morsel.tokenize;
 
+import dev.morsel.tokenize.testkit.BreakTestFile;
 import static org.junit.jupiter.api.Assertions.assertEquals;
 import static org.junit.jupiter.api.Assertions.assertTrue;
 import static org.junit.jupiter.api.Assertions.fail;
@@ -12,15 +13,11 @@ import dev.morsel.tokenize.normalize.Normalization;
 import dev.morsel.tokenize.split.Splitting;
 import dev.morsel.tokenize.testkit.ByteSegmenter;
 import dev.morsel.tokenize.testkit.Europarl;
-import java.io.BufferedReader;
 import java.io.IOException;
-import java.io.InputStream;
-import java.io.InputStreamReader;
 import java.nio.charset.StandardCharsets;
 import java.util.ArrayList;
 import java.util.BitSet;
 import java.util.List;
-import java.util.zip.GZIPInputStream;
 import org.junit.jupiter.api.Test;
 
 /**
@@ -180,30 +177,10 @@ class GraphemeStreamConformanceTest {
 
   static List<Case> cases() throws IOException {
     List<Case> cases = new ArrayList<>();
-    try (InputStream raw = GraphemeStreamConformanceTest.class.getResourceAsStream(RESOURCE)) {
-      if (raw == null) {
-        fail("missing test resource " + RESOURCE);
-      }
-      BufferedReader in = new BufferedReader(new InputStreamReader(new GZIPInputStream(raw), StandardCharsets.UTF_8));
-      int lineNo = 0;
-      for (String line = in.readLine(); line != null; line = in.readLine()) {
-        lineNo++;
-        int hash = line.indexOf('#');
-        String body = (hash < 0 ? line : line.substring(0, hash)).trim();
-        if (body.isEmpty()) {
-          continue;
-        }
-        StringBuilder text = new StringBuilder();
-        BitSet boundaries = new BitSet();
-        for (String field : body.split("\\s+")) {
-          if (field.equals("\u00F7")) {
-            boundaries.set(text.length());
-          } else if (!field.equals("\u00D7")) {
-            text.appendCodePoint(Integer.parseInt(field, 16));
-          }
-        }
-        cases.add(new Case(lineNo, text.toString(), boundaries));
-      }
+    for (BreakTestFile.Line line : BreakTestFile.read(RESOURCE)) {
+      BitSet boundaries = new BitSet();
+      line.breaks().forEach(boundaries::set);
+      cases.add(new Case(line.number(), line.text(), boundaries));
     }
     return cases;
   }

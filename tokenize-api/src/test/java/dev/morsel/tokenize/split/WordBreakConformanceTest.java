@@ -1,23 +1,18 @@
 package dev.morsel.tokenize.split;
 
+import dev.morsel.tokenize.testkit.BreakTestFile;
 import static org.junit.jupiter.api.Assertions.assertEquals;
 import static org.junit.jupiter.api.Assertions.assertFalse;
 import static org.junit.jupiter.api.Assertions.assertTrue;
-import static org.junit.jupiter.api.Assertions.fail;
 
 import com.ibm.icu.lang.UCharacter;
 import com.ibm.icu.lang.UProperty;
-import java.io.BufferedReader;
 import java.io.IOException;
-import java.io.InputStream;
-import java.io.InputStreamReader;
-import java.nio.charset.StandardCharsets;
 import java.util.ArrayList;
 import java.util.LinkedHashMap;
 import java.util.List;
 import java.util.Map;
 import java.util.TreeMap;
-import java.util.zip.GZIPInputStream;
 import org.junit.jupiter.api.Test;
 
 /**
@@ -67,30 +62,8 @@ class WordBreakConformanceTest {
 
   static List<Case> cases() throws IOException {
     List<Case> cases = new ArrayList<>();
-    try (InputStream raw = WordBreakConformanceTest.class.getResourceAsStream(RESOURCE)) {
-      if (raw == null) {
-        fail("missing test resource " + RESOURCE);
-      }
-      BufferedReader in = new BufferedReader(new InputStreamReader(new GZIPInputStream(raw), StandardCharsets.UTF_8));
-      int lineNo = 0;
-      for (String line = in.readLine(); line != null; line = in.readLine()) {
-        lineNo++;
-        int hash = line.indexOf('#');
-        String body = (hash < 0 ? line : line.substring(0, hash)).trim();
-        if (body.isEmpty()) {
-          continue;
-        }
-        StringBuilder text = new StringBuilder();
-        List<Integer> breaks = new ArrayList<>();
-        for (String tok : body.split("\\s+")) {
-          if (tok.equals("\u00F7")) {
-            breaks.add(text.length());
-          } else if (!tok.equals("\u00D7")) {
-            text.appendCodePoint(Integer.parseInt(tok, 16));
-          }
-        }
-        cases.add(new Case(lineNo, text.toString(), breaks, line));
-      }
+    for (BreakTestFile.Line line : BreakTestFile.read(RESOURCE)) {
+      cases.add(new Case(line.number(), line.text(), line.breaks(), line.source()));
     }
     return cases;
   }

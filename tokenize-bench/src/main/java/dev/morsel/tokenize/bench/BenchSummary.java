@@ -36,8 +36,20 @@ import org.openjdk.jmh.runner.options.TimeValue;
  */
 public final class BenchSummary {
 
-  /** One figure: a JMH benchmark method, and the bytes one of its operations processes (0 = seconds). */
-  record Figure(String name, String benchmark, long bytes) {}
+  /**
+   * One figure: a JMH benchmark method, the bytes one of its operations processes (0 = seconds), and
+   * the values of the benchmark's {@code @Param} fields ({@code name=value,...}; empty for none).
+   */
+  record Figure(String name, String benchmark, long bytes, String params) {
+    Figure(String name, String benchmark, long bytes) {
+      this(name, benchmark, bytes, "");
+    }
+
+    /** The benchmark and its parameters: figures with the same key share one JMH run. */
+    String key() {
+      return params.isEmpty() ? benchmark : benchmark + "?" + params;
+    }
+  }
 
   private BenchSummary() {}
 
@@ -84,6 +96,14 @@ public final class BenchSummary {
       f.add(new Figure("vthreads_" + scheme, vt + "." + scheme, corpus));
       f.add(new Figure("vthreads_base_" + scheme, vt + "." + scheme + "Base", corpus));
     }
+    String adv = AdversarialBenchmarks.class.getName();
+    for (String scheme : List.of("bpe", "wordpiece", "unigram")) {
+      for (String kind : Corpus.ADVERSARIAL_KINDS) {
+        String params = "scheme=" + scheme + ",kind=" + kind;
+        f.add(new Figure(scheme + "_adversarial_" + kind + "_1m_s", adv + ".mib1", 0, params));
+        f.add(new Figure(scheme + "_adversarial_" + kind + "_100k_s", adv + ".kib100", 0, params));
+      }
+    }
     String train = TrainingBenchmarks.class.getName();
     f.add(new Figure("count_pieces_s", train + ".countPieces", 0));
     f.add(new Figure("bpe_train_32k_s", train + ".trainBpe32k", 0));
@@ -122,6 +142,12 @@ public final class BenchSummary {
     r.put("fresh_threads_unigram_vs_1thread", new String[] {"fresh_threads_unigram", "unigram_encode"});
     for (String scheme : List.of("bpe", "wordpiece", "unigram")) {
       r.put("vthreads_" + scheme + "_vs_2threads", new String[] {"vthreads_" + scheme, "vthreads_base_" + scheme});
+    }
+    for (String scheme : List.of("bpe", "wordpiece", "unigram")) {
+      for (String kind : Corpus.ADVERSARIAL_KINDS) {
+        String stem = scheme + "_adversarial_" + kind;
+        r.put(stem + "_scale", new String[] {stem + "_1m_s", stem + "_100k_s"});
+      }
     }
     return r;
   }
@@ -178,7 +204,7 @@ public final class BenchSummary {
         System.out.printf(Locale.ROOT, "%-32s %12s%n", f.name(), "skipped (no JDK 21+)");
         continue;
       }
-      Double known = secondsByBenchmark.get(f.benchmark());
+      Double known = secondsByBenchmark.get(f.key());
       if (known != null) {
         double value = value(f, known);
         values.put(f.name(), value);
@@ -187,6 +213,12 @@ public final class BenchSummary {
       }
       ChainedOptionsBuilder o = new OptionsBuilder().include("^" + f.benchmark().replace(".", "\\.") + "$")
           .shouldFailOnError(true);
+      if (!f.params().isEmpty()) {
+        for (String kv : f.params().split(",")) {
+          int eq = kv.indexOf('=');
+          o = o.param(kv.substring(0, eq), kv.substring(eq + 1));
+        }
+      }
       if (virtual) {
         o = o.jvm(vthreadsJvm);
         notes.putIfAbsent("vthreads", "virtual-thread figures ran on " + vthreadsJvm);
@@ -196,7 +228,7 @@ public final class BenchSummary {
         double score = rr.getPrimaryResult().getScore();
         TimeUnit unit = rr.getParams().getTimeUnit();
         double seconds = score * unit.toNanos(1) / 1e9; // seconds per operation
-        secondsByBenchmark.put(f.benchmark(), seconds);
+        secondsByBenchmark.put(f.key(), seconds);
         double value = value(f, seconds);
         values.put(f.name(), value);
         System.out.printf(Locale.ROOT, "%-32s %12.3f %s%n", f.name(), value, unit(f));

@@ -118,6 +118,70 @@ public final class Corpus {
     return new String(c);
   }
 
+  /** The kinds of {@link #adversarial(String, int, long)}. */
+  public static final String[] ADVERSARIAL_KINDS = {"marks", "emoji", "mixed"};
+
+  /**
+   * Adversarial text of {@code bytes} UTF-8 bytes (at least; cut at a code point), seeded, with no
+   * spaces, of one kind:
+   * <ul>
+   *   <li>{@code marks}: Latin, Greek and Cyrillic letters each carrying a run of 1 to 200 combining
+   *       marks (U+0300..U+036F, U+0483..U+0487);
+   *   <li>{@code emoji}: emoji ZWJ sequences of two to four people (U+1F466..U+1F469 joined by
+   *       U+200D, some with a skin-tone modifier U+1F3FB..U+1F3FF), flags (pairs of regional
+   *       indicators U+1F1E6..U+1F1FF), and hearts with U+FE0F;
+   *   <li>{@code mixed}: runs of 1 to 8 Latin letters, Han ideographs (U+4E00..U+9FFF), Cyrillic
+   *       letters and digits, the scripts alternating at random.
+   * </ul>
+   */
+  public static String adversarial(String kind, int bytes, long seed) {
+    java.util.SplittableRandom r = new java.util.SplittableRandom(seed);
+    StringBuilder sb = new StringBuilder(bytes);
+    long n = 0;
+    while (n < bytes) {
+      int from = sb.length();
+      switch (kind) {
+        case "marks":
+          String bases = "aeoiuαεοиеж";
+          sb.append(bases.charAt(r.nextInt(bases.length())));
+          for (int k = 1 + r.nextInt(200); k > 0; k--) {
+            sb.append(r.nextInt(8) == 0 ? (char) r.nextInt(0x483, 0x488) : (char) r.nextInt(0x300, 0x370));
+          }
+          break;
+        case "emoji":
+          int what = r.nextInt(3);
+          if (what == 0) {
+            for (int k = 2 + r.nextInt(3); k > 0; k--) {
+              sb.appendCodePoint(r.nextInt(0x1F466, 0x1F46A));
+              if (r.nextInt(3) == 0) {
+                sb.appendCodePoint(r.nextInt(0x1F3FB, 0x1F400));
+              }
+              if (k > 1) {
+                sb.append('\u200D');
+              }
+            }
+          } else if (what == 1) {
+            sb.appendCodePoint(r.nextInt(0x1F1E6, 0x1F200)).appendCodePoint(r.nextInt(0x1F1E6, 0x1F200));
+          } else {
+            sb.append('\u2764').append('\uFE0F');
+          }
+          break;
+        case "mixed":
+          int script = r.nextInt(4);
+          for (int k = 1 + r.nextInt(8); k > 0; k--) {
+            sb.append(script == 0 ? (char) r.nextInt('a', 'z' + 1) : script == 1 ? (char) r.nextInt(0x4E00, 0xA000)
+                : script == 2 ? (char) r.nextInt(0x430, 0x450) : (char) r.nextInt('0', '9' + 1));
+          }
+          break;
+        default:
+          throw new IllegalArgumentException("adversarial kind '" + kind + "' is not one of "
+              + java.util.Arrays.toString(ADVERSARIAL_KINDS));
+      }
+      n += utf8Length(sb.subSequence(from, sb.length()).toString());
+    }
+    return sb.toString();
+  }
+
   /** Prose of about {@code bytes} UTF-8 bytes from the corpus, joined by spaces into one text. */
   public static String prose(int bytes) {
     StringBuilder sb = new StringBuilder(bytes + 1024);

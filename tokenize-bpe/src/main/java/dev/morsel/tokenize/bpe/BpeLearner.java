@@ -48,7 +48,7 @@ import java.util.Objects;
  * @since 0.1.0
  */
 public final class BpeLearner implements Learner {
-  /** Default {@code vocabularySize}: 32,000 ids. */
+  /** Default {@code vocabularySize}: {@value}, the same for every scheme ({@link dev.morsel.tokenize.train.LearnerSettings#DEFAULT_VOCABULARY_SIZE}). */
   public static final int DEFAULT_VOCABULARY_SIZE = BpeTraining.DEFAULT_VOCABULARY_SIZE;
   /** Default {@code minPairCount}: 2 (a pair seen once compresses nothing). */
   public static final long DEFAULT_MIN_PAIR_COUNT = BpeTraining.DEFAULT_MIN_PAIR_COUNT;
@@ -115,7 +115,7 @@ public final class BpeLearner implements Learner {
 
     private Builder() {}
 
-    /** Target number of ids: reserved tokens + 256 bytes + merges. Default 32,000. */
+    /** Target number of ids: reserved tokens + 256 bytes + merges. Default {@value #DEFAULT_VOCABULARY_SIZE}. */
     public Builder vocabularySize(int size) {
       b.vocabularySize(size);
       return this;

@@ -117,6 +117,130 @@ class EncoderTest {
     assertArrayEquals(expected, Fixtures.segment(seg.withCacheEntries(0), text, 0, text.length()).ids(), input);
   }
 
+  /**
+   * A model of random merges over the UTF-8 bytes of {@code alphabet}: operands drawn from all tokens
+   * so far, half the time from the 16 newest, so tokens grow deep and merges of late ranks reach across
+   * many earlier ones (the shape that makes one part of a piece decide another far away). Tokens may
+   * hold parts of characters.
+   */
+  static BpeSegmenter randomMerges(SplittableRandom rnd, String alphabet) {
+    byte[] letters = alphabet.getBytes(StandardCharsets.UTF_8);
+    List<byte[]> bytesOf = new ArrayList<>();
+    for (int b = 0; b < 256; b++) {
+      bytesOf.add(new byte[] {(byte) b});
+    }
+    List<Integer> usable = new ArrayList<>();
+    java.util.Set<Integer> seenLetters = new java.util.HashSet<>();
+    for (byte b : letters) {
+      if (seenLetters.add(b & 0xFF)) {
+        usable.add(b & 0xFF);
+      }
+    }
+    java.util.Set<String> spelled = new java.util.HashSet<>();
+    java.util.Set<Long> pairs = new java.util.HashSet<>();
+    for (int u : usable) {
+      spelled.add(new String(bytesOf.get(u), StandardCharsets.ISO_8859_1));
+    }
+    int target = 20 + rnd.nextInt(400);
+    List<Integer> left = new ArrayList<>();
+    List<Integer> right = new ArrayList<>();
+    for (int tries = 0; tries < 40 * target && left.size() < target; tries++) {
+      int a = pick(rnd, usable);
+      int b = pick(rnd, usable);
+      byte[] x = bytesOf.get(a);
+      byte[] y = bytesOf.get(b);
+      byte[] joined = Arrays.copyOf(x, x.length + y.length);
+      System.arraycopy(y, 0, joined, x.length, y.length);
+      String key = new String(joined, StandardCharsets.ISO_8859_1);
+      if (joined.length > 24 || spelled.contains(key) || !pairs.add(((long) a << 32) | b)) {
+        continue;
+      }
+      spelled.add(key);
+      left.add(a);
+      right.add(b);
+      bytesOf.add(joined);
+      usable.add(255 + left.size());
+    }
+    return BpeSegmenter.of(List.of(), left.stream().mapToInt(Integer::intValue).toArray(),
+        right.stream().mapToInt(Integer::intValue).toArray());
+  }
+
+  private static int pick(SplittableRandom rnd, List<Integer> ids) {
+    int n = ids.size();
+    return rnd.nextBoolean() ? ids.get(rnd.nextInt(n)) : ids.get(n - 1 - rnd.nextInt(Math.min(16, n)));
+  }
+
+  private static String lettersOf(SplittableRandom rnd, String alphabet, int length) {
+    int[] cps = alphabet.codePoints().toArray();
+    StringBuilder sb = new StringBuilder(length + 1);
+    while (sb.length() < length) {
+      sb.appendCodePoint(cps[rnd.nextInt(cps.length)]);
+    }
+    return sb.toString();
+  }
+
+  static Stream<Long> windowSeeds() {
+    return IntStream.range(0, 100).mapToObj(i -> 0x3D0L * 1000 + i);
+  }
+
+  /**
+   * The windowed path of long pieces equals one rank-bucket run over the whole piece (itself checked
+   * against the textbook encoder above), for windows from 2 units (nearly every window must grow) to
+   * the default, on the Europarl model, trained random models and random merge models.
+   */
+  @ParameterizedTest
+  @MethodSource("windowSeeds")
+  void windowedPathEqualsOneRunOverTheWholePiece(long seed) {
+    SplittableRandom rnd = new SplittableRandom(seed);
+    BpeSegmenter seg;
+    String text;
+    int length = 3_000 + rnd.nextInt(20_000);
+    switch ((int) (seed % 5)) {
+      case 0:
+        seg = Fixtures.europarlModel();
+        StringBuilder sb = new StringBuilder();
+        List<String> bodies = Fixtures.europarlBodies();
+        while (sb.length() < length) {
+          sb.append(bodies.get(rnd.nextInt(bodies.size())).replace(" ", ""));
+        }
+        text = sb.toString();
+        break;
+      case 1:
+        seg = randomModel(rnd);
+        StringBuilder r = new StringBuilder();
+        while (r.length() < length) {
+          r.append(randomText(rnd, 200));
+        }
+        text = r.toString();
+        break;
+      case 2:
+        seg = randomMerges(rnd, "ab");
+        text = lettersOf(rnd, "ab", length);
+        break;
+      case 3:
+        seg = randomMerges(rnd, "abcd");
+        text = rnd.nextBoolean() ? lettersOf(rnd, "abcd", length) : "a".repeat(length / 2) + lettersOf(rnd, "abcd", length / 2);
+        break;
+      default:
+        String alphabet = "ae\u00e9\u0301\u4e2d\ud83d\udea2"; // Latin, a combining mark, Han, a ship (4 bytes)
+        seg = randomMerges(rnd, alphabet);
+        text = lettersOf(rnd, alphabet, length);
+        break;
+    }
+    int[] whole = new int[3 * text.length() + 1];
+    int nw = seg.encoder().segmentBucketPath(text, whole);
+    int[] expected = Arrays.copyOf(whole, nw);
+    String input = "seed=" + seed + " length=" + text.length() + " merges=" + seg.mergeCount();
+    int[] got = new int[3 * text.length() + 1];
+    for (int window : new int[] {2, 7, 64, 500, dev.morsel.tokenize.bpe.internal.Encoder.WINDOW_CHARS}) {
+      int n = seg.encoder().segmentWindowed(text, window, got);
+      assertArrayEquals(expected, Arrays.copyOf(got, n), input + " window=" + window);
+    }
+    Fixtures.Collected c = Fixtures.segment(seg.withCacheEntries(0), text, 0, text.length());
+    assertArrayEquals(expected, c.ids(), input + " public path");
+    assertNull(Fixtures.spanProblem(seg, text, 0, text.length(), c), input);
+  }
+
   @Test
   void emojiSplitIntoByteTokensReportsTheWholeCharacter() {
     // RFC 3629 section 3: U+1F6A2 is F0 9F 9A A2 (four bytes), one surrogate pair in UTF-16.

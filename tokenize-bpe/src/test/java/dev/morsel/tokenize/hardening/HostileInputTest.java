@@ -7,7 +7,11 @@ import static dev.morsel.tokenize.hardening.kit.HostileInputs.content;
 import static org.junit.jupiter.api.Assertions.assertArrayEquals;
 import static org.junit.jupiter.api.Assertions.assertTrue;
 
+import dev.morsel.tokenize.Pipeline;
 import dev.morsel.tokenize.Tokenizer;
+import dev.morsel.tokenize.Tokenizers;
+import dev.morsel.tokenize.normalize.Normalization;
+import dev.morsel.tokenize.split.Splitting;
 import dev.morsel.tokenize.Tokens;
 import dev.morsel.tokenize.wordpiece.WordPiece;
 import java.util.SplittableRandom;
@@ -54,6 +58,32 @@ class HostileInputTest {
       assertArrayEquals(Oracles.greedyWordPiece(wtk, lower), got, "64 KiB a-z vs naive greedy");
       assertTrue(got.length > 1000, "a-z is covered by the vocabulary: " + got.length + " tokens");
       counts.add("long pieces agree with naive greedy WordPiece");
+    }
+  }
+
+  /**
+   * 256 KiB each of combining-mark runs, emoji sequences and mixed scripts without spaces
+   * ({@link HostileInputs#withoutSpaces}), with rule splitting and as one piece (normalization and
+   * splitting off); a 32 Ki-unit prefix of the one piece against textbook BPE or naive greedy
+   * WordPiece.
+   */
+  @ParameterizedTest
+  @EnumSource(Models.Kind.class)
+  void marksEmojiAndMixedScriptsWithoutSpaces(Models.Kind kind) {
+    Tokenizer tk = Models.tokenizer(kind, "nfc");
+    Tokenizer trained = Models.trained(kind);
+    Tokenizer onePiece = Tokenizers.of(Pipeline.of(Normalization.none(), Splitting.none()),
+        Tokenizers.segmenterOf(kind == Models.Kind.BPE ? trained : WordPiece.withMaxPieceLength(trained, MIB)),
+        trained.reservedTokens(), Spellings.template());
+    for (String k : HostileInputs.SCRIPT_KINDS) {
+      String text = HostileInputs.withoutSpaces(k, 0x5C217L, 256 * 1024);
+      hostile.encodeChecked(tk, "256 KiB of " + k + " without spaces", text);
+      hostile.encodeChecked(onePiece, "256 KiB of " + k + " as one piece", text);
+      String prefix = HostileInputs.withoutSpaces(k, 0x5C217L, 32 * 1024);
+      int[] expected = kind == Models.Kind.BPE ? Oracles.textbookBpe(trained, prefix)
+          : Oracles.greedyWordPiece(WordPiece.withMaxPieceLength(trained, MIB), prefix);
+      assertArrayEquals(expected, content(onePiece.encode(prefix)), k + ": 32 Ki units as one piece vs the oracle");
+      counts.add("one piece of marks, emoji or mixed scripts agrees with the oracle");
     }
   }
 

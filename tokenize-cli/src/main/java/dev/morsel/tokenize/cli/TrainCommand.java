@@ -45,7 +45,7 @@ final class TrainCommand implements Callable<Integer> {
       description = "A scheme option, for example max-alphabet=300 for wordpiece (repeatable; 'morsel schemes' lists them with their defaults).")
   List<String> options = new ArrayList<>();
 
-  @Option(names = "--vocab-size", paramLabel = "N", defaultValue = "8000",
+  @Option(names = "--vocab-size", paramLabel = "N", defaultValue = "16000",
       description = "Vocabulary size, reserved tokens included (default: ${DEFAULT-VALUE}). A corpus too small to fill it gives fewer ids, said on standard error.")
   int vocabularySize;
 

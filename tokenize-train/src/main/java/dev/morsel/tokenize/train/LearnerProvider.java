@@ -15,7 +15,7 @@ import java.util.List;
  */
 public interface LearnerProvider {
   /**
-   * The scheme name: lower-case, for example {@code "bpe"}; the same as the {@code kind} of the
+   * The scheme name: lower-case, for example {@code "bpe"}; the same as the {@link dev.morsel.tokenize.Tokenizer#scheme() scheme} of the
    * segmenter it learns, so a learned tokenizer loads through the segmenter provider of that name.
    */
   String scheme();

@@ -17,6 +17,13 @@ import java.util.Objects;
  * @since 0.1.0
  */
 public final class LearnerSettings {
+  /**
+   * Default vocabulary size of every learner and of {@code morsel train}: 16,000 ids. Chosen by
+   * measurement (docs/guide.md, "The default vocabulary size"): the largest size in a doubling series
+   * at which every scheme still uses at least 80 % of its ids on held-out text.
+   */
+  public static final int DEFAULT_VOCABULARY_SIZE = 16_000;
+
   /** Default {@link #minCount()}: 1, every piece is learned from. */
   public static final long DEFAULT_MIN_COUNT = 1;
 

@@ -35,7 +35,7 @@ import java.util.Objects;
  * @since 0.1.0
  */
 public final class UnigramLearner implements Learner {
-  /** Default {@code vocabularySize}, in ids. */
+  /** Default {@code vocabularySize}, in ids: {@value}, the same for every scheme. */
   public static final int DEFAULT_VOCABULARY_SIZE = Training.DEFAULT_VOCABULARY_SIZE;
   /** Default {@code maxPieceLength}, in UTF-16 units (far above any word of prose). */
   public static final int DEFAULT_MAX_PIECE_LENGTH = Training.DEFAULT_MAX_PIECE_LENGTH;

@@ -7,7 +7,11 @@ import static dev.morsel.tokenize.hardening.kit.HostileInputs.content;
 import static org.junit.jupiter.api.Assertions.assertArrayEquals;
 import static org.junit.jupiter.api.Assertions.assertTrue;
 
+import dev.morsel.tokenize.Pipeline;
 import dev.morsel.tokenize.Tokenizer;
+import dev.morsel.tokenize.Tokenizers;
+import dev.morsel.tokenize.normalize.Normalization;
+import dev.morsel.tokenize.split.Splitting;
 import dev.morsel.tokenize.Tokens;
 import dev.morsel.tokenize.unigram.internal.UnigramSegmenter;
 import java.nio.charset.StandardCharsets;
@@ -111,6 +115,27 @@ class HostileInputTest {
         content(tk.encode(uncovered.substring(0, 30_000))), "uncovered symbols vs oracle");
     assertTrue(got.length >= uncovered.length(), "byte tokens: " + got.length);
     counts.add("long pieces agree with the Viterbi oracle", 3);
+  }
+
+  /**
+   * 256 KiB each of combining-mark runs, emoji sequences and mixed scripts without spaces
+   * ({@link HostileInputs#withoutSpaces}), with rule splitting and as one piece (normalization and
+   * splitting off); a 32 Ki-unit prefix of the one piece against {@link #viterbiOracle}.
+   */
+  @Test
+  void marksEmojiAndMixedScriptsWithoutSpaces() {
+    Tokenizer tk = Models.tokenizer("nfc");
+    Tokenizer onePiece = Tokenizers.of(Pipeline.of(Normalization.none(), Splitting.none()), Tokenizers.segmenterOf(tk),
+        tk.reservedTokens(), Spellings.template());
+    for (String k : HostileInputs.SCRIPT_KINDS) {
+      String text = HostileInputs.withoutSpaces(k, 0x5C217L, 256 * 1024);
+      hostile.encodeChecked(tk, "256 KiB of " + k + " without spaces", text);
+      hostile.encodeChecked(onePiece, "256 KiB of " + k + " as one piece", text);
+      String prefix = HostileInputs.withoutSpaces(k, 0x5C217L, 32 * 1024);
+      assertArrayEquals(viterbiOracle(Models.model(), prefix), content(onePiece.encode(prefix)),
+          k + ": 32 Ki units as one piece vs oracle");
+      counts.add("one piece of marks, emoji or mixed scripts agrees with the Viterbi oracle");
+    }
   }
 
   @Test

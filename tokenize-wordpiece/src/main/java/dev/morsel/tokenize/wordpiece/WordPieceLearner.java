@@ -36,7 +36,7 @@ import java.util.Objects;
  * @since 0.1.0
  */
 public final class WordPieceLearner implements Learner {
-  /** Default {@code vocabularySize}, in tokens. */
+  /** Default {@code vocabularySize}, in tokens: {@value}, the same for every scheme. */
   public static final int DEFAULT_VOCABULARY_SIZE = WordPieceTraining.DEFAULT_VOCABULARY_SIZE;
   /** Largest {@code vocabularySize}, in tokens. */
   public static final int MAX_VOCABULARY_SIZE = WordPieceSegmenter.MAX_VOCABULARY_SIZE;

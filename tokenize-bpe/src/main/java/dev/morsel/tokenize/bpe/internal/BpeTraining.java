@@ -44,8 +44,8 @@ import java.util.Objects;
  * @since 0.1.0
  */
 public final class BpeTraining implements Learner {
-  /** Default {@code vocabularySize}: 32,000 ids. */
-  public static final int DEFAULT_VOCABULARY_SIZE = 32_000;
+  /** Default {@code vocabularySize}, the same for every scheme. */
+  public static final int DEFAULT_VOCABULARY_SIZE = LearnerSettings.DEFAULT_VOCABULARY_SIZE;
   /** Default {@code minPairCount}: 2 (a pair seen once compresses nothing). */
   public static final long DEFAULT_MIN_PAIR_COUNT = 2;
   /** Default {@code maxTokenBytes}: 64 bytes. */
@@ -163,7 +163,7 @@ public final class BpeTraining implements Learner {
 
     private Builder() {}
 
-    /** Target number of ids: reserved tokens + 256 bytes + merges. Default 32,000. */
+    /** Target number of ids: reserved tokens + 256 bytes + merges. Default {@value #DEFAULT_VOCABULARY_SIZE}. */
     public Builder vocabularySize(int size) {
       this.vocabularySize = size;
       return this;

@@ -110,8 +110,8 @@ public final class PieceCache {
       int bs = s.outAt[j];
       int be = j + 1 < m ? s.outAt[j + 1] : n;
       d[3 * j] = s.outId[j];
-      d[3 * j + 1] = s.charStart[bs];
-      d[3 * j + 2] = s.charEnd[be - 1];
+      d[3 * j + 1] = s.charStartOf(bs);
+      d[3 * j + 2] = s.charEndOf(be - 1);
     }
     int set = (int) hash & mask & ~1;
     int way = slots[set] == null ? 0 : slots[set | 1] == null ? 1 : (int) (hash >>> 40) & 1;

@@ -51,6 +51,15 @@ public final class Vocab {
   final int pairShift;
   final String[] display;
   final Object2IntOpenHashMap<String> displayIds;
+  /**
+   * {@code (left id << 8 | first byte of the right operand)} → lowest rank of a merge with that left
+   * operand and a right operand starting with that byte ({@link #NO_RANK} if none): whether a symbol
+   * can still join the unknown text that follows it (see {@link Encoder}'s windowed path).
+   */
+  final Long2IntOpenHashMap leftByByte;
+
+  /** The value of {@link #firstRankJoiningRight} when no merge qualifies. */
+  static final int NO_RANK = Integer.MAX_VALUE;
 
   private Vocab(String[] reserved, int[] left, int[] right, byte[] bytes, int[] offsets, Long2IntOpenHashMap ranks,
       String[] display, Object2IntOpenHashMap<String> displayIds) {
@@ -85,6 +94,11 @@ public final class Vocab {
     } else {
       this.pairTable = null;
       this.pairShift = 0;
+    }
+    this.leftByByte = new Long2IntOpenHashMap(Math.max(16, merges));
+    leftByByte.defaultReturnValue(NO_RANK);
+    for (int r = 0; r < merges; r++) {
+      leftByByte.putIfAbsent(((long) left[r] << 8) | (bytes[offsets[right[r]]] & 0xFF), r); // first is lowest
     }
     this.bytePairRanks = new int[1 << 16];
     java.util.Arrays.fill(bytePairRanks, -1);
@@ -246,6 +260,14 @@ public final class Vocab {
       }
       i = (i + 1) & mask;
     }
+  }
+
+  /**
+   * The lowest rank of a merge whose left operand is {@code id} and whose right operand's bytes start
+   * with {@code nextByte} (0..255), or {@link #NO_RANK}.
+   */
+  int firstRankJoiningRight(int id, int nextByte) {
+    return leftByByte.get(((long) id << 8) | nextByte);
   }
 
   public String display(int id) {

@@ -34,8 +34,8 @@ import java.util.concurrent.Executors;
  * <p>References: [1] Kudo (2018), "Subword Regularization", ACL 2018.
  */
 public final class Training implements Learner {
-  /** Default vocabulary size, in ids. */
-  public static final int DEFAULT_VOCABULARY_SIZE = 8000;
+  /** Default vocabulary size, in ids, the same for every scheme. */
+  public static final int DEFAULT_VOCABULARY_SIZE = LearnerSettings.DEFAULT_VOCABULARY_SIZE;
   // seed and pruning defaults, each chosen by the held-out grid in docs/unigram.md
   // (UnigramSettingsGrid in tokenize-bench; Europarl sample, 8,000 ids)
   /** Default candidate multiple: a plain multiple of the pieces wanted. */

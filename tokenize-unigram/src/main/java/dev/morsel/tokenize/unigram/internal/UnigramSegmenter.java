@@ -38,7 +38,7 @@ import java.util.random.RandomGenerator;
  * token L. Where the character at a position is not itself a token an extra edge of one code point
  * carries the unknown token (byte tokens on output with byte fallback), so every piece has a path.
  * Ties keep the first relaxation (the path whose last token starts earliest). Pieces of up to
- * {@value PieceCache#MAX_CHARS} chars go through the workspace's {@link PieceCache} first. The n-best list is
+ * {@value SegmentationCache#MAX_CHARS} chars go through the workspace's {@link SegmentationCache} first. The n-best list is
  * A* search from the start with the exact best-suffix score as heuristic. Sampling filters backward
  * (log-sum-exp of {@code alpha * score} over all suffixes) and then samples forward token by token
  * [1, section 2.2 and 3.1]; this is the mirror image of forward filtering with backward sampling and
@@ -425,11 +425,11 @@ public final class UnigramSegmenter implements Segmenter {
       return;
     }
     Scratch s = scratchFor(n, (Scratch) workspace);
-    if (n > PieceCache.MAX_CHARS) {
+    if (n > SegmentationCache.MAX_CHARS) {
       viterbi(text, start, end, s, sink);
       return;
     }
-    PieceCache cache = s.cache();
+    SegmentationCache cache = s.cache();
     int slot = cache.slot(text, start, end);
     if (cache.matches(slot, text, start, end)) {
       cache.replay(slot, start, sink);
@@ -794,13 +794,13 @@ public final class UnigramSegmenter implements Segmenter {
     int[] pathId = new int[0];
     int[] edgeEnd = new int[0];
     int[] edgeId = new int[0];
-    private PieceCache cache;
+    private SegmentationCache cache;
     final Recorder recorder = new Recorder();
 
-    PieceCache cache() {
-      PieceCache c = cache;
+    SegmentationCache cache() {
+      SegmentationCache c = cache;
       if (c == null) {
-        c = new PieceCache();
+        c = new SegmentationCache();
         cache = c;
       }
       return c;
@@ -824,9 +824,9 @@ public final class UnigramSegmenter implements Segmenter {
 
   /** Collects the tokens of one short piece before they go to the cache and the caller. */
   private static final class Recorder implements TokenSink {
-    final int[] ids = new int[PieceCache.MAX_TOKENS];
-    final int[] starts = new int[PieceCache.MAX_TOKENS];
-    final int[] ends = new int[PieceCache.MAX_TOKENS];
+    final int[] ids = new int[SegmentationCache.MAX_TOKENS];
+    final int[] starts = new int[SegmentationCache.MAX_TOKENS];
+    final int[] ends = new int[SegmentationCache.MAX_TOKENS];
     int size;
 
     @Override

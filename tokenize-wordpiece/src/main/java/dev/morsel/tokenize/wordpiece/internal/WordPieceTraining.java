@@ -95,8 +95,8 @@ import java.util.Set;
  * @since 0.1.0
  */
 public final class WordPieceTraining implements Learner {
-  /** Default {@code vocabularySize}, in tokens. */
-  public static final int DEFAULT_VOCABULARY_SIZE = 8000;
+  /** Default {@code vocabularySize}, in tokens, the same for every scheme. */
+  public static final int DEFAULT_VOCABULARY_SIZE = LearnerSettings.DEFAULT_VOCABULARY_SIZE;
   /** Default {@code maxAlphabet}, in code points (covers the scripts of a typical European corpus). */
   public static final int DEFAULT_MAX_ALPHABET = 1000;
   /** Default {@code minCount}: every piece is used. */

@@ -9,10 +9,10 @@ import dev.morsel.tokenize.spi.TokenSink;
  * miss (no hash flooding). Memory: {@value #SLOTS} slots × ({@value #MAX_CHARS} chars +
  * {@value #SLOT_TOKENS} × 8 bytes + 2) ≈ 1.2 MB per thread and model.
  */
-final class PieceCache {
+final class SegmentationCache {
   /** Longest piece cached, in chars (reason: covers nearly all words of prose; longer ones are rare). */
   static final int MAX_CHARS = 24;
-  /** Most tokens of a piece of at most MAX_CHARS chars: every char as 3 byte tokens (byte fallback, BMP). */
+  /** Most tokens of a piece of at most MAX_CHARS chars: every char as 3 byte tokens (byte spelling, BMP). */
   static final int MAX_TOKENS = 3 * MAX_CHARS;
   /** Most tokens a slot holds (reason: words of prose need few; pieces with more are simply not cached). */
   static final int SLOT_TOKENS = 12;
