@@ -31,14 +31,14 @@ import org.junit.jupiter.api.Timeout;
 @Timeout(300)
 class TrainerAbuseTest {
   static UnigramLearner unigram(int vocabularySize) {
-    return UnigramLearner.builder().vocabularySize(vocabularySize).rawBytes(true).threads(2).build();
+    return UnigramLearner.builder().vocabularySize(vocabularySize).byteSpelling(true).threads(2).build();
   }
 
   static Tokenizer tokenizer(UnigramSegmenter m) {
     return Tokenizers.of(Pipeline.defaults(), m, ReservedTokens.none(), Template.none());
   }
 
-  /** Ids reserved by a raw-bytes model without reserved tokens: 256 bytes and the unknown token. */
+  /** Ids reserved by a byte-spelling model without reserved tokens: 256 bytes and the unknown token. */
   static final int RESERVED = 257;
 
   @Test
@@ -84,7 +84,7 @@ class TrainerAbuseTest {
   @Test
   void vocabularyLargerThanTheCorpusCanGiveStopsEarly() {
     PieceCounts small = PieceCounter.builder().threads(2).build().count(Europarl.bodies().subList(0, 20));
-    UnigramSegmenter m = UnigramSegmenter.of(UnigramLearner.builder().vocabularySize(1_000_000).rawBytes(true).threads(2).build().train(small));
+    UnigramSegmenter m = UnigramSegmenter.of(UnigramLearner.builder().vocabularySize(1_000_000).byteSpelling(true).threads(2).build().train(small));
     assertTrue(m.vocabularySize() < 1_000_000, "vocabulary " + m.vocabularySize());
     assertTrue(m.vocabularySize() > RESERVED + 100, "vocabulary " + m.vocabularySize());
     Tokenizer t = tokenizer(m);

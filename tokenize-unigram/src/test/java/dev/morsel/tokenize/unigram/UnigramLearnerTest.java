@@ -43,7 +43,7 @@ class UnigramLearnerTest {
   }
 
   private static UnigramLearner.Builder small() {
-    return UnigramLearner.builder().vocabularySize(120).candidateMultiple(4).maxTokenCodePoints(10).rawBytes(false);
+    return UnigramLearner.builder().vocabularySize(120).candidateMultiple(4).maxTokenCodePoints(10).byteSpelling(false);
   }
 
   @Test
@@ -93,10 +93,10 @@ class UnigramLearnerTest {
   void badInputIsRejected() {
     assertThrows(IllegalArgumentException.class, () -> small().build().train(PieceCounts.empty()));
     IllegalArgumentException e = assertThrows(IllegalArgumentException.class,
-        () -> UnigramLearner.builder().vocabularySize(10).rawBytes(false).build().train(corpus(1, 50)));
+        () -> UnigramLearner.builder().vocabularySize(10).byteSpelling(false).build().train(corpus(1, 50)));
     assertTrue(e.getMessage().contains("vocabularySize=10") && e.getMessage().contains("alphabet"), e.getMessage());
     e = assertThrows(IllegalArgumentException.class,
-        () -> UnigramLearner.builder().vocabularySize(200).rawBytes(true).build());
+        () -> UnigramLearner.builder().vocabularySize(200).byteSpelling(true).build());
     assertTrue(e.getMessage().contains("256 byte tokens"), "refused when built, before any learning: " + e.getMessage());
     e = assertThrows(IllegalArgumentException.class,
         () -> UnigramLearner.builder().vocabularySize(262).build().train(corpus(1, 50)));
@@ -166,8 +166,8 @@ class UnigramLearnerTest {
   }
 
   @Test
-  void rawBytesModelHasByteTokensAfterReservedTokens() {
-    UnigramSegmenter m = UnigramSegmenter.of(small().vocabularySize(400).rawBytes(true)
+  void byteSpellingModelHasByteTokensAfterReservedTokens() {
+    UnigramSegmenter m = UnigramSegmenter.of(small().vocabularySize(400).byteSpelling(true)
         .reservedTokens(List.of("\u00a7a", "\u00a7b")).build().train(corpus(8, 200)));
     assertEquals(400, m.vocabularySize());
     assertEquals(2, m.firstByteId());

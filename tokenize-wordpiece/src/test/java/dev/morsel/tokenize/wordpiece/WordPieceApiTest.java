@@ -15,6 +15,7 @@ import dev.morsel.tokenize.normalize.Normalization;
 import dev.morsel.tokenize.split.Splitting;
 import dev.morsel.tokenize.testkit.ByteSegmenter;
 import dev.morsel.tokenize.testkit.Europarl;
+import dev.morsel.tokenize.train.AlphabetPolicy;
 import dev.morsel.tokenize.train.PieceCounter;
 import dev.morsel.tokenize.train.PieceCounts;
 import java.util.Arrays;
@@ -52,7 +53,8 @@ class WordPieceApiTest {
   void buildRefusesEveryBadSettingByName() {
     refused("vocabularySize=1", () -> WordPieceLearner.builder().vocabularySize(1));
     refused("minCount=0", () -> WordPieceLearner.builder().minCount(0));
-    refused("maxAlphabet=0", () -> WordPieceLearner.builder().maxAlphabet(0));
+    IllegalArgumentException cap = assertThrows(IllegalArgumentException.class, () -> AlphabetPolicy.of(1.0, -1));
+    assertTrue(cap.getMessage().contains("maxSize=-1"), cap.getMessage()); // a value type refuses at once
     refused("minPairCount=0", () -> WordPieceLearner.builder().minPairCount(0));
     refused("maxPieceLength=-1", () -> WordPieceLearner.builder().maxPieceLength(-1));
     refused("marker", () -> WordPieceLearner.builder().marker(""));

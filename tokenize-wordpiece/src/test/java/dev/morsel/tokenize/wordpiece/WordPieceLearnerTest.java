@@ -9,6 +9,7 @@ import static org.junit.jupiter.api.Assertions.assertTrue;
 import dev.morsel.tokenize.wordpiece.internal.WordPieceSegmenter;
 import dev.morsel.tokenize.wordpiece.internal.WordPieceSettings;
 import dev.morsel.tokenize.wordpiece.internal.WordPieceTraining;
+import dev.morsel.tokenize.train.AlphabetPolicy;
 import dev.morsel.tokenize.train.PieceCounts;
 import java.util.ArrayList;
 import java.util.HashMap;
@@ -126,11 +127,11 @@ class WordPieceLearnerTest {
   }
 
   @Test
-  void maxAlphabetDropsRareCharactersAndTheirPieces() {
+  void alphabetCapDropsRareCharactersAndTheirPieces() {
     Map<String, Long> m = new HashMap<>();
     m.put("ferry", 5L);
     m.put("fez", 1L);
-    WordPieceSegmenter s = WordPieceTraining.builder().vocabularySize(100).maxAlphabet(4).build().segmenter(PieceCounts.of(m));
+    WordPieceSegmenter s = WordPieceTraining.builder().vocabularySize(100).alphabet(AlphabetPolicy.of(1.0, 4)).build().segmenter(PieceCounts.of(m));
     for (String tok : s.tokens()) {
       assertFalse(tok.contains("z"), tok);
     }
@@ -149,7 +150,7 @@ class WordPieceLearnerTest {
         () -> WordPieceTraining.builder().minCount(10).build().segmenter(ferryCorpus()));
     assertThrows(IllegalArgumentException.class, () -> WordPieceTraining.builder().vocabularySize(1));
     assertThrows(IllegalArgumentException.class, () -> WordPieceTraining.builder().minCount(0));
-    assertThrows(IllegalArgumentException.class, () -> WordPieceTraining.builder().maxAlphabet(0));
+    assertThrows(IllegalArgumentException.class, () -> WordPieceTraining.builder().alphabet(AlphabetPolicy.of(1.0, -1)));
     IllegalArgumentException floor = assertThrows(IllegalArgumentException.class,
         () -> WordPieceTraining.builder().minPairCount(0));
     assertTrue(floor.getMessage().contains("minPairCount=0"), floor.getMessage());
