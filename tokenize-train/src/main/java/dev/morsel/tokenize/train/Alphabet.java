@@ -1,5 +1,6 @@
 package dev.morsel.tokenize.train;
 
+import dev.morsel.tokenize.format.AlphabetRecord;
 import it.unimi.dsi.fastutil.ints.IntOpenHashSet;
 import java.util.Locale;
 
@@ -167,6 +168,11 @@ public final class Alphabet {
       b.append(String.format(Locale.ROOT, "U+%04X ×%,d", cp, leftCounts[r]));
     }
     return b.toString();
+  }
+
+  /** The record of this choice that a model file keeps (section {@code ALPH}; {@code inspect} shows it). */
+  public AlphabetRecord record() {
+    return AlphabetRecord.of(policy.coverage(), maxSize, byteSpelling, kept.length, coverageReached());
   }
 
   @Override

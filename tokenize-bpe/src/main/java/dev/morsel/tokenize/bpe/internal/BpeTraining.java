@@ -182,7 +182,9 @@ public final class BpeTraining implements Learner {
     MergeLearner learner = new MergeLearner(k, words, weights, budget, minPairCount, maxTokenBytes, reserved, listener);
     int[][] merges = learner.run(threads);
     Vocab v = Vocab.build(reserved, merges[0], merges[1], (i, msg) -> new IllegalStateException(msg));
-    return BpeSegmenter.create(v, BpeSegmenter.DEFAULT_CACHE_ENTRIES);
+    BpeSegmenter made = BpeSegmenter.create(v, BpeSegmenter.DEFAULT_CACHE_ENTRIES);
+    made.recordAlphabet(chosen == null ? null : chosen.record());
+    return made;
   }
 
   private static long addWord(byte[] b, long count, long pairTotal, List<byte[]> words, List<Long> weights) {

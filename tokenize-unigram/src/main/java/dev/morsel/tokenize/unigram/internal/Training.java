@@ -305,7 +305,9 @@ public final class Training implements Learner {
       pieces.add(fv[order[i]]);
       scores[i] = fl[order[i]];
     }
-    return UnigramSegmenter.create(reserved, byteSpelling, unknown, pieces, scores);
+    UnigramSegmenter made = UnigramSegmenter.create(reserved, byteSpelling, unknown, pieces, scores);
+    made.recordAlphabet(alphabet.record());
+    return made;
   }
 
   /** Adds {@code w} to the weight of {@code run}, appending it when new; returns the (grown) weights. */

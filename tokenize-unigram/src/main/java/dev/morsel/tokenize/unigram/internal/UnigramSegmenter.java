@@ -2,6 +2,7 @@ package dev.morsel.tokenize.unigram.internal;
 
 import dev.morsel.tokenize.Tokenizer;
 import dev.morsel.tokenize.Tokenizers;
+import dev.morsel.tokenize.format.AlphabetRecord;
 import dev.morsel.tokenize.format.ModelWriter;
 import dev.morsel.tokenize.format.ReviewWriter;
 import dev.morsel.tokenize.format.SectionWriter;
@@ -92,6 +93,9 @@ public final class UnigramSegmenter implements Segmenter {
   private final double[] pieceScores;
   /** Workspaces for calls that bring none (n-best, sampling, direct use); owned by this segmenter. */
   private final WorkspacePool<Scratch> own = WorkspacePool.of(Scratch::new);
+
+  /** What the learner's alphabet policy did, or null (a model made from a token list, or an old file). */
+  private volatile AlphabetRecord alphabetRecord;
 
   // ------------------------------------------------------------------ life-cycle
 
@@ -372,8 +376,35 @@ public final class UnigramSegmenter implements Segmenter {
     out.write(b, 0, b.length);
   }
 
+
+  /**
+   * Records what the alphabet policy did, once, before the segmenter is shared: the model file and
+   * the review text then carry it (section {@code ALPH}, outside the fingerprint). A null record is
+   * ignored.
+   *
+   * @throws IllegalStateException if a record was set already
+   */
+  public void recordAlphabet(AlphabetRecord record) {
+    if (record == null) {
+      return;
+    }
+    if (alphabetRecord != null) {
+      throw new IllegalStateException("the alphabet record is set once");
+    }
+    alphabetRecord = record;
+  }
+
+  /** What the learner's alphabet policy did, or null when the model does not say. */
+  public AlphabetRecord alphabetRecord() {
+    return alphabetRecord;
+  }
+
   @Override
   public void write(ModelWriter out) {
+    AlphabetRecord r = alphabetRecord;
+    if (r != null) {
+      r.write(out);
+    }
     SectionWriter st = out.section(SETTINGS);
     st.putInt(FORMAT_VERSION).putByte(byteSpelling ? 1 : 0).putString(spelling[unknownId]).putInt(reservedCount);
     for (String c : reserved) {
@@ -390,6 +421,10 @@ public final class UnigramSegmenter implements Segmenter {
   @Override
   public void writeReview(ReviewWriter out) {
     UnigramReview.write(out, this);
+    AlphabetRecord r = alphabetRecord;
+    if (r != null) {
+      r.writeReview(out);
+    }
   }
 
   @Override

@@ -4,6 +4,7 @@ import dev.morsel.tokenize.internal.PieceTable;
 import dev.morsel.tokenize.format.ModelFormatException;
 import dev.morsel.tokenize.format.ModelLimits;
 import dev.morsel.tokenize.format.ModelSections;
+import dev.morsel.tokenize.format.AlphabetRecord;
 import dev.morsel.tokenize.format.ModelWriter;
 import dev.morsel.tokenize.format.ReviewDocument;
 import dev.morsel.tokenize.format.ReviewText;
@@ -90,6 +91,9 @@ public final class WordPieceSegmenter implements Segmenter {
   private final PieceTable whole;
   /** Workspaces for calls that bring none; owned by this segmenter. */
   private final WorkspacePool<Matches> own;
+
+  /** What the learner's alphabet policy did, or null (a model made from a token list, or an old file). */
+  private volatile AlphabetRecord alphabetRecord;
 
   // ------------------------------------------------------------------ life-cycle
 
@@ -378,6 +382,10 @@ public final class WordPieceSegmenter implements Segmenter {
   @Override
   public void writeReview(ReviewWriter out) {
     WordPieceReview.write(out, settings, spellings, kinds);
+    AlphabetRecord r = alphabetRecord;
+    if (r != null) {
+      r.writeReview(out);
+    }
   }
 
   /**
@@ -488,8 +496,35 @@ public final class WordPieceSegmenter implements Segmenter {
     out.write(decodePool, s, decodeStart[id + 1] - s);
   }
 
+
+  /**
+   * Records what the alphabet policy did, once, before the segmenter is shared: the model file and
+   * the review text then carry it (section {@code ALPH}, outside the fingerprint). A null record is
+   * ignored.
+   *
+   * @throws IllegalStateException if a record was set already
+   */
+  public void recordAlphabet(AlphabetRecord record) {
+    if (record == null) {
+      return;
+    }
+    if (alphabetRecord != null) {
+      throw new IllegalStateException("the alphabet record is set once");
+    }
+    alphabetRecord = record;
+  }
+
+  /** What the learner's alphabet policy did, or null when the model does not say. */
+  public AlphabetRecord alphabetRecord() {
+    return alphabetRecord;
+  }
+
   @Override
   public void write(ModelWriter out) {
+    AlphabetRecord r = alphabetRecord;
+    if (r != null) {
+      r.write(out);
+    }
     SectionWriter st = out.section(SETTINGS_TAG);
     st.putInt(FORMAT_VERSION);
     st.putString(settings.marker());

@@ -375,6 +375,8 @@ public final class WordPieceTraining implements Learner {
       unitBySpelling.defaultReturnValue(-1);
     }
 
+    private Alphabet chosenAlphabet;
+
     WordPieceSegmenter run() {
       PieceCounts kept = counts.withMinCount(minCount);
       if (kept.isEmpty()) {
@@ -398,7 +400,9 @@ public final class WordPieceTraining implements Learner {
       List<String> vocab = new ArrayList<>(reservedTokens);
       vocab.add(settings.unknownToken());
       vocab.addAll(spelling);
-      return WordPieceSegmenter.of(vocab, reservedTokens.size(), settings);
+      WordPieceSegmenter made = WordPieceSegmenter.of(vocab, reservedTokens.size(), settings);
+      made.recordAlphabet(chosenAlphabet.record());
+      return made;
     }
 
     /**
@@ -446,6 +450,7 @@ public final class WordPieceTraining implements Learner {
 
     private void buildAlphabetAndWords(PieceCounts kept) {
       Alphabet chosen = alphabet.select(kept, derivedAlphabetCap(vocabularySize, reservedTokens.size()), false);
+      chosenAlphabet = chosen;
       listener.alphabet(WordPieceSegmenter.KIND, chosen);
       int keep = chosen.size();
       int[] cps = new int[keep];
