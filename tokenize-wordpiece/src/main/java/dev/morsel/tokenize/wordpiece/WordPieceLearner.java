@@ -40,6 +40,8 @@ public final class WordPieceLearner implements Learner {
   public static final int DEFAULT_VOCABULARY_SIZE = WordPieceTraining.DEFAULT_VOCABULARY_SIZE;
   /** Largest {@code vocabularySize}, in tokens. */
   public static final int MAX_VOCABULARY_SIZE = WordPieceSegmenter.MAX_VOCABULARY_SIZE;
+  /** Default of {@link Builder#byteSpelling}. */
+  public static final boolean DEFAULT_BYTE_SPELLING = WordPieceTraining.DEFAULT_BYTE_SPELLING;
   /** Default {@code minCount}: every piece is used. */
   public static final long DEFAULT_MIN_COUNT = WordPieceTraining.DEFAULT_MIN_COUNT;
   /** Default {@code minPairCount}: no floor (docs/wordpiece.md measures floors of 3 and 10). */
@@ -115,6 +117,7 @@ public final class WordPieceLearner implements Learner {
     private int vocabularySize = DEFAULT_VOCABULARY_SIZE;
     private long minCount = DEFAULT_MIN_COUNT;
     private AlphabetPolicy alphabet = AlphabetPolicy.defaults();
+    private boolean byteSpelling = DEFAULT_BYTE_SPELLING;
     private List<String> reservedTokens = List.of();
     private String marker = DEFAULT_MARKER;
     private String unknownToken = DEFAULT_UNKNOWN_TOKEN;
@@ -124,6 +127,17 @@ public final class WordPieceLearner implements Learner {
     private TrainingListener listener = TrainingListener.NONE;
 
     private Builder() {}
+
+    /**
+     * Byte spelling: whether the vocabulary gets 256 byte tokens (right after the unknown token), so
+     * a character outside the alphabet is spelled with its UTF-8 bytes and its piece keeps its other
+     * characters, instead of the whole piece becoming the unknown token. Default {@value
+     * WordPieceLearner#DEFAULT_BYTE_SPELLING} (measured in docs/guide.md, "Large alphabets").
+     */
+    public Builder byteSpelling(boolean on) {
+      this.byteSpelling = on;
+      return this;
+    }
 
     /** Target vocabulary size in tokens, reserved and unknown tokens included, in {@code [2, MAX_VOCABULARY_SIZE]}. */
     public Builder vocabularySize(int vocabularySize) {
@@ -210,7 +224,7 @@ public final class WordPieceLearner implements Learner {
      */
     public WordPieceLearner build() {
       WordPieceSettings settings = WordPieceSettings.defaults().withMarker(marker).withUnknownToken(unknownToken)
-          .withMaxPieceLength(maxPieceLength);
+          .withMaxPieceLength(maxPieceLength).withByteSpelling(byteSpelling);
       return new WordPieceLearner(WordPieceTraining.builder()
           .vocabularySize(vocabularySize)
           .minCount(minCount)

@@ -77,7 +77,7 @@ final class Mix {
   static Learner learner(String scheme, int size, double coverage, boolean byteSpelling) {
     List<String> options = new ArrayList<>();
     options.add(AlphabetPolicy.COVERAGE_OPTION + "=" + coverage);
-    if (scheme.equals("unigram")) {
+    if (!scheme.equals("bpe")) {
       options.add("byte-spelling=" + byteSpelling);
     }
     return Learners.learner(scheme, LearnerSettings.of(size).withThreads(2), options.toArray(new String[0]));

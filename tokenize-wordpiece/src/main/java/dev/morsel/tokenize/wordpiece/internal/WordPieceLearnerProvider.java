@@ -15,6 +15,7 @@ import java.util.Locale;
 public final class WordPieceLearnerProvider implements LearnerProvider {
   static final String MAX_ALPHABET = AlphabetPolicy.MAX_SIZE_OPTION;
   static final String MIN_PAIR_COUNT = "min-pair-count";
+  static final String BYTE_SPELLING = "byte-spelling";
   static final String SCORE = "score";
   static final String MARKER = "marker";
   static final String UNKNOWN_TOKEN = "unknown-token";
@@ -24,7 +25,10 @@ public final class WordPieceLearnerProvider implements LearnerProvider {
       name(WordPieceTraining.Score.PAIR_RATIO));
 
   private static List<LearnerOption> declared() {
-    List<LearnerOption> all = new java.util.ArrayList<>(AlphabetPolicy.options(
+    List<LearnerOption> all = new java.util.ArrayList<>();
+    all.add(LearnerOption.of(BYTE_SPELLING, Boolean.toString(WordPieceTraining.DEFAULT_BYTE_SPELLING),
+        "characters outside the alphabet are spelled with byte tokens (UTF-8), not the unknown token for their piece"));
+    all.addAll(AlphabetPolicy.options(
         "a quarter of the ids left after the reserved and unknown tokens (each character has two forms)"));
     all.addAll(MORE);
     return List.copyOf(all);
@@ -61,14 +65,16 @@ public final class WordPieceLearnerProvider implements LearnerProvider {
   public Learner learner(LearnerSettings settings, LearnerOptions options) {
     WordPieceSettings wp;
     try {
-      wp = WordPieceSettings.defaults().withMarker(options.string(MARKER)).withUnknownToken(options.string(UNKNOWN_TOKEN));
+      wp = WordPieceSettings.defaults().withMarker(options.string(MARKER)).withUnknownToken(options.string(UNKNOWN_TOKEN))
+          .withByteSpelling(options.booleanValue(BYTE_SPELLING));
     } catch (IllegalArgumentException e) {
       throw new IllegalArgumentException(scheme() + " options: " + e.getMessage(), e);
     }
     String score = options.choice(SCORE, SCORES);
     AlphabetPolicy policy = AlphabetPolicy.fromOptions(options);
     boolean auto = policy.maxSize() == AlphabetPolicy.DERIVED_MAX_SIZE;
-    int alphabet = auto ? WordPieceTraining.derivedAlphabetCap(settings.vocabularySize(), settings.reservedTokens().size())
+    int alphabet = auto ? WordPieceTraining.derivedAlphabetCap(settings.vocabularySize(),
+        settings.reservedTokens().size() + (wp.byteSpelling() ? 256 : 0))
         : policy.maxSize();
     Learner learner = WordPieceTraining.builder()
         .vocabularySize(settings.vocabularySize())

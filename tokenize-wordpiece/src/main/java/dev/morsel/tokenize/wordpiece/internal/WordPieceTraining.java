@@ -102,6 +102,8 @@ import java.util.Set;
 public final class WordPieceTraining implements Learner {
   /** Default {@code vocabularySize}, in tokens. */
   public static final int DEFAULT_VOCABULARY_SIZE = 8000;
+  /** Default byte spelling of learned models (docs/guide.md, "Large alphabets", measures it). */
+  public static final boolean DEFAULT_BYTE_SPELLING = true;
   /** Default {@code minCount}: every piece is used. */
   public static final long DEFAULT_MIN_COUNT = 1;
 
@@ -310,8 +312,8 @@ public final class WordPieceTraining implements Learner {
   }
 
   /**
-   * The alphabet cap a derived {@link AlphabetPolicy#maxSize()} stands for: a quarter of the ids left
-   * after the reserved and unknown tokens (each character takes two ids, so the alphabet fills at
+   * The alphabet cap a derived {@link AlphabetPolicy#maxSize()} stands for ({@code reservedCount}
+   * counting the byte tokens too): a quarter of the ids left after the reserved and unknown tokens (each character takes two ids, so the alphabet fills at
    * most half of the vocabulary), at least 1.
    */
   public static int derivedAlphabetCap(int vocabularySize, int reservedCount) {
@@ -372,6 +374,11 @@ public final class WordPieceTraining implements Learner {
       this.counts = counts;
       reserved.addAll(reservedTokens);
       reserved.add(settings.unknownToken());
+      if (settings.byteSpelling()) {
+        for (int b = 0; b < 256; b++) {
+          reserved.add(WordPieceSettings.byteTokenText(b)); // a merge never makes a byte token's spelling
+        }
+      }
       unitBySpelling.defaultReturnValue(-1);
     }
 
@@ -385,11 +392,12 @@ public final class WordPieceTraining implements Learner {
       }
       kept = withinLimits(kept);
       buildAlphabetAndWords(kept);
-      int reservedCount = reservedTokens.size() + 1;
+      int reservedCount = reservedTokens.size() + 1 + (settings.byteSpelling() ? 256 : 0);
       int initial = reservedCount + spelling.size();
       if (vocabularySize < initial) {
         throw new IllegalArgumentException("vocabularySize=" + vocabularySize + " is smaller than the alphabet ("
-            + spelling.size() + " units) plus the reserved tokens (" + reservedCount + "); raise vocabularySize or lower"
+            + spelling.size() + " units) plus the reserved, unknown and byte tokens (" + reservedCount + "); raise"
+            + " vocabularySize or lower"
             + " the alphabet's maxSize or coverage");
       }
       for (int u = 0; u < spelling.size(); u++) {
@@ -399,6 +407,11 @@ public final class WordPieceTraining implements Learner {
       merge(initial);
       List<String> vocab = new ArrayList<>(reservedTokens);
       vocab.add(settings.unknownToken());
+      if (settings.byteSpelling()) {
+        for (int b = 0; b < 256; b++) {
+          vocab.add(WordPieceSettings.byteTokenText(b));
+        }
+      }
       vocab.addAll(spelling);
       WordPieceSegmenter made = WordPieceSegmenter.of(vocab, reservedTokens.size(), settings);
       made.recordAlphabet(chosenAlphabet.record());
@@ -449,7 +462,8 @@ public final class WordPieceTraining implements Learner {
     }
 
     private void buildAlphabetAndWords(PieceCounts kept) {
-      Alphabet chosen = alphabet.select(kept, derivedAlphabetCap(vocabularySize, reservedTokens.size()), false);
+      Alphabet chosen = alphabet.select(kept, derivedAlphabetCap(vocabularySize,
+          reservedTokens.size() + (settings.byteSpelling() ? 256 : 0)), settings.byteSpelling());
       chosenAlphabet = chosen;
       listener.alphabet(WordPieceSegmenter.KIND, chosen);
       int keep = chosen.size();
