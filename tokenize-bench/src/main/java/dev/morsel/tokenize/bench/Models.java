@@ -88,7 +88,7 @@ public final class Models {
   }
 
 
-  /** The 32k unigram model file (byte fallback on), trained on first use. */
+  /** The 32k unigram model file (byte spelling on), trained on first use. */
   public static Path unigramFile() {
     return cached("unigram-32k.morsel", () -> {
       long t0 = System.nanoTime();

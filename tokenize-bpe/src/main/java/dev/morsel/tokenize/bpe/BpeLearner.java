@@ -154,7 +154,7 @@ public final class BpeLearner implements Learner {
 
     /**
      * How the alphabet is chosen (default {@link dev.morsel.tokenize.train.AlphabetPolicy#defaults()};
-     * a derived cap is half the ids above the reserved and byte tokens): merges never join the bytes
+     * a derived cap is no cap, the coverage alone decides): merges never join the bytes
      * of a character left out, so no id is spent on rare characters, which encode as byte tokens.
      * The choice is reported to {@link TrainingListener#alphabet}.
      */

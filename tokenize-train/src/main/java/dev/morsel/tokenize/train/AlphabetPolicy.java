@@ -107,34 +107,29 @@ public final class AlphabetPolicy {
    * @param derivedMaxSize the cap to use when {@link #maxSize()} is {@link #DERIVED_MAX_SIZE}, at least 1
    * @param byteSpelling whether the learner spells the characters left out with byte tokens (recorded
    *     in the result for its report)
-   * @throws IllegalArgumentException if {@code derivedMaxSize} is below 1, or the count-weighted
-   *     number of characters overflows a long
+   * @throws IllegalArgumentException if {@code derivedMaxSize} is below 1 (occurrence counts beyond
+   *     {@code Long.MAX_VALUE} saturate there)
    */
   public Alphabet select(PieceCounts counts, int derivedMaxSize, boolean byteSpelling) {
     if (derivedMaxSize < 1) {
       throw new IllegalArgumentException("derivedMaxSize=" + derivedMaxSize + " must be at least 1");
     }
     Int2LongOpenHashMap freq = new Int2LongOpenHashMap();
+    long total = 0;
     for (int i = 0, n = counts.size(); i < n; i++) {
       String p = counts.piece(i);
       long w = counts.count(i);
       for (int k = 0; k < p.length(); ) {
         int cp = p.codePointAt(k);
-        freq.addTo(cp, w);
+        freq.put(cp, saturatedSum(freq.get(cp), w));
+        total = saturatedSum(total, w);
         k += Character.charCount(cp);
       }
     }
     int[] cps = freq.keySet().toIntArray();
     long[] occ = new long[cps.length];
-    long total = 0;
     for (int i = 0; i < cps.length; i++) {
       occ[i] = freq.get(cps[i]);
-      try {
-        total = Math.addExact(total, occ[i]);
-      } catch (ArithmeticException e) {
-        throw new IllegalArgumentException("piece counts are too large: the count-weighted number of characters"
-            + " exceeds Long.MAX_VALUE; divide the counts by a common factor", e);
-      }
     }
     int[] order = new int[cps.length];
     for (int i = 0; i < order.length; i++) {
@@ -192,7 +187,16 @@ public final class AlphabetPolicy {
     return of(coverage, maxSize);
   }
 
-  private static double checkCoverage(double coverage) {
+  /**
+   * {@code a + b} for non-negative counts, or {@link Long#MAX_VALUE} where it would overflow: counts
+   * that large are refused by each learner's own overflow check, which knows what it must fit.
+   */
+  private static long saturatedSum(long a, long b) {
+    long r = a + b;
+    return r < 0 ? Long.MAX_VALUE : r;
+  }
+
+    private static double checkCoverage(double coverage) {
     if (!(coverage > 0 && coverage <= 1)) {
       throw new IllegalArgumentException("coverage=" + coverage + " is outside (0, 1]");
     }

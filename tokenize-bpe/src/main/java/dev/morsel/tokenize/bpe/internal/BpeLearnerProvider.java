@@ -26,7 +26,7 @@ public final class BpeLearnerProvider implements LearnerProvider {
 
   private static List<LearnerOption> declared() {
     List<LearnerOption> all = new java.util.ArrayList<>(AlphabetPolicy.options(
-        "half the ids above the reserved and byte tokens; merges never join bytes of characters left out"));
+        "no cap (the coverage decides); merges never join bytes of characters left out"));
     all.addAll(MORE);
     return List.copyOf(all);
   }

@@ -24,7 +24,7 @@ import java.util.Objects;
  * already a token, or its display spelling equals a reserved spelling.
  *
  * <p>Alphabet: an {@link AlphabetPolicy} chooses the characters whose bytes merges may join (a
- * derived cap: half the ids above the reserved and byte tokens). Each piece is cut at the characters
+ * derived cap is no cap: the coverage alone decides). Each piece is cut at the characters
  * left out, and only the runs between them are learned from, so no merge, and no id, is spent on a
  * rare character: at encode time its bytes stay byte tokens (or join by merges learned from other
  * characters that share them). The choice goes to {@link TrainingListener#alphabet}.
@@ -137,8 +137,8 @@ public final class BpeTraining implements Learner {
       for (int i = 0; i < wc.length; i++) {
         wc[i] = withinCounts.get(i);
       }
-      chosen = alphabet.select(PieceCounts.of(within.toArray(new String[0]), wc),
-          Math.max(1, (vocabularySize - reserved.size() - 256) / 2), true);
+      // derived cap: none; an alphabet character costs an id only when a merge that assembles it wins
+      chosen = alphabet.select(PieceCounts.of(within.toArray(new String[0]), wc), Integer.MAX_VALUE, true);
       listener.alphabet(BpeSegmenter.KIND, chosen);
     }
     long pairTotal = 0;
