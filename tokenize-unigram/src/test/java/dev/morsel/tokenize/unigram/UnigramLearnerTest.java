@@ -6,6 +6,7 @@ import static org.junit.jupiter.api.Assertions.assertThrows;
 import static org.junit.jupiter.api.Assertions.assertTrue;
 
 import dev.morsel.tokenize.Tokenizer;
+import dev.morsel.tokenize.train.AlphabetPolicy;
 import dev.morsel.tokenize.train.PieceCounts;
 import dev.morsel.tokenize.unigram.internal.UnigramSegmenter;
 import java.util.ArrayList;
@@ -93,7 +94,8 @@ class UnigramLearnerTest {
   void badInputIsRejected() {
     assertThrows(IllegalArgumentException.class, () -> small().build().train(PieceCounts.empty()));
     IllegalArgumentException e = assertThrows(IllegalArgumentException.class,
-        () -> UnigramLearner.builder().vocabularySize(10).byteSpelling(false).build().train(corpus(1, 50)));
+        () -> UnigramLearner.builder().vocabularySize(10).byteSpelling(false).alphabet(AlphabetPolicy.of(1.0, 100))
+            .build().train(corpus(1, 50)));
     assertTrue(e.getMessage().contains("vocabularySize=10") && e.getMessage().contains("alphabet"), e.getMessage());
     e = assertThrows(IllegalArgumentException.class,
         () -> UnigramLearner.builder().vocabularySize(200).byteSpelling(true).build());
