@@ -101,7 +101,8 @@ class UnigramLearnerTest {
         () -> UnigramLearner.builder().vocabularySize(200).byteSpelling(true).build());
     assertTrue(e.getMessage().contains("256 byte tokens"), "refused when built, before any learning: " + e.getMessage());
     e = assertThrows(IllegalArgumentException.class,
-        () -> UnigramLearner.builder().vocabularySize(262).build().train(corpus(1, 50)));
+        () -> UnigramLearner.builder().vocabularySize(262).alphabet(AlphabetPolicy.of(1.0, 100)).build()
+            .train(corpus(1, 50)));
     assertTrue(e.getMessage().contains("256 byte tokens") && e.getMessage().contains("alphabet"), e.getMessage());
     assertThrows(IllegalArgumentException.class, () -> UnigramLearner.builder().keepShare(1.0).build());
     assertThrows(IllegalArgumentException.class, () -> UnigramLearner.builder().keepShare(0).build());
