@@ -40,8 +40,8 @@ public final class WordPieceLearner implements Learner {
   public static final int DEFAULT_VOCABULARY_SIZE = WordPieceTraining.DEFAULT_VOCABULARY_SIZE;
   /** Largest {@code vocabularySize}, in tokens. */
   public static final int MAX_VOCABULARY_SIZE = WordPieceSegmenter.MAX_VOCABULARY_SIZE;
-  /** Default of {@link Builder#byteSpelling}. */
-  public static final boolean DEFAULT_BYTE_SPELLING = WordPieceTraining.DEFAULT_BYTE_SPELLING;
+  /** Byte spelling is on by default from this {@code vocabularySize} up (256 byte tokens take at most an eighth). */
+  public static final int BYTE_SPELLING_FROM = WordPieceTraining.BYTE_SPELLING_FROM;
   /** Default {@code minCount}: every piece is used. */
   public static final long DEFAULT_MIN_COUNT = WordPieceTraining.DEFAULT_MIN_COUNT;
   /** Default {@code minPairCount}: no floor (docs/wordpiece.md measures floors of 3 and 10). */
@@ -117,7 +117,7 @@ public final class WordPieceLearner implements Learner {
     private int vocabularySize = DEFAULT_VOCABULARY_SIZE;
     private long minCount = DEFAULT_MIN_COUNT;
     private AlphabetPolicy alphabet = AlphabetPolicy.defaults();
-    private boolean byteSpelling = DEFAULT_BYTE_SPELLING;
+    private Boolean byteSpelling; // null: by the vocabulary size
     private List<String> reservedTokens = List.of();
     private String marker = DEFAULT_MARKER;
     private String unknownToken = DEFAULT_UNKNOWN_TOKEN;
@@ -131,8 +131,8 @@ public final class WordPieceLearner implements Learner {
     /**
      * Byte spelling: whether the vocabulary gets 256 byte tokens (right after the unknown token), so
      * a character outside the alphabet is spelled with its UTF-8 bytes and its piece keeps its other
-     * characters, instead of the whole piece becoming the unknown token. Default {@value
-     * WordPieceLearner#DEFAULT_BYTE_SPELLING} (measured in docs/guide.md, "Large alphabets").
+     * characters, instead of the whole piece becoming the unknown token. Default: on from {@value
+     * WordPieceLearner#BYTE_SPELLING_FROM} ids up, off below (measured in docs/guide.md, "Large alphabets").
      */
     public Builder byteSpelling(boolean on) {
       this.byteSpelling = on;
@@ -224,7 +224,8 @@ public final class WordPieceLearner implements Learner {
      */
     public WordPieceLearner build() {
       WordPieceSettings settings = WordPieceSettings.defaults().withMarker(marker).withUnknownToken(unknownToken)
-          .withMaxPieceLength(maxPieceLength).withByteSpelling(byteSpelling);
+          .withMaxPieceLength(maxPieceLength).withByteSpelling(byteSpelling != null ? byteSpelling
+              : WordPieceTraining.defaultByteSpelling(vocabularySize));
       return new WordPieceLearner(WordPieceTraining.builder()
           .vocabularySize(vocabularySize)
           .minCount(minCount)

@@ -97,16 +97,16 @@ class WordPieceApiTest {
     assertTrue(WordPiece.maxPieceLength(learned) >= run.length(), "the derived limit: " + WordPiece.maxPieceLength(learned));
     Tokenizer tight = WordPiece.withMaxPieceLength(learned, 100);
     assertEquals(100, WordPiece.maxPieceLength(tight));
-    // byte spelling (the default) cuts a piece over the limit into chunks of at most the limit
-    Tokens chunked = tight.encode(run);
-    assertFalse(Arrays.stream(chunked.ids()).anyMatch(id -> id == tight.unknownId()), chunked.toString());
-    assertEquals(run, tight.decode(chunked.ids()));
-    // without byte spelling the piece is one unknown token
-    Tokenizer tightNoBytes = WordPiece.withMaxPieceLength(
-        WordPieceLearner.builder().vocabularySize(2000).byteSpelling(false).build().train(counts), 100);
-    Tokens unknown = tightNoBytes.encode(run);
+    // below 2,048 ids byte spelling is off by default: the piece over the limit is one unknown token
+    Tokens unknown = tight.encode(run);
     assertEquals(1, unknown.size());
-    assertEquals(tightNoBytes.unknownId(), unknown.id(0));
+    assertEquals(tight.unknownId(), unknown.id(0));
+    // with byte spelling the piece is cut into chunks of at most the limit instead
+    Tokenizer tightBytes = WordPiece.withMaxPieceLength(
+        WordPieceLearner.builder().vocabularySize(2000).byteSpelling(true).build().train(counts), 100);
+    Tokens chunked = tightBytes.encode(run);
+    assertFalse(Arrays.stream(chunked.ids()).anyMatch(id -> id == tightBytes.unknownId()), chunked.toString());
+    assertEquals(run, tightBytes.decode(chunked.ids()));
     Tokenizer wide = WordPiece.withMaxPieceLength(tight, 1000);
     assertEquals(1000, WordPiece.maxPieceLength(wide));
     Tokens segmented = wide.encode(run);

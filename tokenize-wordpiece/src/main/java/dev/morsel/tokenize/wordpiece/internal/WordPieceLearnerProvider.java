@@ -26,8 +26,9 @@ public final class WordPieceLearnerProvider implements LearnerProvider {
 
   private static List<LearnerOption> declared() {
     List<LearnerOption> all = new java.util.ArrayList<>();
-    all.add(LearnerOption.of(BYTE_SPELLING, Boolean.toString(WordPieceTraining.DEFAULT_BYTE_SPELLING),
-        "characters outside the alphabet are spelled with byte tokens (UTF-8), not the unknown token for their piece"));
+    all.add(LearnerOption.of(BYTE_SPELLING, AUTO,
+        "characters outside the alphabet are spelled with byte tokens (UTF-8), not the unknown token for their piece;"
+            + " auto: on from " + WordPieceTraining.BYTE_SPELLING_FROM + " ids"));
     all.addAll(AlphabetPolicy.options(
         "a quarter of the ids left after the reserved and unknown tokens (each character has two forms)"));
     all.addAll(MORE);
@@ -66,7 +67,8 @@ public final class WordPieceLearnerProvider implements LearnerProvider {
     WordPieceSettings wp;
     try {
       wp = WordPieceSettings.defaults().withMarker(options.string(MARKER)).withUnknownToken(options.string(UNKNOWN_TOKEN))
-          .withByteSpelling(options.booleanValue(BYTE_SPELLING));
+          .withByteSpelling(options.string(BYTE_SPELLING).equals(AUTO)
+              ? WordPieceTraining.defaultByteSpelling(settings.vocabularySize()) : options.booleanValue(BYTE_SPELLING));
     } catch (IllegalArgumentException e) {
       throw new IllegalArgumentException(scheme() + " options: " + e.getMessage(), e);
     }

@@ -102,8 +102,18 @@ import java.util.Set;
 public final class WordPieceTraining implements Learner {
   /** Default {@code vocabularySize}, in tokens. */
   public static final int DEFAULT_VOCABULARY_SIZE = 8000;
-  /** Default byte spelling of learned models (docs/guide.md, "Large alphabets", measures it). */
-  public static final boolean DEFAULT_BYTE_SPELLING = true;
+  /**
+   * Byte spelling is on by default from this vocabulary size up, in ids: there the 256 byte tokens
+   * take at most an eighth of the vocabulary (reason: at 8,000 ids byte spelling removed every
+   * unknown character for under 1 % more tokens, docs/guide.md "Large alphabets"; at the few hundred
+   * ids of small models they would take most of it).
+   */
+  public static final int BYTE_SPELLING_FROM = 2048;
+
+  /** The default byte spelling at {@code vocabularySize}: on from {@link #BYTE_SPELLING_FROM} ids. */
+  public static boolean defaultByteSpelling(int vocabularySize) {
+    return vocabularySize >= BYTE_SPELLING_FROM;
+  }
   /** Default {@code minCount}: every piece is used. */
   public static final long DEFAULT_MIN_COUNT = 1;
 
@@ -265,6 +275,12 @@ public final class WordPieceTraining implements Learner {
      * @throws IllegalArgumentException if a reserved token equals the unknown spelling
      */
     public WordPieceTraining build() {
+      long floor = (long) reservedTokens.size() + 1 + 256 + 1;
+      if (settings.byteSpelling() && vocabularySize < floor) {
+        throw new IllegalArgumentException("vocabularySize=" + vocabularySize + " is below " + floor + " ("
+            + reservedTokens.size() + " reserved tokens, the unknown token, 256 byte tokens and one more): too small"
+            + " for byte spelling, turn it off (byteSpelling(false), option byte-spelling=false)");
+      }
       int clash = reservedTokens.indexOf(settings.unknownToken());
       if (clash >= 0) {
         throw new IllegalArgumentException("reservedTokens[" + clash + "] '" + settings.unknownToken()
