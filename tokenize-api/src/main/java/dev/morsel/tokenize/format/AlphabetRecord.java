@@ -161,8 +161,9 @@ public final class AlphabetRecord {
 
   /** One line for people, as {@code inspect} prints it. */
   public String summary() {
-    return String.format(Locale.ROOT, "%,d characters, coverage %.6f reached (asked %s, max %,d), %s", size,
-        coverageReached, Double.toString(coverage), maxSize,
+    return String.format(Locale.ROOT, "%,d characters, coverage %.6f reached (asked %s, %s), %s", size,
+        coverageReached, Double.toString(coverage),
+        maxSize == Integer.MAX_VALUE ? "no cap" : String.format(Locale.ROOT, "max %,d", maxSize),
         byteSpelling ? "others spelled with byte tokens" : "others become the unknown token");
   }
 

@@ -132,13 +132,13 @@ class GuideExamplesTest {
     Tokens drawn = Unigram.sample(unigram, "Is the 07:40 from Oskevik late?", 0.2, 7L);    // same seed, same draw
     // @end region="by-name"
     // @start region="alphabet"
-    Tokenizer t = WordPieceLearner.builder().vocabularySize(8000)
+    Tokenizer mixed = WordPieceLearner.builder().vocabularySize(8000)
         .alphabet(AlphabetPolicy.defaults().withCoverage(0.999).withMaxSize(3000)).byteSpelling(true)
         .build().train(counts);
     // @end region="alphabet"
-    assertEquals("\u298300\u2984", t.token(t.unknownId() + 1), "byte token 0 right after the unknown token");
+    assertEquals("\u298300\u2984", mixed.token(mixed.unknownId() + 1), "byte token 0 right after the unknown token");
     String rare = "Ωμέγα 渡轮";
-    assertEquals(t.pipeline().normalization().apply(rare).text(), t.decode(t.encode(rare).ids()),
+    assertEquals(mixed.pipeline().normalization().apply(rare).text(), mixed.decode(mixed.encode(rare).ids()),
         "characters outside the alphabet are spelled with byte tokens");
     assertEquals(Pipeline.defaults(), wordpiece.pipeline(), "the counted pipeline");
     assertEquals(3, best.size());

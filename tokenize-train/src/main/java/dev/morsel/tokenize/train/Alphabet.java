@@ -137,8 +137,9 @@ public final class Alphabet {
   public String summary() {
     StringBuilder b = new StringBuilder();
     b.append(String.format(Locale.ROOT, "alphabet %,d characters, coverage %.6f of %,d occurrences (policy coverage %s,"
-        + " max %,d); %,d left out (%,d occurrences)", kept.length, coverageReached(), total,
-        Double.toString(policy.coverage()), maxSize, left.length, leftOutOccurrences()));
+        + " %s); %,d left out (%,d occurrences)", kept.length, coverageReached(), total,
+        Double.toString(policy.coverage()), maxSize == Integer.MAX_VALUE ? "no cap" : String.format(Locale.ROOT,
+            "max %,d", maxSize), left.length, leftOutOccurrences()));
     if (left.length > 0) {
       b.append(byteSpelling ? ", spelled with byte tokens" : ", encoded as the unknown token");
       b.append(": ").append(leftOut(SUMMARY_LEFT_OUT));
