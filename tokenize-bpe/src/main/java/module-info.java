@@ -1,7 +1,7 @@
 /**
  * Morsel's byte-level BPE: {@link dev.morsel.tokenize.bpe.BpeLearner} learns a vocabulary into a
  * tokenizer, {@link dev.morsel.tokenize.bpe.Bpe} reaches a BPE tokenizer's merges, cache and
- * BPE-dropout. Models of kind {@code "bpe"} load through the api's loader; the learner is found by
+ * BPE-dropout. Models of scheme {@code "bpe"} load through the api's loader; the learner is found by
  * scheme name through {@link dev.morsel.tokenize.train.Learners}. Implementations live in a package
  * that is not exported.
  */

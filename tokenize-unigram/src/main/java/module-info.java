@@ -2,7 +2,7 @@
  * Morsel's unigram language model: {@link dev.morsel.tokenize.unigram.UnigramLearner} learns a
  * vocabulary (EM with likelihood-based pruning) into a tokenizer that encodes with Viterbi, and
  * {@link dev.morsel.tokenize.unigram.Unigram} reaches a unigram tokenizer's n-best lists and sampling
- * for subword regularization. Models of kind {@code "unigram"} load through the api's loader; the
+ * for subword regularization. Models of scheme {@code "unigram"} load through the api's loader; the
  * learner is found by scheme name through {@link dev.morsel.tokenize.train.Learners}.
  * Implementations live in a package that is not exported.
  */

@@ -33,10 +33,10 @@ import java.util.concurrent.ForkJoinPool;
  */
 final class PipelineTokenizer implements Tokenizer {
   /** Model section tags written by the api (see docs/format.md). */
-  static final String KIND = ModelFile.TAG_KIND;
-  static final String PIPE = ModelFile.TAG_PIPE;
+  static final String SCHEME = ModelFile.TAG_SCHEME;
+  static final String PIPE = ModelFile.TAG_PIPELINE;
   static final String RSRV = ModelFile.TAG_RESERVED;
-  static final String FRAM = ModelFile.TAG_FRAM;
+  static final String FRAM = ModelFile.TAG_FRAMING;
 
   // ------------------------------------------------------------------ configuration
 
@@ -489,8 +489,8 @@ final class PipelineTokenizer implements Tokenizer {
   }
 
   @Override
-  public String kind() {
-    return segmenter.kind();
+  public String scheme() {
+    return segmenter.scheme();
   }
 
   @Override
@@ -532,7 +532,7 @@ final class PipelineTokenizer implements Tokenizer {
 
   ModelWriter sections() {
     ModelWriter w = new ModelWriter();
-    w.section(KIND).putString(segmenter.kind());
+    w.section(SCHEME).putString(segmenter.scheme());
     w.section(PIPE).putString(pipeline.normalization().spec()).putString(pipeline.splitting().spec())
         .putString(Pipeline.unicodeVersion());
     SectionWriter c = w.section(RSRV);
@@ -585,7 +585,7 @@ final class PipelineTokenizer implements Tokenizer {
 
   @Override
   public String toString() {
-    return "Tokenizer[kind=" + kind() + ", vocabulary=" + vocabularySize() + ", " + pipeline + ", reserved tokens="
+    return "Tokenizer[scheme=" + scheme() + ", vocabulary=" + vocabularySize() + ", " + pipeline + ", reserved tokens="
         + reserved.size() + "]";
   }
 

@@ -44,7 +44,7 @@ final class Review {
   /** Writes the review text of {@code t}, then {@code metadata} (key to value, in order) if not null. */
   static void write(PipelineTokenizer t, Map<String, String> metadata, Appendable out) {
     Segmenter segmenter = t.segmenter();
-    ReviewWriter w = ReviewWriter.start(out, segmenter.kind());
+    ReviewWriter w = ReviewWriter.start(out, segmenter.scheme());
     w.note("model fingerprint " + t.fingerprint());
     w.section(PIPELINE, PIPELINE_COLUMNS);
     w.row("normalization", ReviewText.escape(t.pipeline().normalization().spec()));
@@ -71,10 +71,10 @@ final class Review {
 
   /** The metadata entries of section META, in stored order; null without that section. */
   static Map<String, String> metadata(ModelSections sections) {
-    if (!sections.has(ModelFile.TAG_META)) {
+    if (!sections.has(ModelFile.TAG_METADATA)) {
       return null;
     }
-    SectionReader r = sections.reader(ModelFile.TAG_META);
+    SectionReader r = sections.reader(ModelFile.TAG_METADATA);
     int n = r.getCount("metadata entries", MAX_METADATA, 8);
     Map<String, String> out = new LinkedHashMap<>();
     for (int i = 0; i < n; i++) {
@@ -194,7 +194,7 @@ final class Review {
     }
     ModelWriter w = t.sections();
     if (metadata != null) {
-      SectionWriter m = w.section(ModelFile.TAG_META);
+      SectionWriter m = w.section(ModelFile.TAG_METADATA);
       m.putInt(metadata.size());
       metadata.forEach((k, v) -> m.putString(k).putString(v));
     }

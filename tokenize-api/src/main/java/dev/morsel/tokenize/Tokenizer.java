@@ -182,8 +182,8 @@ public interface Tokenizer {
   /** The id of the unknown token, or -1 if the segmenter never produces one. */
   int unknownId();
 
-  /** The segmenter kind, for example {@code "bpe"}. */
-  String kind();
+  /** The scheme, for example {@code "bpe"}. */
+  String scheme();
 
   /** The registered reserved tokens. */
   ReservedTokens reservedTokens();

@@ -150,16 +150,16 @@ public final class Tokenizers {
   }
 
   private static byte[] modelFromReview(ReviewDocument doc) {
-    SegmenterProvider provider = providers().get(doc.kind());
+    SegmenterProvider provider = providers().get(doc.scheme());
     if (provider == null) {
-      throw (doc.fail("no segmenter of kind '" + doc.kind()
+      throw (doc.fail("no segmenter of scheme '" + doc.scheme()
           + "' is on the class path (found: " + providers().keySet() + "); add the module that provides it"));
     }
     return Review.modelFile(doc, provider);
   }
 
   /** The kinds of segmenter found on the class path or module path. */
-  public static Set<String> kinds() {
+  public static Set<String> schemes() {
     return Collections.unmodifiableSet(providers().keySet());
   }
 
@@ -172,14 +172,14 @@ public final class Tokenizers {
     if (p == null) {
       Map<String, SegmenterProvider> found = new TreeMap<>();
       for (SegmenterProvider provider : ServiceLoader.load(SegmenterProvider.class, Tokenizers.class.getClassLoader())) {
-        found.putIfAbsent(provider.kind(), provider);
+        found.putIfAbsent(provider.scheme(), provider);
       }
       if (found.isEmpty()) {
         // a thread context loader may see providers the api's own loader does not (application servers, notebooks)
         ClassLoader ctx = Thread.currentThread().getContextClassLoader();
         if (ctx != null) {
           for (SegmenterProvider provider : ServiceLoader.load(SegmenterProvider.class, ctx)) {
-            found.putIfAbsent(provider.kind(), provider);
+            found.putIfAbsent(provider.scheme(), provider);
           }
         }
       }
@@ -223,7 +223,7 @@ public final class Tokenizers {
    * as a cache size, before assembling a tokenizer with {@link #of(Pipeline, Segmenter)}), with
    * {@link ModelLimits#defaults()}.
    *
-   * @throws ModelFormatException if the kind is unknown or the segmenter's sections are malformed
+   * @throws ModelFormatException if the scheme is unknown or the segmenter's sections are malformed
    */
   public static Segmenter segmenterOf(ModelSections sections) {
     return segmenterOf(sections, ModelLimits.defaults());
@@ -232,7 +232,7 @@ public final class Tokenizers {
   /**
    * As {@link #segmenterOf(ModelSections)}, with every count and entry checked against {@code limits}.
    *
-   * @throws ModelFormatException if the kind is unknown, the segmenter's sections are malformed or a
+   * @throws ModelFormatException if the scheme is unknown, the segmenter's sections are malformed or a
    *     limit is exceeded
    */
   public static Segmenter segmenterOf(ModelSections sections, ModelLimits limits) {
@@ -241,12 +241,12 @@ public final class Tokenizers {
   }
 
   private static SegmenterProvider provider(ModelSections sections) {
-    SectionReader k = sections.reader(PipelineTokenizer.KIND);
-    String kind = k.getString("segmenter kind");
+    SectionReader k = sections.reader(PipelineTokenizer.SCHEME);
+    String scheme = k.getString("scheme");
     k.expectEnd();
-    SegmenterProvider provider = providers().get(kind);
+    SegmenterProvider provider = providers().get(scheme);
     if (provider == null) {
-      throw new ModelFormatException(PipelineTokenizer.KIND, "no segmenter of kind '" + kind
+      throw new ModelFormatException(PipelineTokenizer.SCHEME, "no segmenter of scheme '" + scheme
           + "' is on the class path (found: " + providers().keySet() + "); add the module that provides it");
     }
     return provider;
@@ -309,7 +309,7 @@ public final class Tokenizers {
       throw new ModelFormatException(PipelineTokenizer.RSRV, e.getMessage(), e);
     }
     if (!sameAs(own, ids, spellings)) { // the usual case is one list twice; otherwise they must agree
-      checkAgree(reserved, own, segmenter.kind(), sections);
+      checkAgree(reserved, own, segmenter.scheme(), sections);
     }
     try {
       // with another Unicode version allowed, the fingerprint is this runtime's (the file's no longer proves encodings)
@@ -338,7 +338,7 @@ public final class Tokenizers {
    * fewer tokens than the segmenter's own, or bind spellings to ordinary ids, but an id or a spelling
    * that both lists hold must be bound the same way in both. Linear in the two lists.
    */
-  private static void checkAgree(ReservedTokens api, List<String> own, String kind, ModelSections sections) {
+  private static void checkAgree(ReservedTokens api, List<String> own, String scheme, ModelSections sections) {
     if (own.isEmpty() || api.isEmpty()) {
       return;
     }
@@ -361,12 +361,12 @@ public final class Tokenizers {
             ? "id " + id + " is '" + ownSpelling + "'"
             : "'" + spelling + "' has id " + ownId;
         throw new ModelFormatException(PipelineTokenizer.RSRV, "reserved token '" + spelling + "' has id " + id
-            + " in section " + PipelineTokenizer.RSRV + ", but in the " + kind + " segmenter's sections "
+            + " in section " + PipelineTokenizer.RSRV + ", but in the " + scheme + " segmenter's sections "
             + segmenterTags + " " + theirs + ": the two reserved-token lists disagree");
       }
     }
   }
 
-  private static final Set<String> API_TAGS = Set.of(PipelineTokenizer.KIND, PipelineTokenizer.PIPE,
-      PipelineTokenizer.RSRV, PipelineTokenizer.FRAM, ModelFile.TAG_META);
+  private static final Set<String> API_TAGS = Set.of(PipelineTokenizer.SCHEME, PipelineTokenizer.PIPE,
+      PipelineTokenizer.RSRV, PipelineTokenizer.FRAM, ModelFile.TAG_METADATA);
 }

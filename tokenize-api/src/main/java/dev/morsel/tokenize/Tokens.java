@@ -334,9 +334,12 @@ public final class Tokens {
    * Pads to exactly {@code length} tokens with {@code padId} on the given side; padding has an empty
    * span at the text's edge and is masked out of {@link #nonPaddingMask()}. Returns {@code this} if
    * already long enough (padding never truncates).
+   *
+   * @throws IllegalArgumentException if {@code padId} is negative (ids are never negative)
    */
   public Tokens pad(int length, int padId, Side side) {
     Objects.requireNonNull(side, "side");
+    checkPadId(padId);
     int n = ids.length;
     if (n >= length) {
       return this;
@@ -371,10 +374,21 @@ public final class Tokens {
    * Pads a batch to one length: every member is padded (see {@link #pad}) to the size of the batch's
    * longest member, so all results have equal size. The longest member itself comes back unchanged;
    * an empty batch gives an empty list.
+   *
+   * @throws IllegalArgumentException if {@code padId} is negative
+   * @throws NullPointerException if the batch or one of its members is null (the message names the
+   *     index)
    */
   public static List<Tokens> padBatch(List<Tokens> batch, int padId, Side side) {
+    Objects.requireNonNull(batch, "batch");
+    Objects.requireNonNull(side, "side");
+    checkPadId(padId);
     int longest = 0;
-    for (Tokens t : batch) {
+    for (int i = 0; i < batch.size(); i++) {
+      Tokens t = batch.get(i);
+      if (t == null) {
+        throw new NullPointerException("batch member " + i + " is null");
+      }
       longest = Math.max(longest, t.size());
     }
     List<Tokens> out = new ArrayList<>(batch.size());
@@ -382,6 +396,12 @@ public final class Tokens {
       out.add(t.pad(longest, padId, side));
     }
     return out;
+  }
+
+  private static void checkPadId(int padId) {
+    if (padId < 0) {
+      throw new IllegalArgumentException("padId=" + padId + " is negative; a padding id is a vocabulary id (0 or more)");
+    }
   }
 
   /** The tokens {@code [from, to)} as a new result (offsets unchanged). */

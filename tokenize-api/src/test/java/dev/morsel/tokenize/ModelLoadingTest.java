@@ -50,15 +50,15 @@ class ModelLoadingTest {
   /** A PIPE payload with these three strings (the layout of docs/format.md section 4). */
   static byte[] pipe(String normalization, String splitting, String... rest) {
     ModelWriter w = new ModelWriter();
-    SectionWriter s = w.section(ModelFile.TAG_PIPE).putString(normalization).putString(splitting);
+    SectionWriter s = w.section(ModelFile.TAG_PIPELINE).putString(normalization).putString(splitting);
     for (String r : rest) {
       s.putString(r);
     }
-    return w.payloads().get(ModelFile.TAG_PIPE);
+    return w.payloads().get(ModelFile.TAG_PIPELINE);
   }
 
   private static String[] pipeStrings(byte[] model) {
-    SectionReader r = ModelFile.read(model).reader(ModelFile.TAG_PIPE);
+    SectionReader r = ModelFile.read(model).reader(ModelFile.TAG_PIPELINE);
     String[] out = {r.getString("n"), r.getString("s"), r.getString("u")};
     r.expectEnd();
     return out;
@@ -90,14 +90,14 @@ class ModelLoadingTest {
     byte[] model = t.toBytes();
     Map<String, byte[]> p = payloads(model);
     String[] pipe = pipeStrings(model);
-    p.put(ModelFile.TAG_PIPE, pipe(pipe[0], pipe[1], "16.0.0"));
+    p.put(ModelFile.TAG_PIPELINE, pipe(pipe[0], pipe[1], "16.0.0"));
     byte[] forged = ModelFile.write(p);
     String forgedFingerprint = ModelFile.read(forged).fingerprint();
     assertNotEquals(t.fingerprint(), forgedFingerprint, "the Unicode version is part of the fingerprint");
     assertEquals(t.fingerprint(), ModelFile.read(model).fingerprint());
 
     ModelFormatException e = assertThrows(ModelFormatException.class, () -> Tokenizers.load(forged));
-    assertEquals(ModelFile.TAG_PIPE, e.section());
+    assertEquals(ModelFile.TAG_PIPELINE, e.section());
     assertTrue(e.getMessage().contains("Unicode 16.0.0"), e.getMessage());
     assertTrue(e.getMessage().contains("Unicode " + Pipeline.unicodeVersion()), e.getMessage());
     assertTrue(e.getMessage().contains("ModelLimits.withUnicodeMismatchAllowed(true)"), e.getMessage());
@@ -115,9 +115,9 @@ class ModelLoadingTest {
     byte[] model = sample(0, List.of()).toBytes();
     Map<String, byte[]> p = payloads(model);
     String[] pipe = pipeStrings(model);
-    p.put(ModelFile.TAG_PIPE, pipe(pipe[0], pipe[1]));
+    p.put(ModelFile.TAG_PIPELINE, pipe(pipe[0], pipe[1]));
     ModelFormatException e = assertThrows(ModelFormatException.class, () -> Tokenizers.load(ModelFile.write(p)));
-    assertEquals(ModelFile.TAG_PIPE, e.section());
+    assertEquals(ModelFile.TAG_PIPELINE, e.section());
     assertTrue(e.getMessage().contains("Unicode version is missing"), e.getMessage());
   }
 

@@ -264,6 +264,21 @@ class TokenizerTest {
   }
 
   @Test
+  void paddingRefusesANegativeIdAndNamesANullMember() {
+    Tokenizer t = framed();
+    Tokens a = t.encode("a");
+    IllegalArgumentException e = assertThrows(IllegalArgumentException.class, () -> a.pad(6, -1, Side.END));
+    assertTrue(e.getMessage().contains("padId=-1"), e.getMessage());
+    // even when nothing would be padded: the id is wrong whatever the length
+    assertThrows(IllegalArgumentException.class, () -> a.pad(0, -7, Side.START));
+    assertThrows(IllegalArgumentException.class, () -> Tokens.padBatch(List.of(a), -1, Side.END));
+    List<Tokens> withNull = new ArrayList<>(List.of(a, a));
+    withNull.add(1, null);
+    NullPointerException n = assertThrows(NullPointerException.class, () -> Tokens.padBatch(withNull, 0, Side.END));
+    assertEquals("batch member 1 is null", n.getMessage());
+  }
+
+  @Test
   void windowsStartStepTokensApartAndKeepOffsets() {
     Tokenizer t = framed();
     String text = "Ferry 7 leaves Pier 2 at 06:40";
@@ -419,7 +434,7 @@ class TokenizerTest {
     assertEquals(t.pipeline(), back.pipeline());
     String text = "Lost: one blue umbrella, Deck C \ud83c\udf02";
     assertEquals(t.encodePair(text, "Pier 3"), back.encodePair(text, "Pier 3"));
-    assertTrue(Tokenizers.kinds().contains(ByteSegmenter.KIND));
+    assertTrue(Tokenizers.schemes().contains(ByteSegmenter.SCHEME));
     java.nio.file.Path file = java.nio.file.Files.createTempFile("morsel", ".model");
     try {
       t.save(file);

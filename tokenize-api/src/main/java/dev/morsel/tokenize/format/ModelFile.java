@@ -26,7 +26,7 @@ import java.util.TreeMap;
  *       {@code "table"} or the tag) and the offset, with expected and found values. No length read
  *       from a file leads to an allocation larger than the file.
  *   <li>The {@linkplain #fingerprint(Map) fingerprint} is SHA-256 over the canonical content of every
- *       section except {@link #TAG_META}; it is the same before writing and after reading.
+ *       section except {@link #TAG_METADATA}; it is the same before writing and after reading.
  * </ul>
  *
  * <p>Note: the checksum is CRC-32C [1] ({@link java.util.zip.CRC32C}); the digest is SHA-256 [2].
@@ -44,20 +44,20 @@ public final class ModelFile {
   /** Largest number of sections; a model needs about ten, and the table then stays under 2 KiB. */
   public static final int MAX_SECTIONS = 64;
 
-  /** Section tag: the segmenter kind, one string. */
-  public static final String TAG_KIND = "KIND";
+  /** Section tag: the scheme, one string. */
+  public static final String TAG_SCHEME = "SCHM";
 
   /** Section tag: the pipeline, two strings (normalization spec, splitting spec). */
-  public static final String TAG_PIPE = "PIPE";
+  public static final String TAG_PIPELINE = "PIPE";
 
   /** Section tag: reserved tokens, a count then (id u32, spelling string) per token. */
   public static final String TAG_RESERVED = "RSRV";
 
   /** Section tag: the framing template, three lists of reserved spellings (begin, separator, end). */
-  public static final String TAG_FRAM = "FRAM";
+  public static final String TAG_FRAMING = "FRAM";
 
   /** Section tag: free key/value metadata, excluded from the fingerprint. */
-  public static final String TAG_META = "META";
+  public static final String TAG_METADATA = "META";
 
   private ModelFile() {}
 

@@ -32,12 +32,12 @@ public final class ReviewDocument {
   private static final Pattern DECIMAL = Pattern.compile("-?(0|[1-9][0-9]*)(\\.[0-9]+)?(E-?[0-9]+)?");
 
   private final String source;
-  private final String kind;
+  private final String scheme;
   private final Map<String, Section> sections;
 
-  private ReviewDocument(String source, String kind, Map<String, Section> sections) {
+  private ReviewDocument(String source, String scheme, Map<String, Section> sections) {
     this.source = source;
-    this.kind = kind;
+    this.scheme = scheme;
     this.sections = sections;
   }
 
@@ -56,16 +56,16 @@ public final class ReviewDocument {
     String header = lines.next();
     if (header == null) {
       throw ModelFormatException.atLine(source, 1, "the file is empty; a review text starts with the header "
-          + ReviewText.FORMAT + " TAB " + ReviewText.VERSION + " TAB kind");
+          + ReviewText.FORMAT + " TAB " + ReviewText.VERSION + " TAB scheme");
     }
     String[] h = header.split("\t", -1);
     if (!h[0].equals(ReviewText.FORMAT)) {
       throw ModelFormatException.atLine(source, 1, "column 1: not a Morsel review text (expected the header "
-          + ReviewText.FORMAT + " TAB " + ReviewText.VERSION + " TAB kind)");
+          + ReviewText.FORMAT + " TAB " + ReviewText.VERSION + " TAB scheme)");
     }
     if (h.length != 3) {
       throw ModelFormatException.atLine(source, 1, "the header has " + h.length + " columns, expected 3 ("
-          + ReviewText.FORMAT + ", version, kind)");
+          + ReviewText.FORMAT + ", version, scheme)");
     }
     if (!INTEGER.matcher(h[1]).matches() || h[1].length() > 9) {
       throw ModelFormatException.atLine(source, 1, "column 2 (version): '" + h[1] + "' is not a version number");
@@ -75,9 +75,9 @@ public final class ReviewDocument {
       throw ModelFormatException.atLine(source, 1, "column 2 (version): review text version " + version + " is "
           + (version > ReviewText.VERSION ? "newer than" : "not") + " this reader's version " + ReviewText.VERSION);
     }
-    String kind = text(source, 1, 3, "kind", h[2]);
-    if (kind.isEmpty()) {
-      throw ModelFormatException.atLine(source, 1, "column 3 (kind): the model kind is empty");
+    String scheme = text(source, 1, 3, "scheme", h[2]);
+    if (scheme.isEmpty()) {
+      throw ModelFormatException.atLine(source, 1, "column 3 (scheme): the scheme is empty");
     }
     Map<String, Section> sections = new LinkedHashMap<>();
     Section current = null;
@@ -124,7 +124,7 @@ public final class ReviewDocument {
       }
       rows.add(new Row(current, no, f));
     }
-    return new ReviewDocument(source, kind, Collections.unmodifiableMap(sections));
+    return new ReviewDocument(source, scheme, Collections.unmodifiableMap(sections));
   }
 
   /**
@@ -150,9 +150,9 @@ public final class ReviewDocument {
     return source;
   }
 
-  /** The model kind named in the header. */
-  public String kind() {
-    return kind;
+  /** The scheme named in the header. */
+  public String scheme() {
+    return scheme;
   }
 
   /**
@@ -164,7 +164,7 @@ public final class ReviewDocument {
   public Section section(String name, String... columns) {
     Section s = optionalSection(name, columns);
     if (s == null) {
-      throw new ModelFormatException(source, "the review text of kind " + kind + " has no section " + name
+      throw new ModelFormatException(source, "the review text of scheme " + scheme + " has no section " + name
           + " (columns " + String.join(", ", columns) + "); sections present: " + sections.keySet());
     }
     return s;
@@ -200,8 +200,8 @@ public final class ReviewDocument {
   public void expectNoOtherSections() {
     for (Section s : sections.values()) {
       if (!s.used) {
-        throw ModelFormatException.atLine(source, s.line, "column 1: no section " + s.name + " belongs in a review text of kind "
-            + kind);
+        throw ModelFormatException.atLine(source, s.line, "column 1: no section " + s.name + " belongs in a review text of scheme "
+            + scheme);
       }
     }
   }
@@ -213,7 +213,7 @@ public final class ReviewDocument {
 
   @Override
   public String toString() {
-    return "ReviewDocument[" + source + ", kind " + kind + ", sections " + sections.keySet() + "]";
+    return "ReviewDocument[" + source + ", scheme " + scheme + ", sections " + sections.keySet() + "]";
   }
 
   // ------------------------------------------------------------------ sections and rows

@@ -27,7 +27,7 @@ import java.util.Objects;
  *
  * <h2>Shape</h2>
  * UTF-8 text, lines ending in LF (a CR before the LF is ignored). Line 1 is the header
- * {@code morsel-review TAB 1 TAB kind}. After it, every line is empty (skipped), a note (first
+ * {@code morsel-review TAB 1 TAB scheme}. After it, every line is empty (skipped), a note (first
  * character {@value #NOTE_SIGN}, U+00B6 PILCROW SIGN; skipped), a section heading ({@value
  * #SECTION_SIGN}, U+00A7 SECTION SIGN, one space, the section name, then TAB and the column names)
  * or a row of the current section: exactly as many fields as the heading has columns, separated by

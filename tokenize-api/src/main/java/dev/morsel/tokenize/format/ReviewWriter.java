@@ -29,19 +29,19 @@ public final class ReviewWriter {
   }
 
   /**
-   * Starts a review text of model kind {@code kind} on {@code out} by writing the header line.
+   * Starts a review text of scheme {@code scheme} on {@code out} by writing the header line.
    *
-   * @throws IllegalArgumentException if {@code kind} is empty
+   * @throws IllegalArgumentException if {@code scheme} is empty
    * @throws UncheckedIOException if {@code out} fails
    */
-  public static ReviewWriter start(Appendable out, String kind) {
+  public static ReviewWriter start(Appendable out, String scheme) {
     Objects.requireNonNull(out, "out");
-    Objects.requireNonNull(kind, "kind");
-    if (kind.isEmpty()) {
-      throw new IllegalArgumentException("kind must not be empty");
+    Objects.requireNonNull(scheme, "scheme");
+    if (scheme.isEmpty()) {
+      throw new IllegalArgumentException("scheme must not be empty");
     }
     ReviewWriter w = new ReviewWriter(out);
-    w.line(ReviewText.FORMAT + '\t' + ReviewText.VERSION + '\t' + ReviewText.escape(kind));
+    w.line(ReviewText.FORMAT + '\t' + ReviewText.VERSION + '\t' + ReviewText.escape(scheme));
     return w;
   }
 

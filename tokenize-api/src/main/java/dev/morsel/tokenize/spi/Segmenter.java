@@ -11,14 +11,14 @@ import dev.morsel.tokenize.format.ReviewWriter;
  * per thread and nothing outlives the tokenizer.
  *
  * <p>A segmenter owns a vocabulary of {@link #vocabularySize()} ids, {@code 0..size-1}. Reserved
- * tokens reserved by a trainer are part of that vocabulary, but {@link #segment} never produces them
+ * tokens reserved by a learner are part of that vocabulary, but {@link #segment} never produces them
  * from ordinary text: only the tokenizer's reserved-token scan and framing do.
  *
  * @since 0.1.0
  */
 public interface Segmenter {
-  /** The kind name that finds this segmenter's {@link SegmenterProvider}, for example {@code "bpe"}. */
-  String kind();
+  /** The scheme name that finds this segmenter's {@link SegmenterProvider}, for example {@code "bpe"}. */
+  String scheme();
 
   /**
    * The spellings of the reserved tokens this segmenter's vocabulary holds at ids {@code 0..k-1}, in
@@ -112,6 +112,6 @@ public interface Segmenter {
    * @throws UnsupportedOperationException by default: the segmenter has no review text form
    */
   default void writeReview(ReviewWriter out) {
-    throw new UnsupportedOperationException("segmenters of kind " + kind() + " have no review text form");
+    throw new UnsupportedOperationException("segmenters of scheme " + scheme() + " have no review text form");
   }
 }

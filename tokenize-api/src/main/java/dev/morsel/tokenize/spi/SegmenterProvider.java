@@ -5,14 +5,14 @@ import dev.morsel.tokenize.format.ModelSections;
 import dev.morsel.tokenize.format.ReviewDocument;
 
 /**
- * Reads a {@link Segmenter} of one kind from a model file. Found through {@link java.util.ServiceLoader}
- * by {@link #kind()}, so the api module knows no segmenter class.
+ * Reads a {@link Segmenter} of one scheme from a model file. Found through {@link java.util.ServiceLoader}
+ * by {@link #scheme()}, so the api module knows no segmenter class.
  *
  * @since 0.1.0
  */
 public interface SegmenterProvider {
-  /** The kind name written in model files, for example {@code "bpe"}. */
-  String kind();
+  /** The scheme name written in model files, for example {@code "bpe"}. */
+  String scheme();
 
   /**
    * Builds the segmenter from its sections, validating everything first. Every count and entry read
@@ -33,9 +33,9 @@ public interface SegmenterProvider {
    * and the column.
    *
    * @throws dev.morsel.tokenize.format.ModelFormatException naming the line and column that is wrong;
-   *     by default, because this kind has no review text form
+   *     by default, because this scheme has no review text form
    */
   default Segmenter readReview(ReviewDocument review) {
-    throw review.fail("segmenters of kind " + kind() + " have no review text form");
+    throw review.fail("segmenters of scheme " + scheme() + " have no review text form");
   }
 }

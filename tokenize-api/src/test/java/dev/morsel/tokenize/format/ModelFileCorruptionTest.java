@@ -29,7 +29,7 @@ class ModelFileCorruptionTest {
     Map<String, byte[]> m = new TreeMap<>();
     m.put("RSRV", "~~ferry-full~~ ~~harbour-closed~~".getBytes(StandardCharsets.UTF_8)); // 33 bytes, padded
     m.put("EMPT", new byte[0]);
-    m.put("KIND", "skerry-bpe".getBytes(StandardCharsets.UTF_8));
+    m.put("SCHM", "skerry-bpe".getBytes(StandardCharsets.UTF_8));
     m.put("META", "route Holmsund–Varø".getBytes(StandardCharsets.UTF_8));
     byte[] vocab = new byte[517];
     new SplittableRandom(77).nextBytes(vocab);
@@ -39,7 +39,7 @@ class ModelFileCorruptionTest {
 
   static final byte[] FILE = ModelFile.write(sample());
   static final int TABLE_END = 32 + 24 * sample().size();
-  static final Set<String> SECTIONS = Set.of("header", "table", "RSRV", "EMPT", "KIND", "META", "VOCB");
+  static final Set<String> SECTIONS = Set.of("header", "table", "RSRV", "EMPT", "SCHM", "META", "VOCB");
 
   /** The payload offset the table entry of {@code tag} records (entries: tag, CRC, u64 offset, u64 length). */
   static int payloadOffset(byte[] f, String tag) {
@@ -129,8 +129,8 @@ class ModelFileCorruptionTest {
     byte[] f = FILE.clone();
     int at = ModelFileTest.indexOf(f, "skerry-bpe".getBytes(StandardCharsets.UTF_8));
     f[at] = 'S';
-    ModelFormatException e = expectRejected(f, "KIND payload");
-    assertEquals("KIND", e.section());
+    ModelFormatException e = expectRejected(f, "SCHEME payload");
+    assertEquals("SCHM", e.section());
     assertTrue(e.getMessage().contains("CRC-32C") && e.getMessage().contains("[" + at + ","), e.getMessage());
   }
 

@@ -126,7 +126,7 @@ class ModelFileTest {
 
   static Map<String, byte[]> ferrySections() {
     Map<String, byte[]> m = new TreeMap<>();
-    m.put("KIND", "skerry-bpe".getBytes(StandardCharsets.UTF_8));
+    m.put("SCHM", "skerry-bpe".getBytes(StandardCharsets.UTF_8));
     m.put("PIPE", "nfc|rules".getBytes(StandardCharsets.UTF_8));
     m.put("VOCB", "the 07:40 sailing to Holmsund is delayed".getBytes(StandardCharsets.UTF_8));
     m.put("META", "built-by harbour office".getBytes(StandardCharsets.UTF_8));
@@ -153,7 +153,7 @@ class ModelFileTest {
 
     Map<String, byte[]> moved = new TreeMap<>(base);
     // same concatenated bytes, different split between sections: the length field tells them apart
-    moved.put("KIND", "skerry-bp".getBytes(StandardCharsets.UTF_8));
+    moved.put("SCHM", "skerry-bp".getBytes(StandardCharsets.UTF_8));
     moved.put("PIPE", "enfc|rules".getBytes(StandardCharsets.UTF_8));
     assertNotEquals(f, ModelFile.fingerprint(moved), "payload boundaries are part of the content");
 
@@ -184,7 +184,7 @@ class ModelFileTest {
     b.putLong(total);
     b.putInt(0);
     b.putInt(0); // header CRC, filled below
-    b.put("KIND".getBytes(StandardCharsets.US_ASCII)).putInt(DigestsTest.bitwiseCrc32c(kind)).putLong(table)
+    b.put("SCHM".getBytes(StandardCharsets.US_ASCII)).putInt(DigestsTest.bitwiseCrc32c(kind)).putLong(table)
         .putLong(kind.length);
     b.put("VOCB".getBytes(StandardCharsets.US_ASCII)).putInt(DigestsTest.bitwiseCrc32c(vocb)).putLong(table + 8)
         .putLong(vocb.length);
@@ -196,18 +196,18 @@ class ModelFileTest {
     b.putInt(28, DigestsTest.bitwiseCrc32c(covered));
 
     ModelSections s = ModelFile.read(raw);
-    assertEquals(List.of("KIND", "VOCB"), new ArrayList<>(s.tags()));
-    assertEquals("skerry", new String(bytes(s.payload("KIND")), StandardCharsets.US_ASCII));
-    assertArrayEquals(raw, ModelFile.write(Map.of("KIND", kind, "VOCB", vocb)));
+    assertEquals(List.of("SCHM", "VOCB"), new ArrayList<>(s.tags()));
+    assertEquals("skerry", new String(bytes(s.payload("SCHM")), StandardCharsets.US_ASCII));
+    assertArrayEquals(raw, ModelFile.write(Map.of("SCHM", kind, "VOCB", vocb)));
   }
 
   /** The worked example in docs/format.md, section 2.8, byte for byte. */
   @Test
   void documentedExampleBytes() {
     ModelWriter w = new ModelWriter();
-    w.section("KIND").putString("skerry");
-    String documented = "9e4d4f52530d0a00" + "00000100" + "01000000" + "4800000000000000" + "00000000" + "5754aa46"
-        + "4b494e44" + "8c3923df" + "3800000000000000" + "0a00000000000000"
+    w.section("SCHM").putString("skerry");
+    String documented = "9e4d4f52530d0a00" + "00000100" + "01000000" + "4800000000000000" + "00000000" + "0690e7e0"
+        + "5343484d" + "8c3923df" + "3800000000000000" + "0a00000000000000"
         + "06000000736b6572" + "7279000000000000";
     assertEquals(documented, Digests.hex(w.toModelFile()));
     // the CRCs quoted there, recomputed with the independent bitwise CRC-32C
@@ -215,7 +215,7 @@ class ModelFileTest {
     byte[] covered = new byte[28 + 24];
     System.arraycopy(f, 0, covered, 0, 28);
     System.arraycopy(f, 32, covered, 28, 24);
-    assertEquals(0x46AA5457, DigestsTest.bitwiseCrc32c(covered));
+    assertEquals(0xE0E79006, DigestsTest.bitwiseCrc32c(covered));
     assertEquals(0xDF23398C, DigestsTest.bitwiseCrc32c(java.util.Arrays.copyOfRange(f, 56, 66)));
   }
 
@@ -248,7 +248,7 @@ class ModelFileTest {
     assertThrows(IllegalArgumentException.class, () -> ModelFile.write(Map.of("kind", new byte[1])));
     assertThrows(IllegalArgumentException.class, () -> ModelFile.write(Map.of("KINDS", new byte[1])));
     Map<String, byte[]> withNull = new HashMap<>();
-    withNull.put("KIND", null);
+    withNull.put("SCHM", null);
     assertThrows(IllegalArgumentException.class, () -> ModelFile.write(withNull));
     Map<String, byte[]> many = new TreeMap<>();
     for (int i = 0; i <= ModelFile.MAX_SECTIONS; i++) {
@@ -327,7 +327,7 @@ class ModelFileTest {
   @Test
   void modelWriterProducesTheSameFile() {
     ModelWriter w = new ModelWriter();
-    w.section("KIND").putString("skerry-bpe");
+    w.section("SCHM").putString("skerry-bpe");
     w.section("RSRV").putInt(1).putInt(0).putString("~~harbour-closed~~");
     byte[] file = w.toModelFile();
     assertArrayEquals(ModelFile.write(w.payloads()), file);

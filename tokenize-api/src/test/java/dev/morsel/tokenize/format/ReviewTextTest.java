@@ -182,7 +182,7 @@ class ReviewTextTest {
     assertEquals("morsel-review\t1\tharbour\n\u00B6 Oskevik timetable, review copy\n\u00A7 berths\tid\tname\tdepth\n"
         + "0\tnorth\\squay\t-4.25\n1\t\\{U+00A7}\\ssouth\t-1.0E-300\n\u00A7 notes\tkey\tvalue\nferry\t\n", text);
     ReviewDocument d = doc(text.replace("\n", "\r\n"));
-    assertEquals("harbour", d.kind());
+    assertEquals("harbour", d.scheme());
     ReviewDocument.Section s = d.section("berths", "id", "name", "depth");
     assertEquals(3, s.line());
     assertEquals("\u00A7 south", s.rows().get(1).text(1));
@@ -202,8 +202,8 @@ class ReviewTextTest {
       "morsel-review\\t1|quay.tsv:1|the header has 2 columns",
       "morsel-review\\t01\\tbpe|quay.tsv:1|column 2 (version): '01' is not a version number",
       "morsel-review\\t3\\tbpe|quay.tsv:1|column 2 (version): review text version 3 is newer than this reader's version 1",
-      "morsel-review\\t1\\t|quay.tsv:1|column 3 (kind): the model kind is empty",
-      "morsel-review\\t1\\tb\\q|quay.tsv:1|column 3 (kind): character 2: unknown escape",
+      "morsel-review\\t1\\t|quay.tsv:1|column 3 (scheme): the scheme is empty",
+      "morsel-review\\t1\\tb\\q|quay.tsv:1|column 3 (scheme): character 2: unknown escape",
       "# merges\\nf e|quay.tsv:1|column 1: not a Morsel review text",
       "morsel-review\\t1\\tbpe\\n0\\ta|quay.tsv:2|a row before the first section heading",
       "morsel-review\\t1\\tbpe\\n§merges\\trank|quay.tsv:2|column 1: a section heading is §, one space",
@@ -238,7 +238,7 @@ class ReviewTextTest {
     assertEquals("quay.tsv", missing.section());
     ModelFormatException other = assertThrows(ModelFormatException.class,
         () -> doc("morsel-review\t1\tbpe\n\u00A7 berths\tid\n").expectNoOtherSections());
-    assertEquals("quay.tsv:2: column 1: no section berths belongs in a review text of kind bpe", other.getMessage());
+    assertEquals("quay.tsv:2: column 1: no section berths belongs in a review text of scheme bpe", other.getMessage());
   }
 
   @Test

@@ -17,7 +17,7 @@ import java.nio.charset.StandardCharsets;
  */
 public final class ByteSegmenter implements Segmenter {
   /** The kind name. */
-  public static final String KIND = "test-bytes";
+  public static final String SCHEME = "test-bytes";
 
   private final int vocabularySize;
 
@@ -27,8 +27,8 @@ public final class ByteSegmenter implements Segmenter {
   }
 
   @Override
-  public String kind() {
-    return KIND;
+  public String scheme() {
+    return SCHEME;
   }
 
   @Override
@@ -83,8 +83,8 @@ public final class ByteSegmenter implements Segmenter {
   /** Reads the segmenter back. */
   public static final class Provider implements SegmenterProvider {
     @Override
-    public String kind() {
-      return KIND;
+    public String scheme() {
+      return SCHEME;
     }
 
     @Override

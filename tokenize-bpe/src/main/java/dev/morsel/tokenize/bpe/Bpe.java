@@ -11,8 +11,8 @@ import java.util.SplittableRandom;
 
 /**
  * What a byte-level BPE tokenizer offers beyond {@link Tokenizer}: its merges in rank order, its
- * piece cache, and BPE-dropout [1] for subword regularization. Works on any tokenizer of kind
- * {@value #KIND}, learned or loaded, without casts; {@link #dropout} goes through the tokenizer's
+ * piece cache, and BPE-dropout [1] for subword regularization. Works on any tokenizer of scheme
+ * {@value #SCHEME}, learned or loaded, without casts; {@link #dropout} goes through the tokenizer's
  * reserved-token scan, normalization, splitting and framing like an encode call, with offsets into
  * the original text. Stateless and thread-safe.
  *
@@ -23,7 +23,7 @@ import java.util.SplittableRandom;
  */
 public final class Bpe {
   /** The kind of BPE tokenizers: {@value}. */
-  public static final String KIND = BpeSegmenter.KIND;
+  public static final String SCHEME = BpeSegmenter.SCHEME;
   /**
    * Default piece cache size, in entries (one entry = one distinct piece of up to 256 UTF-16 units and
    * its tokens; 65,536 entries cover the frequent pieces of a typical language with a few MiB).
@@ -47,7 +47,7 @@ public final class Bpe {
    * tokenizer's own encoding, {@code p = 1} single bytes. The pieces draw in turn from one generator
    * seeded with {@code seed}: equal arguments give equal results.
    *
-   * @throws IllegalArgumentException if {@code tokenizer} is not of kind {@value #KIND} (naming its
+   * @throws IllegalArgumentException if {@code tokenizer} is not of scheme {@value #SCHEME} (naming its
    *     kind), or {@code p} is not in {@code [0, 1]}
    */
   public static Tokens dropout(Tokenizer tokenizer, CharSequence text, double p, long seed, Trust trust) {
@@ -64,7 +64,7 @@ public final class Bpe {
    * none for 0; the same model (same fingerprint), and results are identical with the cache on or
    * off, cold or warm. Each tokenizer has its own cache.
    *
-   * @throws IllegalArgumentException if {@code tokenizer} is not of kind {@value #KIND}, or
+   * @throws IllegalArgumentException if {@code tokenizer} is not of scheme {@value #SCHEME}, or
    *     {@code entries} is outside {@code [0, MAX_CACHE_ENTRIES]}
    */
   public static Tokenizer withCacheEntries(Tokenizer tokenizer, int entries) {
@@ -76,7 +76,7 @@ public final class Bpe {
   /**
    * The piece cache size of {@code tokenizer}, in entries (0 = off).
    *
-   * @throws IllegalArgumentException if {@code tokenizer} is not of kind {@value #KIND}
+   * @throws IllegalArgumentException if {@code tokenizer} is not of scheme {@value #SCHEME}
    */
   public static int cacheEntries(Tokenizer tokenizer) {
     return segmenter(tokenizer, "cacheEntries").cacheEntries();
@@ -85,7 +85,7 @@ public final class Bpe {
   /**
    * Number of merges of {@code tokenizer}; merge {@code r} made token {@code reserved + 256 + r}.
    *
-   * @throws IllegalArgumentException if {@code tokenizer} is not of kind {@value #KIND}
+   * @throws IllegalArgumentException if {@code tokenizer} is not of scheme {@value #SCHEME}
    */
   public static int mergeCount(Tokenizer tokenizer) {
     return segmenter(tokenizer, "mergeCount").mergeCount();
@@ -94,7 +94,7 @@ public final class Bpe {
   /**
    * The two ids merge {@code rank} joins, left then right.
    *
-   * @throws IllegalArgumentException if {@code tokenizer} is not of kind {@value #KIND}
+   * @throws IllegalArgumentException if {@code tokenizer} is not of scheme {@value #SCHEME}
    * @throws IndexOutOfBoundsException if {@code rank} is not below {@link #mergeCount}
    */
   public static int[] merge(Tokenizer tokenizer, int rank) {
@@ -106,8 +106,8 @@ public final class Bpe {
     Objects.requireNonNull(tokenizer, "tokenizer");
     Segmenter s = Tokenizers.segmenterOf(tokenizer);
     if (!(s instanceof BpeSegmenter)) {
-      throw new IllegalArgumentException("Bpe." + what + " needs a tokenizer of kind '" + KIND + "'; this one is of kind '"
-          + tokenizer.kind() + "'");
+      throw new IllegalArgumentException("Bpe." + what + " needs a tokenizer of scheme '" + SCHEME + "'; this one is of scheme '"
+          + tokenizer.scheme() + "'");
     }
     return (BpeSegmenter) s;
   }

@@ -72,7 +72,7 @@ public final class BpeLearner implements Learner {
 
   @Override
   public String scheme() {
-    return Bpe.KIND;
+    return Bpe.SCHEME;
   }
 
   /**

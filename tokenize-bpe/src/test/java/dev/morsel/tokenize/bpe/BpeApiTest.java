@@ -52,7 +52,7 @@ class BpeApiTest {
   void theLearnedTokenizerEncodesWithTheCountedPipeline() {
     assertEquals(FOLDED, learned.pipeline());
     assertEquals(FOLDED, loaded.pipeline());
-    assertEquals(Bpe.KIND, loaded.kind());
+    assertEquals(Bpe.SCHEME, loaded.scheme());
     assertEquals(0, loaded.reservedTokens().id(BELL));
     assertArrayEquals(loaded.encode("the harbour").ids(), loaded.encode("THE HARBOUR").ids());
   }
@@ -144,7 +144,7 @@ class BpeApiTest {
   void otherKindsAndBadArgumentsAreRefusedByName() {
     Tokenizer bytes = Tokenizers.of(Pipeline.defaults(), new ByteSegmenter(0));
     IllegalArgumentException e = assertThrows(IllegalArgumentException.class, () -> Bpe.dropout(bytes, "ferry", 0.1, 1));
-    assertEquals("Bpe.dropout needs a tokenizer of kind 'bpe'; this one is of kind 'test-bytes'", e.getMessage());
+    assertEquals("Bpe.dropout needs a tokenizer of scheme 'bpe'; this one is of scheme 'test-bytes'", e.getMessage());
     for (double p : new double[] {-0.1, 1.1, Double.NaN}) {
       assertTrue(assertThrows(IllegalArgumentException.class, () -> Bpe.dropout(loaded, "ferry", p, 1)).getMessage()
           .contains("p="));

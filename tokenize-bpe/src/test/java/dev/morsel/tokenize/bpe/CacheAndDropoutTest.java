@@ -254,9 +254,9 @@ class CacheAndDropoutTest {
   @Test
   void badOptionsNameTheSetting() {
     BpeSegmenter model = Fixtures.europarlModel();
-    TrainerTest.assertMessage("cacheEntries=-1", () -> model.withCacheEntries(-1));
-    TrainerTest.assertMessage("dropout=1.5", () -> model.withDropout(1.5, 0));
-    TrainerTest.assertMessage("dropout=NaN", () -> model.withDropout(Double.NaN, 0));
+    BpeLearnerTest.assertMessage("cacheEntries=-1", () -> model.withCacheEntries(-1));
+    BpeLearnerTest.assertMessage("dropout=1.5", () -> model.withDropout(1.5, 0));
+    BpeLearnerTest.assertMessage("dropout=NaN", () -> model.withDropout(Double.NaN, 0));
     assertThrows(IndexOutOfBoundsException.class, () -> model.segment("quay", 2, 9, (i, s, e) -> {}));
     assertNotEquals(0.0, model.withDropout(0.5, 0).dropout());
   }

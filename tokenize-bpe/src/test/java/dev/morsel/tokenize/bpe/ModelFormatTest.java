@@ -27,7 +27,7 @@ import java.util.Map;
 import java.util.ServiceLoader;
 import org.junit.jupiter.api.Test;
 
-/** Model sections (BPEC, BPEM), the provider, and the BPE sections of the review text. */
+/** Model sections (BPST, BPMG), the provider, and the BPE sections of the review text. */
 class ModelFormatTest {
   private static final List<String> RESERVED = List.of("«dock»", "«sail»");
 
@@ -64,19 +64,19 @@ class ModelFormatTest {
   void sectionsWriteThenReadGiveTheSameSegmenter() {
     BpeSegmenter s = withReserved().withCacheEntries(1024);
     Map<String, byte[]> pl = payloads(s);
-    assertEquals(java.util.Set.of("BPEC", "BPEM"), pl.keySet());
+    assertEquals(java.util.Set.of("BPST", "BPMG"), pl.keySet());
     BpeSegmenter back = BpeSegmenter.read(Sections.of(pl));
     assertSameSegmenter(s, back);
     // the cache is a runtime setting: not saved, so a loaded model starts with the default, and the
     // sections (hence the fingerprint) do not depend on it
     assertEquals(BpeSegmenter.DEFAULT_CACHE_ENTRIES, back.cacheEntries());
-    assertArrayEquals(pl.get("BPEC"), payloads(s.withCacheEntries(0)).get("BPEC"));
+    assertArrayEquals(pl.get("BPST"), payloads(s.withCacheEntries(0)).get("BPST"));
     assertEquals(s.reservedTokens(), back.reservedTokens());
     assertEquals(1, back.reservedTokens().id("«sail»"));
     // writing again is byte-identical
     Map<String, byte[]> again = payloads(back);
-    assertArrayEquals(pl.get("BPEM"), again.get("BPEM"));
-    assertArrayEquals(pl.get("BPEC"), again.get("BPEC"));
+    assertArrayEquals(pl.get("BPMG"), again.get("BPMG"));
+    assertArrayEquals(pl.get("BPST"), again.get("BPST"));
   }
 
   @Test
@@ -84,15 +84,15 @@ class ModelFormatTest {
     BpeSegmenter s = withReserved();
     SegmenterProvider found = null;
     for (SegmenterProvider p : ServiceLoader.load(SegmenterProvider.class)) {
-      if (p.kind().equals("bpe")) {
+      if (p.scheme().equals("bpe")) {
         found = p;
       }
     }
-    assertTrue(found != null, "no provider of kind bpe");
+    assertTrue(found != null, "no provider of scheme bpe");
     assertSameSegmenter(s, found.read(Sections.of(payloads(s)), dev.morsel.tokenize.format.ModelLimits.defaults()));
   }
 
-  /** A BPEM payload with these (left, right) pairs. */
+  /** A BPMG payload with these (left, right) pairs. */
   private static byte[] merges(int count, int... pairs) {
     ByteBuffer b = ByteBuffer.allocate(4 + 4 * pairs.length).order(ByteOrder.LITTLE_ENDIAN);
     b.putInt(count);
@@ -104,7 +104,7 @@ class ModelFormatTest {
 
   private static ModelFormatException corrupt(byte[] bpem) {
     Map<String, byte[]> pl = new HashMap<>(payloads(BpeSegmenter.of(List.of(), new int[0], new int[0])));
-    pl.put("BPEM", bpem);
+    pl.put("BPMG", bpem);
     return assertThrows(ModelFormatException.class, () -> BpeSegmenter.read(Sections.of(pl)));
   }
 
@@ -118,19 +118,19 @@ class ModelFormatTest {
     int a = 'a';
     int b = 'b';
     // unknown id (beyond the vocabulary)
-    assertNames(corrupt(merges(2, a, b, 256, 9999)), "BPEM", "entry 1");
+    assertNames(corrupt(merges(2, a, b, 256, 9999)), "BPMG", "entry 1");
     // an id not below the merge's own id (merge 0 is id 256)
-    assertNames(corrupt(merges(1, 256, a)), "BPEM", "entry 0");
+    assertNames(corrupt(merges(1, 256, a)), "BPMG", "entry 0");
     // negative id
-    assertNames(corrupt(merges(1, -1, a)), "BPEM", "entry 0");
+    assertNames(corrupt(merges(1, -1, a)), "BPMG", "entry 0");
     // repeated pair
-    assertNames(corrupt(merges(3, a, b, 256, a, a, b)), "BPEM", "entry 2");
+    assertNames(corrupt(merges(3, a, b, 256, a, a, b)), "BPMG", "entry 2");
     // the same bytes twice: (a,b)=ab, (ab,a)=aba, (b,a)=ba, (a,ba)=aba again
-    assertNames(corrupt(merges(4, a, b, 256, a, b, a, a, 258)), "BPEM", "entry 3");
+    assertNames(corrupt(merges(4, a, b, 256, a, b, a, a, 258)), "BPMG", "entry 3");
     // forged count far beyond the payload
-    assertNames(corrupt(merges(0x7FFFFFFF, a, b)), "BPEM", "merges");
+    assertNames(corrupt(merges(0x7FFFFFFF, a, b)), "BPMG", "merges");
     // trailing bytes
-    assertNames(corrupt(merges(1, a, b, 7)), "BPEM", "trailing");
+    assertNames(corrupt(merges(1, a, b, 7)), "BPMG", "trailing");
     // doubling chain past MAX_TOKEN_BYTES (2^13 = 8192 > 4096)
     int[] chain = new int[26];
     chain[0] = a;
@@ -139,27 +139,27 @@ class ModelFormatTest {
       chain[2 * r] = 255 + r;
       chain[2 * r + 1] = 255 + r;
     }
-    assertNames(corrupt(merges(13, chain)), "BPEM", "MAX_TOKEN_BYTES");
+    assertNames(corrupt(merges(13, chain)), "BPMG", "MAX_TOKEN_BYTES");
   }
 
   @Test
   void corruptSettingsAreRejected() {
     Map<String, byte[]> pl = new HashMap<>(payloads(withReserved()));
-    byte[] c = pl.get("BPEC").clone();
+    byte[] c = pl.get("BPST").clone();
     c[0] = 9; // version
-    pl.put("BPEC", c);
+    pl.put("BPST", c);
     assertNames(assertThrows(ModelFormatException.class, () -> BpeSegmenter.read(Sections.of(pl))),
-        "BPEC", "version");
+        "BPST", "version");
     Map<String, byte[]> missing = new HashMap<>(payloads(withReserved()));
-    missing.remove("BPEM");
+    missing.remove("BPMG");
     assertNames(assertThrows(ModelFormatException.class, () -> BpeSegmenter.read(Sections.of(missing))),
-        "BPEM", "missing");
+        "BPMG", "missing");
     // a reserved spelling that contains another (ReservedTokens rule) is rejected
     ModelWriter w = new ModelWriter();
-    w.section("BPEC").putInt(1).putInt(2).putString("«dock»").putString("dock").putInt(0);
-    w.section("BPEM").putInt(0);
+    w.section("BPST").putInt(1).putInt(2).putString("«dock»").putString("dock").putInt(0);
+    w.section("BPMG").putInt(0);
     assertNames(assertThrows(ModelFormatException.class, () -> BpeSegmenter.read(Sections.of(w.payloads()))),
-        "BPEC", "contains");
+        "BPST", "contains");
   }
 
   /** The review text of a bare segmenter inside a tokenizer with the default pipeline. */
@@ -234,9 +234,9 @@ class ModelFormatTest {
 
   @Test
   void explicitMergesAreValidated() {
-    TrainerTest.assertMessage("refers to an id", () -> BpeSegmenter.of(List.of(), new int[] {300}, new int[] {'a'}));
-    TrainerTest.assertMessage("refers to an id", () -> BpeSegmenter.of(List.of("«dock»"), new int[] {0}, new int[] {'a'}));
-    TrainerTest.assertMessage("differ in length", () -> BpeSegmenter.of(List.of(), new int[] {97}, new int[0]));
+    BpeLearnerTest.assertMessage("refers to an id", () -> BpeSegmenter.of(List.of(), new int[] {300}, new int[] {'a'}));
+    BpeLearnerTest.assertMessage("refers to an id", () -> BpeSegmenter.of(List.of("«dock»"), new int[] {0}, new int[] {'a'}));
+    BpeLearnerTest.assertMessage("differ in length", () -> BpeSegmenter.of(List.of(), new int[] {97}, new int[0]));
     assertEquals("ab", new String(BpeSegmenter.of(List.of(), new int[] {'a'}, new int[] {'b'}).tokenBytes(256),
         StandardCharsets.UTF_8));
   }

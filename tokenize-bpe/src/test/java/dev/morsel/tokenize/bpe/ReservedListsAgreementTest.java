@@ -26,7 +26,7 @@ import org.junit.jupiter.api.Test;
 
 /**
  * A BPE model file holds its reserved tokens twice: in the api's section {@code RSRV} and in the
- * segmenter's own {@code BPEC}. Forged files whose copies disagree (re-checksummed through
+ * segmenter's own {@code BPST}. Forged files whose copies disagree (re-checksummed through
  * {@link ModelFile#write}, so only the list differs) are refused, naming both sections; the merge
  * count obeys {@link ModelLimits#maxMerges()}.
  */
@@ -74,7 +74,7 @@ class ReservedListsAgreementTest {
         () -> Tokenizers.load(forged(rsrv(0, "⟨crew⟩", 1, "⟨agent⟩"))));
     assertEquals(ModelFile.TAG_RESERVED, e.section());
     assertTrue(e.getMessage().contains("section RSRV"), e.getMessage());
-    assertTrue(e.getMessage().contains("[BPEC, BPEM]"), e.getMessage());
+    assertTrue(e.getMessage().contains("[BPMG, BPST]"), e.getMessage());
     assertTrue(e.getMessage().contains("disagree"), e.getMessage());
   }
 
@@ -101,7 +101,7 @@ class ReservedListsAgreementTest {
     byte[] model = Tokenizers.of(Pipeline.defaults(), segmenter()).toBytes();
     ModelFormatException e = assertThrows(ModelFormatException.class,
         () -> Tokenizers.load(model, ModelLimits.defaults().withMaxMerges(1)));
-    assertEquals("BPEM", e.section());
+    assertEquals("BPMG", e.section());
     assertTrue(e.getMessage().contains("2 merges"), e.getMessage());
     assertTrue(e.getMessage().contains("ModelLimits.maxMerges=1 (raise it with ModelLimits.withMaxMerges)"),
         e.getMessage());

@@ -34,7 +34,7 @@ class ModuleDescriptorTest {
   void providesTheSegmenterAndItsLearnerOnTheModulePathAndTheClassPathAlike() {
     ModuleChecks.assertProvides(PROVIDERS, LEARNERS);
     // on the class path (how these tests run) the api's loader finds them by kind
-    assertTrue(Tokenizers.kinds().containsAll(Set.of("bpe")), "kinds found: " + Tokenizers.kinds());
+    assertTrue(Tokenizers.schemes().containsAll(Set.of("bpe")), "schemes found: " + Tokenizers.schemes());
     assertTrue(Learners.schemes().contains("bpe"), "schemes found: " + Learners.schemes());
   }
 

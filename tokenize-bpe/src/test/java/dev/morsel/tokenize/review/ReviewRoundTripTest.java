@@ -197,13 +197,13 @@ class ReviewRoundTripTest {
     ModelFormatException extra = assertThrows(ModelFormatException.class,
         () -> importText(text + "\u00A7 scores\tid\tscore\n"));
     assertEquals("ferry.tsv:" + (lines + 1), extra.section());
-    assertTrue(extra.getMessage().contains("no section scores belongs in a review text of kind bpe"), extra.getMessage());
+    assertTrue(extra.getMessage().contains("no section scores belongs in a review text of scheme bpe"), extra.getMessage());
     ModelFormatException columns = assertThrows(ModelFormatException.class,
         () -> importText(text.replace("\u00A7 merges\trank\tleft\tright\ttoken", "\u00A7 merges\trank\tleft\tright")));
     assertTrue(columns.getMessage().contains("a column is missing"), columns.getMessage());
     ModelFormatException kind = assertThrows(ModelFormatException.class,
         () -> importText(text.replace("morsel-review\t1\tbpe", "morsel-review\t1\tharbour")));
-    assertTrue(kind.getMessage().contains("no segmenter of kind 'harbour'"), kind.getMessage());
+    assertTrue(kind.getMessage().contains("no segmenter of scheme 'harbour'"), kind.getMessage());
     ModelFormatException version = assertThrows(ModelFormatException.class,
         () -> importText(text.replace("morsel-review\t1\tbpe", "morsel-review\t2\tbpe")));
     assertEquals("ferry.tsv:1: column 2 (version): review text version 2 is newer than this reader's version 1",
@@ -218,7 +218,7 @@ class ReviewRoundTripTest {
     String example = md.substring(from, md.indexOf("```", from));
     byte[] file = importText(example);
     Tokenizer t = Tokenizers.load(file);
-    assertEquals("wordpiece", t.kind());
+    assertEquals("wordpiece", t.scheme());
     assertEquals(List.of(7, 8), List.of(t.encode("C:\\berth").ids()[1], t.encode("\uD83D\uDEA2").ids()[1]));
     StringBuilder again = new StringBuilder();
     Tokenizers.writeReview(ModelFile.read(file), again);

@@ -123,7 +123,7 @@ final class BenchCommand implements Callable<Integer> {
       o.println(w);
     } else {
       o.printf(Locale.ROOT, "%s on %,d texts (%,d bytes); after the warm-up, %d timed passes per thread count (median)%n",
-          t.kind(), texts.size(), bytes, rounds);
+          t.scheme(), texts.size(), bytes, rounds);
       o.printf(Locale.ROOT, "%7s %10s %14s %10s %10s %10s  %s%n", "threads", "MB/s", "tokens/s", "p50 µs", "p99 µs", "max µs",
           "warm-up");
       for (int i = 0; i < results.size(); i++) {

@@ -18,7 +18,7 @@ import picocli.CommandLine.Model.CommandSpec;
 
 /** {@code morsel inspect}: what a model holds, and why a text segments the way it does. */
 @Command(name = "inspect", mixinStandardHelpOptions = true, separator = " ",
-    description = "Summarize a model (kind, vocabulary, fingerprint, normalization, splitting, reserved tokens),"
+    description = "Summarize a model (scheme, vocabulary, fingerprint, normalization, splitting, reserved tokens),"
         + " list its most frequent and longest tokens, and explain how a text is segmented.",
     footer = {"", "Examples:", "  morsel inspect --model ferry.morsel",
         "  morsel inspect --model ferry.morsel --sample messages.txt --top 30",
@@ -49,7 +49,7 @@ final class InspectCommand implements Callable<Integer> {
     }
     Tokenizer t = Tokenizers.load(model);
     PrintWriter o = spec.commandLine().getOut();
-    o.printf(Locale.ROOT, "kind             %s%n", t.kind());
+    o.printf(Locale.ROOT, "scheme           %s%n", t.scheme());
     o.printf(Locale.ROOT, "vocabulary       %,d ids%n", t.vocabularySize());
     o.printf(Locale.ROOT, "fingerprint      %s%n", t.fingerprint());
     o.printf(Locale.ROOT, "normalization    %s%n", t.pipeline().normalization().spec());

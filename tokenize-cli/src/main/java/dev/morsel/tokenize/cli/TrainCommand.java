@@ -76,6 +76,7 @@ final class TrainCommand implements Callable<Integer> {
   Corpus.BadUtf8 badUtf8;
 
   @Override
+  @SuppressWarnings("try") // progress.close() is called early on purpose: it clears the bar before the summary (close is idempotent)
   public Integer call() throws Exception {
     if (threads <= 0) {
       throw new Morsel.UsageException("--threads must be positive, got " + threads);
@@ -109,7 +110,7 @@ final class TrainCommand implements Callable<Integer> {
       long t2 = System.nanoTime();
       o.printf(Locale.ROOT, "pieces counted   %,d distinct, %,d in all, from %,d lines (%.1f s)%n", counts.size(), counts.total(),
           report.texts(), (t1 - t0) / 1e9);
-      o.printf(Locale.ROOT, "vocabulary       %,d ids, scheme %s (%.1f s)%n", t.vocabularySize(), t.kind(), (t2 - t1) / 1e9);
+      o.printf(Locale.ROOT, "vocabulary       %,d ids, scheme %s (%.1f s)%n", t.vocabularySize(), t.scheme(), (t2 - t1) / 1e9);
       if (alphabet.chosen != null) {
         o.printf(Locale.ROOT, "alphabet         %s%n", alphabet.chosen.summary().substring("alphabet ".length()));
         if (verbose() && alphabet.chosen.leftOutSize() > Alphabet.SUMMARY_LEFT_OUT) {

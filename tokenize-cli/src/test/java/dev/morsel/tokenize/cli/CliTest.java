@@ -94,7 +94,7 @@ class CliTest {
     assertEquals(2, run("review", "--from", text.toString()).code(), "import needs --out");
     Run inspect = run("inspect", "--model", model.toString(), "--explain", "Harrowmere ferry");
     assertEquals(0, inspect.code(), inspect.err());
-    assertTrue(inspect.out().contains("kind             " + scheme), inspect.out());
+    assertTrue(inspect.out().contains("scheme           " + scheme), inspect.out());
     assertTrue(inspect.out().contains("\u27e8hold\u27e9"), inspect.out());
     assertTrue(inspect.out().contains("explain"), inspect.out());
 

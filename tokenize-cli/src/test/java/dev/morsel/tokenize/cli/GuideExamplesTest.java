@@ -118,7 +118,7 @@ class GuideExamplesTest {
     candidates.put("wordpiece", WordPieceLearner.builder().vocabularySize(1000).build().train(counts));
     candidates.put("unigram", UnigramLearner.builder().vocabularySize(1000).build().train(counts));
 
-    List<String> held = Files.readAllLines(heldOut);                 // lines the trainers never saw
+    List<String> held = Files.readAllLines(heldOut);                 // lines the learners never saw
     long words = held.stream().mapToLong(line -> line.split("\\s+").length).sum();
     for (Map.Entry<String, Tokenizer> e : candidates.entrySet()) {
       long tokens = e.getValue().encodeAll(held).stream().mapToLong(Tokens::size).sum();
@@ -151,9 +151,9 @@ class GuideExamplesTest {
       // a 1000-id vocabulary cannot hold every held-out word whole (the held-out lines carry booking codes
       // and times never seen in training), so more than one token per word; and merges were learned, so
       // well under one token per char (the demo's sweep shows 1.3-1.9 tokens per word at this size)
-      assertTrue(tokens > words, t.kind() + ": " + tokens + " tokens for " + words + " words");
+      assertTrue(tokens > words, t.scheme() + ": " + tokens + " tokens for " + words + " words");
       long chars = held.stream().mapToLong(String::length).sum();
-      assertTrue(tokens < chars / 2, t.kind() + ": " + tokens + " tokens for " + chars + " chars");
+      assertTrue(tokens < chars / 2, t.scheme() + ": " + tokens + " tokens for " + chars + " chars");
     }
   }
 

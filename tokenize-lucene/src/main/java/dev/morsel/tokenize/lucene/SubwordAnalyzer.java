@@ -64,6 +64,6 @@ public final class SubwordAnalyzer extends Analyzer {
 
   @Override
   public String toString() {
-    return "SubwordAnalyzer[" + morsel.kind() + " " + morsel.fingerprint().substring(0, 12) + ", " + settings + "]";
+    return "SubwordAnalyzer[" + morsel.scheme() + " " + morsel.fingerprint().substring(0, 12) + ", " + settings + "]";
   }
 }

@@ -28,6 +28,8 @@ import org.apache.lucene.tests.analysis.BaseTokenStreamTestCase;
  * written in the test under NFKC and rule-based splitting; each expected token is derived in the
  * comment above its assertion.
  */
+// "exports": the test framework is an automatic module whose base class javac reports as not exported
+@SuppressWarnings("exports")
 public class LuceneConformanceTest extends BaseTokenStreamTestCase {
   private static final String LETTERS = PieceClass.LETTERS.type();
   private static final String DIGITS = PieceClass.DIGITS.type();

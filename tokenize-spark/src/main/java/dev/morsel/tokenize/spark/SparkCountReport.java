@@ -26,7 +26,7 @@ public final class SparkCountReport {
     this.totalOccurrences = totalOccurrences;
   }
 
-  /** The kept pieces with their exact counts: the input every trainer takes. */
+  /** The kept pieces with their exact counts: the input every learner takes. */
   public PieceCounts counts() {
     return counts;
   }

@@ -209,7 +209,7 @@ class SparkPieceCounterTest {
   @MethodSource("dev.morsel.tokenize.spark.TestModels#schemes")
   void aModelTrainedFromSparkCountsHasTheSingleJvmFingerprint(String scheme) {
     Pipeline p = Pipeline.defaults();
-    // pieces seen once are left out on both sides (as a trainer's minimum count would) to keep training short
+    // pieces seen once are left out on both sides (as a learner's minimum count would) to keep training short
     Tokenizer fromSpark = TestModels.train(scheme, sparkAll.counts().withMinCount(2), 800, List.of(TestModels.DOCK));
     Tokenizer fromSingle = TestModels.train(scheme, singleAll.withMinCount(2), 800, List.of(TestModels.DOCK));
     assertEquals(fromSingle.fingerprint(), fromSpark.fingerprint(), scheme);

@@ -17,7 +17,7 @@ import dev.morsel.tokenize.Tokenizer;
  * @since 0.1.0
  */
 public interface Learner {
-  /** The scheme name, for example {@code "bpe"}; also the {@link Tokenizer#kind()} of the result. */
+  /** The scheme name, for example {@code "bpe"}; also the {@link Tokenizer#scheme()} of the result. */
   String scheme();
 
   /**

@@ -26,18 +26,18 @@ class LearnersTest {
 
   @Test
   void findsTheRegisteredProviderByScheme() {
-    assertEquals(List.of(ByteSegmenter.KIND), Learners.schemes(), "only the test provider is on this module's path");
-    assertEquals(ByteSegmenter.KIND, Learners.provider(ByteSegmenter.KIND).scheme());
+    assertEquals(List.of(ByteSegmenter.SCHEME), Learners.schemes(), "only the test provider is on this module's path");
+    assertEquals(ByteSegmenter.SCHEME, Learners.provider(ByteSegmenter.SCHEME).scheme());
     assertEquals(1, Learners.providers().size());
     IllegalArgumentException e = assertThrows(IllegalArgumentException.class, () -> Learners.provider("bpe"));
-    assertTrue(e.getMessage().contains("'bpe'") && e.getMessage().contains(ByteSegmenter.KIND), e.getMessage());
+    assertTrue(e.getMessage().contains("'bpe'") && e.getMessage().contains(ByteSegmenter.SCHEME), e.getMessage());
   }
 
   @Test
   void theLearnedTokenizerEncodesWithTheCountedPipeline() {
     Pipeline folded = Pipeline.of(Normalization.parse("nfkc+casefold"), Splitting.whitespace());
     PieceCounts counts = PieceCounter.builder().pipeline(folded).threads(1).build().count(List.of("Oskevik FERRY"));
-    Tokenizer t = Learners.learner(ByteSegmenter.KIND, LearnerSettings.of(258).withReservedTokens(List.of(AGENT, PAUSE)))
+    Tokenizer t = Learners.learner(ByteSegmenter.SCHEME, LearnerSettings.of(258).withReservedTokens(List.of(AGENT, PAUSE)))
         .train(counts);
     assertEquals(folded, t.pipeline());
     assertEquals("oskevik ferry", t.decode(t.encode("OSKEVIK Ferry").ids()), "casefolded as counted");
@@ -48,23 +48,23 @@ class LearnersTest {
   @Test
   void optionsAreGivenAsNameValueAndChecked() {
     LearnerSettings s = LearnerSettings.of(260);
-    assertEquals(260, Learners.learner(ByteSegmenter.KIND, s, "spare-ids=4").train(PieceCounts.empty()).vocabularySize());
-    assertEquals(260, Learners.learner(ByteSegmenter.KIND, s, Map.of("spare-ids", "4")).train(PieceCounts.empty())
+    assertEquals(260, Learners.learner(ByteSegmenter.SCHEME, s, "spare-ids=4").train(PieceCounts.empty()).vocabularySize());
+    assertEquals(260, Learners.learner(ByteSegmenter.SCHEME, s, Map.of("spare-ids", "4")).train(PieceCounts.empty())
         .vocabularySize());
     // the provider checks the combination when the learner is made, naming the settings
-    IllegalArgumentException size = assertThrows(IllegalArgumentException.class, () -> Learners.learner(ByteSegmenter.KIND, s));
+    IllegalArgumentException size = assertThrows(IllegalArgumentException.class, () -> Learners.learner(ByteSegmenter.SCHEME, s));
     assertTrue(size.getMessage().contains("vocabularySize=260") && size.getMessage().contains("spare-ids=0"), size.getMessage());
     IllegalArgumentException unknown = assertThrows(IllegalArgumentException.class,
-        () -> Learners.learner(ByteSegmenter.KIND, s, "spare=4"));
+        () -> Learners.learner(ByteSegmenter.SCHEME, s, "spare=4"));
     assertEquals("test-bytes has no option 'spare'; its options: spare-ids", unknown.getMessage());
     IllegalArgumentException value = assertThrows(IllegalArgumentException.class,
-        () -> Learners.learner(ByteSegmenter.KIND, s, "spare-ids=four"));
+        () -> Learners.learner(ByteSegmenter.SCHEME, s, "spare-ids=four"));
     assertEquals("test-bytes option spare-ids=four is not an integer", value.getMessage());
     IllegalArgumentException range = assertThrows(IllegalArgumentException.class,
-        () -> Learners.learner(ByteSegmenter.KIND, s, "spare-ids=-1"));
+        () -> Learners.learner(ByteSegmenter.SCHEME, s, "spare-ids=-1"));
     assertEquals("test-bytes option spare-ids=-1 is outside [0, 65536]", range.getMessage());
     IllegalArgumentException form = assertThrows(IllegalArgumentException.class,
-        () -> Learners.learner(ByteSegmenter.KIND, s, "spare-ids=4", "four"));
+        () -> Learners.learner(ByteSegmenter.SCHEME, s, "spare-ids=4", "four"));
     assertEquals("options[1] 'four' is not name=value", form.getMessage());
   }
 

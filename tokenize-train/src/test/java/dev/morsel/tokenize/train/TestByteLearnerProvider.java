@@ -20,7 +20,7 @@ public final class TestByteLearnerProvider implements LearnerProvider {
 
   @Override
   public String scheme() {
-    return ByteSegmenter.KIND;
+    return ByteSegmenter.SCHEME;
   }
 
   @Override
@@ -45,7 +45,7 @@ public final class TestByteLearnerProvider implements LearnerProvider {
     return new Learner() {
       @Override
       public String scheme() {
-        return ByteSegmenter.KIND;
+        return ByteSegmenter.SCHEME;
       }
 
       @Override

@@ -18,7 +18,7 @@ import java.util.SplittableRandom;
 /**
  * What a unigram tokenizer can do beyond {@link Tokenizer#encode}: list the best segmentations of a
  * text, draw one at random for subword regularization [1], read a token's log-probability. Works on
- * any tokenizer of kind {@value #KIND}, learned or loaded, without casts; every call goes through the
+ * any tokenizer of scheme {@value #SCHEME}, learned or loaded, without casts; every call goes through the
  * tokenizer's reserved-token scan, normalization, splitting and framing like an encode call, and
  * every result has offsets into the original text. Stateless and thread-safe.
  *
@@ -41,7 +41,7 @@ import java.util.SplittableRandom;
  */
 public final class Unigram {
   /** The kind of unigram tokenizers: {@value}. */
-  public static final String KIND = UnigramSegmenter.KIND;
+  public static final String SCHEME = UnigramSegmenter.SCHEME;
   /** Largest {@code k} accepted by {@link #nBest}. */
   public static final int MAX_N_BEST = UnigramSegmenter.MAX_N_BEST;
 
@@ -57,7 +57,7 @@ public final class Unigram {
    * the tokenizer's own encoding up to ties of equal score. Reserved tokens of trusted text and
    * framing markers are the same in every one.
    *
-   * @throws IllegalArgumentException if {@code tokenizer} is not of kind {@value #KIND} (naming its
+   * @throws IllegalArgumentException if {@code tokenizer} is not of scheme {@value #SCHEME} (naming its
    *     kind), or {@code k} is outside {@code [1, MAX_N_BEST]}
    */
   public static List<Segmentation> nBest(Tokenizer tokenizer, CharSequence text, int k, Trust trust) {
@@ -108,7 +108,7 @@ public final class Unigram {
    * arguments give equal results. Small {@code alpha} flattens the distribution; large values
    * approach the tokenizer's own encoding.
    *
-   * @throws IllegalArgumentException if {@code tokenizer} is not of kind {@value #KIND} (naming its
+   * @throws IllegalArgumentException if {@code tokenizer} is not of scheme {@value #SCHEME} (naming its
    *     kind), or {@code alpha} is not a positive finite number
    */
   public static Tokens sample(Tokenizer tokenizer, CharSequence text, double alpha, long seed, Trust trust) {
@@ -124,7 +124,7 @@ public final class Unigram {
    * The log-probability of token {@code id}: a piece's score, the unknown token's penalty, or
    * {@link Double#NaN} for reserved and byte tokens.
    *
-   * @throws IllegalArgumentException if {@code tokenizer} is not of kind {@value #KIND}
+   * @throws IllegalArgumentException if {@code tokenizer} is not of scheme {@value #SCHEME}
    * @throws IndexOutOfBoundsException if {@code id} is not in the vocabulary
    */
   public static double score(Tokenizer tokenizer, int id) {

@@ -67,7 +67,7 @@ public final class UnigramLearner implements Learner {
 
   @Override
   public String scheme() {
-    return Unigram.KIND;
+    return Unigram.SCHEME;
   }
 
   /**

@@ -34,7 +34,7 @@ class ModuleDescriptorTest {
   void providesTheSegmenterAndItsLearnerOnTheModulePathAndTheClassPathAlike() {
     ModuleChecks.assertProvides(PROVIDERS, LEARNERS);
     // on the class path (how these tests run) the api's loader finds them by kind
-    assertTrue(Tokenizers.kinds().containsAll(Set.of("unigram")), "kinds found: " + Tokenizers.kinds());
+    assertTrue(Tokenizers.schemes().containsAll(Set.of("unigram")), "schemes found: " + Tokenizers.schemes());
     assertTrue(Learners.schemes().contains("unigram"), "schemes found: " + Learners.schemes());
   }
 

@@ -36,11 +36,11 @@ class ModelSectionsTest {
 
   private static SegmenterProvider provider() {
     for (SegmenterProvider p : ServiceLoader.load(SegmenterProvider.class)) {
-      if (p.kind().equals(UnigramSegmenter.KIND)) {
+      if (p.scheme().equals(UnigramSegmenter.SCHEME)) {
         return p;
       }
     }
-    throw new AssertionError("no SegmenterProvider of kind unigram on the class path (META-INF/services)");
+    throw new AssertionError("no SegmenterProvider of scheme unigram on the class path (META-INF/services)");
   }
 
   private static int[] encode(Segmenter s, String text) {
@@ -57,7 +57,7 @@ class ModelSectionsTest {
       m.write(w);
       Segmenter back = provider().read(Sections.of(w), dev.morsel.tokenize.format.ModelLimits.defaults());
       assertEquals(m.vocabularySize(), back.vocabularySize());
-      assertEquals(UnigramSegmenter.KIND, back.kind());
+      assertEquals(UnigramSegmenter.SCHEME, back.scheme());
       assertEquals(m.unknownId(), back.unknownId());
       for (int id = 0; id < m.vocabularySize(); id++) {
         assertEquals(m.token(id), back.token(id), "id " + id);

@@ -19,7 +19,7 @@ import org.junit.jupiter.params.ParameterizedTest;
 import org.junit.jupiter.params.provider.Arguments;
 import org.junit.jupiter.params.provider.MethodSource;
 
-/** Trainer settings, determinism and bad input, on invented passenger messages to a ferry operator. */
+/** Learner settings, determinism and bad input, on invented passenger messages to a ferry operator. */
 class UnigramLearnerTest {
   private static final String[] PHRASES = {
       "the morning ferry to Skerryholm is delayed by forty minutes",

@@ -62,7 +62,7 @@ class UnigramTest {
   @Test
   void worksOnLearnedAndLoadedTokenizersAlike() {
     assertEquals(FOLDED, learned.pipeline());
-    assertEquals(Unigram.KIND, loaded.kind());
+    assertEquals(Unigram.SCHEME, loaded.scheme());
     String text = "The FERRY to Harrowmere leaves at 07:40.";
     assertEquals(Unigram.nBest(learned, text, 5), Unigram.nBest(loaded, text, 5));
     assertEquals(Unigram.sample(learned, text, 0.3, 11), Unigram.sample(loaded, text, 0.3, 11));
@@ -243,7 +243,7 @@ class UnigramTest {
   void otherKindsAndBadArgumentsAreRefusedByName() {
     Tokenizer bytes = Tokenizers.of(Pipeline.defaults(), new ByteSegmenter(0));
     IllegalArgumentException kind = assertThrows(IllegalArgumentException.class, () -> Unigram.nBest(bytes, "ferry", 2));
-    assertEquals("Unigram.nBest needs a tokenizer of kind 'unigram'; this one is of kind 'test-bytes'", kind.getMessage());
+    assertEquals("Unigram.nBest needs a tokenizer of scheme 'unigram'; this one is of scheme 'test-bytes'", kind.getMessage());
     assertThrows(IllegalArgumentException.class, () -> Unigram.sample(bytes, "ferry", 0.5, 1));
     assertThrows(IllegalArgumentException.class, () -> Unigram.score(bytes, 0));
     assertTrue(assertThrows(IllegalArgumentException.class, () -> Unigram.nBest(loaded, "ferry", 0)).getMessage()

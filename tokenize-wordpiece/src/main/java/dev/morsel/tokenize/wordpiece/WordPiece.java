@@ -11,14 +11,14 @@ import java.util.Objects;
 
 /**
  * What a WordPiece tokenizer offers beyond {@link Tokenizer}: which tokens continue a word, its
- * marker, a tokenizer from a vocabulary list, another piece limit. Works on any tokenizer of kind
- * {@value #KIND}, learned or loaded, without casts. Stateless and thread-safe.
+ * marker, a tokenizer from a vocabulary list, another piece limit. Works on any tokenizer of scheme
+ * {@value #SCHEME}, learned or loaded, without casts. Stateless and thread-safe.
  *
  * @since 0.1.0
  */
 public final class WordPiece {
   /** The kind of WordPiece tokenizers: {@value}. */
-  public static final String KIND = WordPieceSegmenter.KIND;
+  public static final String SCHEME = WordPieceSegmenter.SCHEME;
 
   private WordPiece() {}
 
@@ -26,7 +26,7 @@ public final class WordPiece {
    * Whether token {@code id} is a continuation token (spelled with the marker in front; it never
    * starts a piece).
    *
-   * @throws IllegalArgumentException if {@code tokenizer} is not of kind {@value #KIND}
+   * @throws IllegalArgumentException if {@code tokenizer} is not of scheme {@value #SCHEME}
    * @throws IndexOutOfBoundsException if {@code id} is not in the vocabulary
    */
   public static boolean isContinuation(Tokenizer tokenizer, int id) {
@@ -36,7 +36,7 @@ public final class WordPiece {
   /**
    * The continuation marker of {@code tokenizer}.
    *
-   * @throws IllegalArgumentException if {@code tokenizer} is not of kind {@value #KIND}
+   * @throws IllegalArgumentException if {@code tokenizer} is not of scheme {@value #SCHEME}
    */
   public static String marker(Tokenizer tokenizer) {
     return segmenter(tokenizer, "marker").settings().marker();
@@ -46,7 +46,7 @@ public final class WordPiece {
    * The longest piece, in UTF-16 units, that {@code tokenizer} segments (the limit derived from the
    * vocabulary unless one was set); longer pieces become the unknown token.
    *
-   * @throws IllegalArgumentException if {@code tokenizer} is not of kind {@value #KIND}
+   * @throws IllegalArgumentException if {@code tokenizer} is not of scheme {@value #SCHEME}
    */
   public static int maxPieceLength(Tokenizer tokenizer) {
     return segmenter(tokenizer, "maxPieceLength").pieceLimit();
@@ -58,7 +58,7 @@ public final class WordPiece {
    *
    * @param maxPieceLength in UTF-16 units, or {@link WordPieceLearner#DERIVED_PIECE_LENGTH} for the
    *     limit derived from the vocabulary
-   * @throws IllegalArgumentException if {@code tokenizer} is not of kind {@value #KIND}, or
+   * @throws IllegalArgumentException if {@code tokenizer} is not of scheme {@value #SCHEME}, or
    *     {@code maxPieceLength} is outside {@code [0, }{@value WordPieceLearner#MAX_MAX_PIECE_LENGTH}{@code ]}
    */
   public static Tokenizer withMaxPieceLength(Tokenizer tokenizer, int maxPieceLength) {
@@ -89,8 +89,8 @@ public final class WordPiece {
     Objects.requireNonNull(tokenizer, "tokenizer");
     Segmenter s = Tokenizers.segmenterOf(tokenizer);
     if (!(s instanceof WordPieceSegmenter)) {
-      throw new IllegalArgumentException("WordPiece." + what + " needs a tokenizer of kind '" + KIND
-          + "'; this one is of kind '" + tokenizer.kind() + "'");
+      throw new IllegalArgumentException("WordPiece." + what + " needs a tokenizer of scheme '" + SCHEME
+          + "'; this one is of scheme '" + tokenizer.scheme() + "'");
     }
     return (WordPieceSegmenter) s;
   }

@@ -92,7 +92,7 @@ public final class WordPieceLearner implements Learner {
 
   @Override
   public String scheme() {
-    return WordPiece.KIND;
+    return WordPiece.SCHEME;
   }
 
   /**

@@ -55,14 +55,14 @@ class ModelSectionsRoundTripTest {
   void providerIsFoundByKind() {
     SegmenterProvider found = null;
     for (SegmenterProvider p : ServiceLoader.load(SegmenterProvider.class)) {
-      if (p.kind().equals("wordpiece")) {
+      if (p.scheme().equals("wordpiece")) {
         found = p;
       }
     }
-    assertTrue(found != null, "no provider of kind wordpiece on the class path");
+    assertTrue(found != null, "no provider of scheme wordpiece on the class path");
     Segmenter back = found.read(Sections.of(save(sample())), dev.morsel.tokenize.format.ModelLimits.defaults());
     assertEquals(sample().vocabularySize(), back.vocabularySize());
-    assertEquals("wordpiece", back.kind());
+    assertEquals("wordpiece", back.scheme());
   }
 
   private static ModelFormatException corrupt(String tag, Consumer<SectionWriter> body) {

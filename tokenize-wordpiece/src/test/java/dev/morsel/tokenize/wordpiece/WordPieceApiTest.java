@@ -43,7 +43,7 @@ class WordPieceApiTest {
   @Test
   void theLearnedTokenizerEncodesWithTheCountedPipeline() {
     assertEquals(FOLDED, learned.pipeline());
-    assertEquals(WordPiece.KIND, learned.kind());
+    assertEquals(WordPiece.SCHEME, learned.scheme());
     assertArrayEquals(learned.encode("the harbour").ids(), learned.encode("THE HARBOUR").ids());
     assertEquals(learned.fingerprint(), Tokenizers.load(learned.toBytes()).fingerprint());
   }
@@ -140,6 +140,6 @@ class WordPieceApiTest {
   void otherKindsAreRefusedNamingTheirKind() {
     Tokenizer bytes = Tokenizers.of(Pipeline.defaults(), new ByteSegmenter(0));
     IllegalArgumentException e = assertThrows(IllegalArgumentException.class, () -> WordPiece.marker(bytes));
-    assertEquals("WordPiece.marker needs a tokenizer of kind 'wordpiece'; this one is of kind 'test-bytes'", e.getMessage());
+    assertEquals("WordPiece.marker needs a tokenizer of scheme 'wordpiece'; this one is of scheme 'test-bytes'", e.getMessage());
   }
 }

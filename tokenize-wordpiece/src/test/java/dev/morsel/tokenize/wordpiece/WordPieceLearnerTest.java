@@ -25,8 +25,8 @@ import org.junit.jupiter.params.ParameterizedTest;
 import org.junit.jupiter.params.provider.MethodSource;
 
 /**
- * Trainer checks: merges computed by hand on a tiny ferry corpus, agreement with an independent
- * textbook trainer (full recount every merge) on seeded random corpora, and bad input.
+ * Learner checks: merges computed by hand on a tiny ferry corpus, agreement with an independent
+ * textbook learner (full recount every merge) on seeded random corpora, and bad input.
  */
 class WordPieceLearnerTest {
   /** Every character in the alphabet: these tests are about merging, and their vocabularies are tiny. */
@@ -193,7 +193,7 @@ class WordPieceLearnerTest {
 
   @ParameterizedTest
   @MethodSource("seeds")
-  void agreesWithTextbookTrainer(long seed) {
+  void agreesWithTextbookLearner(long seed) {
     SplittableRandom rnd = new SplittableRandom(seed);
     String alphabet = "abcde".substring(0, 2 + rnd.nextInt(4));
     Map<String, Long> corpus = new TreeMap<>();
@@ -211,7 +211,7 @@ class WordPieceLearnerTest {
     boolean gain = rnd.nextInt(4) != 0;
     long floor = rnd.nextInt(3) == 0 ? 1 + rnd.nextInt(6) : 1;
     List<String> expected = textbook(corpus, reserved, extra, gain, floor);
-    // an explicit piece limit above every piece: the textbook trainer keeps all pieces, while the
+    // an explicit piece limit above every piece: the textbook learner keeps all pieces, while the
     // derived limit would leave out pieces longer than these tiny vocabularies
     WordPieceSegmenter s = WordPieceTraining.builder().alphabet(EVERY).reservedTokens(reserved).minPairCount(floor)
         .settings(WordPieceSettings.defaults().withMaxPieceLength(64))

@@ -36,7 +36,7 @@ public final class BpeLearnerProvider implements LearnerProvider {
 
   @Override
   public String scheme() {
-    return BpeSegmenter.KIND;
+    return BpeSegmenter.SCHEME;
   }
 
   @Override

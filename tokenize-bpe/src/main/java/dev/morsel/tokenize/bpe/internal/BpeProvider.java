@@ -13,8 +13,8 @@ public final class BpeProvider implements SegmenterProvider {
   public BpeProvider() {}
 
   @Override
-  public String kind() {
-    return BpeSegmenter.KIND;
+  public String scheme() {
+    return BpeSegmenter.SCHEME;
   }
 
   @Override

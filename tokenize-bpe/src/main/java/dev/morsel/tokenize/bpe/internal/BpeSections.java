@@ -15,13 +15,13 @@ import java.util.List;
  * {@link SectionWriter}).
  *
  * <pre>
- * BPEC  settings
+ * BPST  settings
  *   u32 layout version (1)
  *   u32 reserved count k (&lt;= {@link ModelLimits#maxReservedTokens()})
  *   k x (u32 byte length, UTF-8 spelling)   reserved spellings in id order (ids 0..k-1)
  *   u32 cache size (entries, 0 = off, &lt;= {@link #MAX_CACHE_ENTRIES}); writers put the default here,
  *       since the cache is a runtime setting that changes no result and so must not change the fingerprint
- * BPEM  merges
+ * BPMG  merges
  *   u32 merge count m (&lt;= {@link ModelLimits#maxMerges()})
  *   m x (u32 left id, u32 right id)           in rank order; merge r is id k+256+r
  * </pre>
@@ -30,9 +30,9 @@ import java.util.List;
  */
 public final class BpeSections {
   /** Settings section tag. */
-  public static final String SETTINGS = "BPEC";
+  public static final String SETTINGS = "BPST";
   /** Merges section tag. */
-  public static final String MERGES = "BPEM";
+  public static final String MERGES = "BPMG";
   /** Layout version written in {@link #SETTINGS}. */
   public static final int VERSION = 1;
   /** Largest cache accepted, in entries (16 Mi slots = 64 MiB of references). */

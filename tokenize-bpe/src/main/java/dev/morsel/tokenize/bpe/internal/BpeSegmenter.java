@@ -50,7 +50,7 @@ import java.util.SplittableRandom;
  */
 public final class BpeSegmenter implements Segmenter {
   /** Kind name in model files. */
-  public static final String KIND = "bpe";
+  public static final String SCHEME = "bpe";
   /**
    * Default piece cache size, in entries (one entry = one distinct piece of up to 256 UTF-16 units and
    * its tokens; 65,536 entries cover the frequent pieces of a typical language with a few MiB).
@@ -118,7 +118,7 @@ public final class BpeSegmenter implements Segmenter {
   }
 
   /**
-   * Reads a segmenter from its model sections ({@code BPEC}, {@code BPEM}).
+   * Reads a segmenter from its model sections ({@code BPST}, {@code BPMG}).
    *
    * @throws ModelFormatException naming the section and the entry that is wrong
    */
@@ -196,8 +196,8 @@ public final class BpeSegmenter implements Segmenter {
   // ------------------------------------------------------------------ API
 
   @Override
-  public String kind() {
-    return KIND;
+  public String scheme() {
+    return SCHEME;
   }
 
   @Override
@@ -216,7 +216,7 @@ public final class BpeSegmenter implements Segmenter {
     return token == null ? -1 : vocab.id(token);
   }
 
-  /** The reserved tokens given to the trainer, ids {@code 0..k-1}, for assembling a tokenizer. */
+  /** The reserved tokens given to the learner, ids {@code 0..k-1}, for assembling a tokenizer. */
   public ReservedTokens reservedTokens() {
     return reservedTokens;
   }

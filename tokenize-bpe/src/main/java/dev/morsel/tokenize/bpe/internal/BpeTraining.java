@@ -108,7 +108,7 @@ public final class BpeTraining implements Learner {
 
   @Override
   public String scheme() {
-    return BpeSegmenter.KIND;
+    return BpeSegmenter.SCHEME;
   }
 
   /** Learns the segmenter alone. */
@@ -139,7 +139,7 @@ public final class BpeTraining implements Learner {
       }
       // derived cap: none; an alphabet character costs an id only when a merge that assembles it wins
       chosen = alphabet.select(PieceCounts.of(within.toArray(new String[0]), wc), Integer.MAX_VALUE, true);
-      listener.alphabet(BpeSegmenter.KIND, chosen);
+      listener.alphabet(BpeSegmenter.SCHEME, chosen);
     }
     long pairTotal = 0;
     for (int i = 0; i < within.size(); i++) {
@@ -283,7 +283,7 @@ public final class BpeTraining implements Learner {
     }
 
     /**
-     * The trainer.
+     * The learner.
      *
      * @throws IllegalArgumentException naming the setting that is out of range or the reserved token
      *     that is invalid

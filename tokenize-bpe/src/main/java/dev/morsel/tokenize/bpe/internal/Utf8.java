@@ -4,7 +4,7 @@ import java.io.ByteArrayOutputStream;
 import java.util.Arrays;
 
 /**
- * UTF-8 encoding as the segmenter and trainer see text: a surrogate pair is one supplementary
+ * UTF-8 encoding as the segmenter and learner see text: a surrogate pair is one supplementary
  * character (four bytes); a lone surrogate is encoded as U+FFFD (EF BF BD). Normalization already
  * replaces lone surrogates; this is the same rule applied defensively.
  */

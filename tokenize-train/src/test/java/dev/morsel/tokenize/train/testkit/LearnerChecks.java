@@ -63,8 +63,8 @@ public final class LearnerChecks {
     LearnerProvider provider = Learners.provider(scheme);
     assertEquals(scheme, provider.scheme());
     assertTrue(!provider.description().isBlank(), "a description for listings");
-    assertTrue(Tokenizers.kinds().contains(scheme), "the scheme loads through the segmenter of the same name: "
-        + Tokenizers.kinds());
+    assertTrue(Tokenizers.schemes().contains(scheme), "the scheme loads through the segmenter of the same name: "
+        + Tokenizers.schemes());
 
     LearnerSettings settings = LearnerSettings.of(SIZE).withThreads(2).withReservedTokens(List.of(AGENT));
     Learner learner = Learners.learner(scheme, settings);
@@ -96,7 +96,7 @@ public final class LearnerChecks {
    * {@link #AGENT} as reserved id 0.
    */
   public static void assertBoundTo(Tokenizer t, PieceCounts counts, String scheme) {
-    assertEquals(scheme, t.kind());
+    assertEquals(scheme, t.scheme());
     assertEquals(counts.pipeline(), t.pipeline(), "the learned tokenizer encodes with the pipeline the pieces were counted with");
     assertNotEquals(Pipeline.defaults(), t.pipeline());
     assertEquals(0, t.reservedTokens().id(AGENT), "reserved tokens: " + t.reservedTokens());

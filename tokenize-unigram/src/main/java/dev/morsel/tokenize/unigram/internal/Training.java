@@ -150,7 +150,7 @@ public final class Training implements Learner {
 
   @Override
   public String scheme() {
-    return UnigramSegmenter.KIND;
+    return UnigramSegmenter.SCHEME;
   }
 
   /** Learns from {@code counts}; the tokenizer encodes with their pipeline. */
@@ -204,7 +204,7 @@ public final class Training implements Learner {
           + ", 1 unknown token and an alphabet of " + alphabet.size() + " characters (lower the alphabet's maxSize"
           + " or coverage)");
     }
-    listener.alphabet(UnigramSegmenter.KIND, alphabet);
+    listener.alphabet(UnigramSegmenter.SCHEME, alphabet);
     // the runs of alphabet characters between the left-out ones, merged where equal (first-seen order)
     Object2IntOpenHashMap<String> runIndex = new Object2IntOpenHashMap<>();
     runIndex.defaultReturnValue(-1);

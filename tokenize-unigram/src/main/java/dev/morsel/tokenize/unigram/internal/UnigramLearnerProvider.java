@@ -49,7 +49,7 @@ public final class UnigramLearnerProvider implements LearnerProvider {
 
   @Override
   public String scheme() {
-    return UnigramSegmenter.KIND;
+    return UnigramSegmenter.SCHEME;
   }
 
   @Override

@@ -30,8 +30,8 @@ public final class UnigramProvider implements SegmenterProvider {
   public UnigramProvider() {}
 
   @Override
-  public String kind() {
-    return UnigramSegmenter.KIND;
+  public String scheme() {
+    return UnigramSegmenter.SCHEME;
   }
 
   @Override

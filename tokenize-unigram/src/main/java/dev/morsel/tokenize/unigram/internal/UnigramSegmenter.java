@@ -52,7 +52,7 @@ public final class UnigramSegmenter implements Segmenter {
   // ------------------------------------------------------------------ configuration
 
   /** The kind name in model files: {@value}. */
-  public static final String KIND = "unigram";
+  public static final String SCHEME = "unigram";
   /** Default spelling of the unknown token. */
   public static final String DEFAULT_UNKNOWN = "\u2983?\u2984";
   /** Longest piece accepted, in UTF-16 units (bounds the work per position at Viterbi time). */
@@ -134,7 +134,7 @@ public final class UnigramSegmenter implements Segmenter {
   /**
    * The unigram segmenter of {@code tokenizer}.
    *
-   * @throws IllegalArgumentException if {@code tokenizer} is not of kind {@value #KIND}, naming its kind
+   * @throws IllegalArgumentException if {@code tokenizer} is not of scheme {@value #SCHEME}, naming its kind
    */
   public static UnigramSegmenter of(Tokenizer tokenizer) {
     return of(tokenizer, "this operation");
@@ -144,13 +144,13 @@ public final class UnigramSegmenter implements Segmenter {
    * The unigram segmenter of {@code tokenizer}.
    *
    * @param what the operation that needs it, for the message
-   * @throws IllegalArgumentException if {@code tokenizer} is not of kind {@value #KIND}, naming its kind
+   * @throws IllegalArgumentException if {@code tokenizer} is not of scheme {@value #SCHEME}, naming its kind
    */
   public static UnigramSegmenter of(Tokenizer tokenizer, String what) {
     Segmenter s = Tokenizers.segmenterOf(Objects.requireNonNull(tokenizer, "tokenizer"));
     if (!(s instanceof UnigramSegmenter)) {
-      throw new IllegalArgumentException(what + " needs a tokenizer of kind '" + KIND + "'; this one is of kind '"
-          + tokenizer.kind() + "'");
+      throw new IllegalArgumentException(what + " needs a tokenizer of scheme '" + SCHEME + "'; this one is of scheme '"
+          + tokenizer.scheme() + "'");
     }
     return (UnigramSegmenter) s;
   }
@@ -284,8 +284,8 @@ public final class UnigramSegmenter implements Segmenter {
   // ------------------------------------------------------------------ API
 
   @Override
-  public String kind() {
-    return KIND;
+  public String scheme() {
+    return SCHEME;
   }
 
   @Override
@@ -699,7 +699,7 @@ public final class UnigramSegmenter implements Segmenter {
 
   // ------------------------------------------------------------------ internals
 
-  /** The pieces, in id order (for the trainer and tests). */
+  /** The pieces, in id order (for the learner and tests). */
   String[] pieces() {
     return pieces.clone();
   }

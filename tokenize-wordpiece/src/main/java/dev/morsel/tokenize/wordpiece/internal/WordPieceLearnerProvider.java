@@ -49,7 +49,7 @@ public final class WordPieceLearnerProvider implements LearnerProvider {
 
   @Override
   public String scheme() {
-    return WordPieceSegmenter.KIND;
+    return WordPieceSegmenter.SCHEME;
   }
 
   @Override
@@ -92,7 +92,7 @@ public final class WordPieceLearnerProvider implements LearnerProvider {
     return new Learner() {
       @Override
       public String scheme() {
-        return WordPieceSegmenter.KIND;
+        return WordPieceSegmenter.SCHEME;
       }
 
       @Override

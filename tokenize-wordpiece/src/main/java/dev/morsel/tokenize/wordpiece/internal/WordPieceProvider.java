@@ -8,7 +8,7 @@ import dev.morsel.tokenize.spi.Segmenter;
 import dev.morsel.tokenize.spi.SegmenterProvider;
 
 /**
- * Finds {@link WordPieceSegmenter} by kind {@value WordPieceSegmenter#KIND} through
+ * Finds {@link WordPieceSegmenter} by kind {@value WordPieceSegmenter#SCHEME} through
  * {@link java.util.ServiceLoader}. Not part of the API.
  */
 public final class WordPieceProvider implements SegmenterProvider {
@@ -16,8 +16,8 @@ public final class WordPieceProvider implements SegmenterProvider {
   public WordPieceProvider() {}
 
   @Override
-  public String kind() {
-    return WordPieceSegmenter.KIND;
+  public String scheme() {
+    return WordPieceSegmenter.SCHEME;
   }
 
   @Override

@@ -56,7 +56,7 @@ import java.util.Objects;
  */
 public final class WordPieceSegmenter implements Segmenter {
   /** The kind name written in model files. */
-  public static final String KIND = "wordpiece";
+  public static final String SCHEME = "wordpiece";
   /** Section tag of the settings. */
   public static final String SETTINGS_TAG = "WPST";
   /** Section tag of the vocabulary. */
@@ -336,8 +336,8 @@ public final class WordPieceSegmenter implements Segmenter {
   // ------------------------------------------------------------------ API
 
   @Override
-  public String kind() {
-    return KIND;
+  public String scheme() {
+    return SCHEME;
   }
 
   @Override

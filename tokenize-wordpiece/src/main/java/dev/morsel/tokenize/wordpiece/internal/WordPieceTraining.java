@@ -65,7 +65,7 @@ import java.util.Set;
  * </ol>
  *
  * <p>Exactness of the incremental merge loop: a pair's score depends on count(ab), count(a),
- * count(b) and (gain only) N. After each merge the trainer pushes a fresh heap entry for every pair
+ * count(b) and (gain only) N. After each merge the learner pushes a fresh heap entry for every pair
  * whose count changed and for every live pair that contains a, b or ab (kept per unit in a pair
  * set). N only falls, and the gain rises with N for fixed counts (each step of its computation is
  * monotone: exact or correctly rounded products and quotient, a semi-monotone log, a positive
@@ -124,7 +124,7 @@ public final class WordPieceTraining implements Learner {
   public static final long DEFAULT_MIN_PAIR_COUNT = 1;
 
   /**
-   * How the trainer ranks candidate pairs (a, b); both are likelihood-based after [1].
+   * How the learner ranks candidate pairs (a, b); both are likelihood-based after [1].
    *
    * @since 0.1.0
    */
@@ -270,7 +270,7 @@ public final class WordPieceTraining implements Learner {
     }
 
     /**
-     * The trainer.
+     * The learner.
      *
      * @throws IllegalArgumentException if a reserved token equals the unknown spelling
      */
@@ -318,7 +318,7 @@ public final class WordPieceTraining implements Learner {
 
   @Override
   public String scheme() {
-    return WordPieceSegmenter.KIND;
+    return WordPieceSegmenter.SCHEME;
   }
 
   /** Learns the segmenter alone from {@code counts}. */
@@ -481,7 +481,7 @@ public final class WordPieceTraining implements Learner {
       Alphabet chosen = alphabet.select(kept, derivedAlphabetCap(vocabularySize,
           reservedTokens.size() + (settings.byteSpelling() ? 256 : 0)), settings.byteSpelling());
       chosenAlphabet = chosen;
-      listener.alphabet(WordPieceSegmenter.KIND, chosen);
+      listener.alphabet(WordPieceSegmenter.SCHEME, chosen);
       int keep = chosen.size();
       int[] cps = new int[keep];
       int[] order = new int[keep];

@@ -32,12 +32,12 @@ import org.junit.jupiter.api.Timeout;
 import org.junit.jupiter.api.io.TempDir;
 
 /**
- * Trainers fed what nobody should feed them: each gives a clear error naming the setting or the
+ * Learners fed what nobody should feed them: each gives a clear error naming the setting or the
  * input, or the documented behaviour, and never hangs. The class-level {@link Timeout} is a hang
  * guard only (ten times what a run needs on a slow machine), not a speed check.
  */
 @Timeout(600)
-class TrainerAbuseTest {
+class LearnerAbuseTest {
   @TempDir
   Path dir;
 
@@ -71,7 +71,7 @@ class TrainerAbuseTest {
     IllegalArgumentException w = assertThrows(IllegalArgumentException.class,
         () -> wordPiece(300).train(PieceCounts.empty()));
     assertTrue(w.getMessage().contains("minCount") || w.getMessage().contains("empty"), w.getMessage());
-    // an empty file and a file of empty lines count to nothing, which the trainers then refuse
+    // an empty file and a file of empty lines count to nothing, which the learners then refuse
     Path empty = Files.write(dir.resolve("empty.txt"), new byte[0]);
     Path blank = Files.write(dir.resolve("blank.txt"), "\n\n\r\n".getBytes(StandardCharsets.US_ASCII));
     PieceCounts none = PieceCounter.builder().threads(2).build().countFiles(List.of(empty, blank));
@@ -174,7 +174,7 @@ class TrainerAbuseTest {
 
   @Test
   void countsBeyondIntGiveTheSameModelAsScaledDownCounts() {
-    // scaling every count by 2^32 keeps every comparison the trainers make: BPE compares weighted
+    // scaling every count by 2^32 keeps every comparison the learners make: BPE compares weighted
     // pair counts; WordPiece's score count(ab) / (count(a) count(b)) scales by 2^-32, exactly in
     // binary floating point, and its tie-break compares count(ab)
     PieceCounts small = PieceCounter.builder().threads(2).build().count(Europarl.bodies().subList(0, 200));
@@ -202,7 +202,7 @@ class TrainerAbuseTest {
 
   /** Regression: a pair count that overflowed a long wrapped around, and BPE silently learned no merge. */
   @Test
-  void bpeTrainerRefusesPairCountsThatWouldOverflowALong() {
+  void bpeLearnerRefusesPairCountsThatWouldOverflowALong() {
     // the total fits a long, but the pair (a, a) occurs 7 times in the piece: 7 * 2^61 does not
     PieceCounts heavy = PieceCounts.of(Map.of("aaaaaaaa", 1L << 61, "ferry", 3L));
     IllegalArgumentException e = assertThrows(IllegalArgumentException.class, () -> bpe(300).train(heavy));
@@ -214,7 +214,7 @@ class TrainerAbuseTest {
 
   /** Regression: unit and pair counts of WordPiece training wrapped around silently. */
   @Test
-  void wordPieceTrainerRefusesCountsThatWouldOverflowALong() {
+  void wordPieceLearnerRefusesCountsThatWouldOverflowALong() {
     PieceCounts heavy = PieceCounts.of(Map.of("aaaaaaaa", 1L << 61, "ferry", 3L));
     IllegalArgumentException e = assertThrows(IllegalArgumentException.class, () -> wordPiece(300).train(heavy));
     assertTrue(e.getMessage().contains("overflow"), e.getMessage());
@@ -225,7 +225,7 @@ class TrainerAbuseTest {
   /**
    * Regression: one 100 MB line without a break is one piece, and training on it took time that
    * grows with its length times the merges (a 10 MB piece: 40 s for BPE, 277 s for WordPiece, for
-   * 400 ids) — a hang at 100 MB. Both trainers now leave such pieces out, as documented.
+   * 400 ids) — a hang at 100 MB. Both learners now leave such pieces out, as documented.
    */
   @Test
   void hundredMegabyteLineWithoutABreakIsLeftOutOfTraining() throws IOException {

@@ -23,14 +23,14 @@ import org.junit.jupiter.api.Test;
 import org.junit.jupiter.api.Timeout;
 
 /**
- * The unigram trainer fed what nobody should feed it: each case gives a clear error naming the
+ * The unigram learner fed what nobody should feed it: each case gives a clear error naming the
  * setting or the input, or the documented behaviour, and never hangs. The class-level
  * {@link Timeout} is a hang guard only (far above what a run needs), not a speed check. Invalid
- * UTF-8 in a corpus file is the piece counter's concern, shared by every trainer and tested with
- * the BPE and WordPiece trainers.
+ * UTF-8 in a corpus file is the piece counter's concern, shared by every learner and tested with
+ * the BPE and WordPiece learners.
  */
 @Timeout(300)
-class TrainerAbuseTest {
+class LearnerAbuseTest {
   /** Every character in the alphabet, whatever the vocabulary size. */
   static final AlphabetPolicy EVERY = AlphabetPolicy.of(1.0, Integer.MAX_VALUE);
   static UnigramLearner unigram(int vocabularySize) {
@@ -125,7 +125,7 @@ class TrainerAbuseTest {
       assertTrue(Double.isFinite(b.score(id)), "score of id " + id);
     }
     int pieces = a.vocabularySize() - a.firstPieceId();
-    System.out.println("[unigram trainer abuse] counts x 2^32: " + same + " of " + pieces + " pieces in common");
+    System.out.println("[unigram learner abuse] counts x 2^32: " + same + " of " + pieces + " pieces in common");
     assertEquals(pieces, same, "pieces in common");
     Tokenizer t = tokenizer(b);
     String text = Europarl.bodies().get(150);

@@ -20,8 +20,8 @@ import org.junit.jupiter.api.Test;
 import org.junit.jupiter.params.ParameterizedTest;
 import org.junit.jupiter.params.provider.MethodSource;
 
-/** Trainer: the paper's worked example, a textbook oracle on random corpora, settings. */
-class TrainerTest {
+/** Learner: the paper's worked example, a textbook oracle on random corpora, settings. */
+class BpeLearnerTest {
 
   /** Our end-of-word marker for the paper's toy dictionary: '~' (one byte, so one symbol). */
   private static final String END = "~";
@@ -70,7 +70,7 @@ class TrainerTest {
 
   @ParameterizedTest
   @MethodSource("seeds")
-  void equalsTextbookTrainerOnRandomCorpora(long seed) {
+  void equalsTextbookLearnerOnRandomCorpora(long seed) {
     SplittableRandom rnd = new SplittableRandom(seed);
     String[] alphabets = {"ab", "aab", "abc", "a", "xyé", "ab ", "ø🚢a"};
     String alpha = alphabets[rnd.nextInt(alphabets.length)];
