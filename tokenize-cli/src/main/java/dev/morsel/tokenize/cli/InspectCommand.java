@@ -57,6 +57,9 @@ final class InspectCommand implements Callable<Integer> {
     o.printf(Locale.ROOT, "reserved tokens  %s%n", t.reservedTokens().isEmpty() ? "none" : describeReserved(t));
     o.printf(Locale.ROOT, "unknown token    %s%n", t.unknownId() < 0 ? "none (every input is representable)"
         : t.unknownId() + " " + quote(t.token(t.unknownId())));
+    dev.morsel.tokenize.format.AlphabetRecord alphabet =
+        dev.morsel.tokenize.format.AlphabetRecord.read(dev.morsel.tokenize.format.ModelFile.read(model));
+    o.printf(Locale.ROOT, "alphabet         %s%n", alphabet == null ? "not recorded" : alphabet.summary());
     o.printf(Locale.ROOT, "file size        %,d bytes%n", Files.size(model));
     if (top > 0) {
       o.println();

@@ -95,12 +95,13 @@ final class SweepCommand implements Callable<Integer> {
     List<Path> files = Inputs.expand(corpus);
     Map<String, List<String>> groups = read(files, badUtf8.policy(), spec.commandLine().getErr(), "sweep");
     List<Sweep.Row> rows;
+    List<Sweep.ScriptRow> scripts = new java.util.ArrayList<>();
     try (Progress progress = Progress.onTerminal()) {
       rows = Sweep.run(groups, every, pipeline, schemes, sizes, options, threads, progress, spec.commandLine().getErr(),
-          (long) (maxWarmup * 1e9));
+          (long) (maxWarmup * 1e9), scripts);
     }
     Report.Meta meta = Report.Meta.of(files, every, pipeline, options.isEmpty() ? "defaults" : String.join(" ", options));
-    write(rows, out, "Vocabulary sweep", meta, spec.commandLine().getOut());
+    write(rows, scripts, out, "Vocabulary sweep", meta, spec.commandLine().getOut());
     return 0;
   }
 
@@ -128,10 +129,12 @@ final class SweepCommand implements Callable<Integer> {
     return groups;
   }
 
-  static void write(List<Sweep.Row> rows, Path dir, String title, Report.Meta meta, PrintWriter o) throws java.io.IOException {
+  static void write(List<Sweep.Row> rows, List<Sweep.ScriptRow> scripts, Path dir, String title, Report.Meta meta,
+      PrintWriter o) throws java.io.IOException {
     Files.createDirectories(dir);
     Report.csv(rows, dir.resolve("sweep.csv"));
-    Report.html(rows, dir.resolve("sweep.html"), title, meta);
+    Report.scriptsCsv(scripts, dir.resolve("sweep-scripts.csv"));
+    Report.html(rows, scripts, dir.resolve("sweep.html"), title, meta);
     o.printf(Locale.ROOT, "%-10s %9s %11s %12s %14s %9s%n", "scheme", "vocab", "tokens/word", "bytes/token", "unknown/1k ch",
         "MB/s");
     for (Sweep.Row r : rows) {
@@ -146,6 +149,7 @@ final class SweepCommand implements Callable<Integer> {
     }
     o.println("encode speed: one thread, median of " + Sweep.TIMED_ROUNDS + " rounds of at least 50 ms after a warm-up"
         + " until " + Steady.WINDOW + " consecutive rounds agree within 5%");
-    o.println("wrote " + dir.resolve("sweep.csv") + " and " + dir.resolve("sweep.html"));
+    o.println("wrote " + dir.resolve("sweep.csv") + ", " + dir.resolve("sweep-scripts.csv") + " and "
+        + dir.resolve("sweep.html"));
   }
 }

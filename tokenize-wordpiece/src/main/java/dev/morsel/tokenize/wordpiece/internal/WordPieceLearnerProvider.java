@@ -1,6 +1,7 @@
 package dev.morsel.tokenize.wordpiece.internal;
 
 import dev.morsel.tokenize.Tokenizer;
+import dev.morsel.tokenize.train.AlphabetPolicy;
 import dev.morsel.tokenize.train.Learner;
 import dev.morsel.tokenize.train.LearnerOption;
 import dev.morsel.tokenize.train.LearnerOptions;
@@ -12,27 +13,36 @@ import java.util.Locale;
 
 /** Makes WordPiece learners by scheme name; registered for {@link java.util.ServiceLoader}. */
 public final class WordPieceLearnerProvider implements LearnerProvider {
-  static final String MAX_ALPHABET = "max-alphabet";
+  static final String MAX_ALPHABET = AlphabetPolicy.MAX_SIZE_OPTION;
   static final String MIN_PAIR_COUNT = "min-pair-count";
+  static final String BYTE_SPELLING = "byte-spelling";
   static final String SCORE = "score";
   static final String MARKER = "marker";
   static final String UNKNOWN_TOKEN = "unknown-token";
-  /** {@code max-alphabet=auto}: the alphabet takes at most this share of the vocabulary (each code point has two forms). */
-  static final int AUTO_ALPHABET_DIVISOR = 4;
-  static final String AUTO = "auto";
+  static final String AUTO = AlphabetPolicy.AUTO;
 
   private static final List<String> SCORES = List.of(name(WordPieceTraining.Score.LIKELIHOOD_GAIN),
       name(WordPieceTraining.Score.PAIR_RATIO));
 
-  private static final List<LearnerOption> OPTIONS = List.of(
-      LearnerOption.of(MAX_ALPHABET, AUTO,
-          "most distinct code points kept in the alphabet (each has two forms); auto: at most "
-              + WordPieceTraining.DEFAULT_MAX_ALPHABET + " and a quarter of the vocabulary"),
+  private static List<LearnerOption> declared() {
+    List<LearnerOption> all = new java.util.ArrayList<>();
+    all.add(LearnerOption.of(BYTE_SPELLING, AUTO,
+        "characters outside the alphabet are spelled with byte tokens (UTF-8), not the unknown token for their piece;"
+            + " auto: on from " + WordPieceTraining.BYTE_SPELLING_FROM + " ids"));
+    all.addAll(AlphabetPolicy.options(
+        "a quarter of the ids left after the reserved and unknown tokens (each character has two forms)"));
+    all.addAll(MORE);
+    return List.copyOf(all);
+  }
+
+  private static final List<LearnerOption> MORE = List.of(
       LearnerOption.of(MIN_PAIR_COUNT, Long.toString(WordPieceTraining.DEFAULT_MIN_PAIR_COUNT),
           "pairs occurring fewer times are never merged"),
       LearnerOption.of(SCORE, SCORES.get(0), "how candidate pairs are ranked: " + String.join(" or ", SCORES)),
       LearnerOption.of(MARKER, WordPieceSettings.DEFAULT_MARKER, "the prefix that marks a continuation token"),
       LearnerOption.of(UNKNOWN_TOKEN, WordPieceSettings.DEFAULT_UNKNOWN, "the spelling of the unknown token"));
+
+  private static final List<LearnerOption> OPTIONS = declared();
 
   /** For {@link java.util.ServiceLoader}. */
   public WordPieceLearnerProvider() {}
@@ -56,20 +66,24 @@ public final class WordPieceLearnerProvider implements LearnerProvider {
   public Learner learner(LearnerSettings settings, LearnerOptions options) {
     WordPieceSettings wp;
     try {
-      wp = WordPieceSettings.defaults().withMarker(options.string(MARKER)).withUnknownToken(options.string(UNKNOWN_TOKEN));
+      wp = WordPieceSettings.defaults().withMarker(options.string(MARKER)).withUnknownToken(options.string(UNKNOWN_TOKEN))
+          .withByteSpelling(options.string(BYTE_SPELLING).equals(AUTO)
+              ? WordPieceTraining.defaultByteSpelling(settings.vocabularySize()) : options.booleanValue(BYTE_SPELLING));
     } catch (IllegalArgumentException e) {
       throw new IllegalArgumentException(scheme() + " options: " + e.getMessage(), e);
     }
     String score = options.choice(SCORE, SCORES);
-    boolean auto = options.string(MAX_ALPHABET).equals(AUTO);
-    int alphabet = auto ? autoAlphabet(settings.vocabularySize(), settings.reservedTokens().size() + 1)
-        : options.intValue(MAX_ALPHABET, 1, Integer.MAX_VALUE);
+    AlphabetPolicy policy = AlphabetPolicy.fromOptions(options);
+    boolean auto = policy.maxSize() == AlphabetPolicy.DERIVED_MAX_SIZE;
+    int alphabet = auto ? WordPieceTraining.derivedAlphabetCap(settings.vocabularySize(),
+        settings.reservedTokens().size() + (wp.byteSpelling() ? 256 : 0))
+        : policy.maxSize();
     Learner learner = WordPieceTraining.builder()
         .vocabularySize(settings.vocabularySize())
         .minCount(settings.minCount())
         .reservedTokens(settings.reservedTokens())
         .listener(settings.listener())
-        .maxAlphabet(alphabet)
+        .alphabet(policy)
         .minPairCount(options.longValue(MIN_PAIR_COUNT, 1, Long.MAX_VALUE))
         .score(score.equals(SCORES.get(0)) ? WordPieceTraining.Score.LIKELIHOOD_GAIN : WordPieceTraining.Score.PAIR_RATIO)
         .settings(wp)
@@ -87,20 +101,12 @@ public final class WordPieceLearnerProvider implements LearnerProvider {
           return learner.train(counts);
         } catch (IllegalArgumentException e) {
           // in the words of this provider's options
-          throw new IllegalArgumentException(e.getMessage().replace("maxAlphabet=" + alphabet, "option " + MAX_ALPHABET)
-              .replace("lower maxAlphabet", "lower option " + MAX_ALPHABET + note), e);
+          throw new IllegalArgumentException(e.getMessage()
+              .replace("lower the alphabet's maxSize or coverage", "lower option " + MAX_ALPHABET + " or "
+                  + AlphabetPolicy.COVERAGE_OPTION + note), e);
         }
       }
     };
-  }
-
-  /**
-   * {@code max-alphabet=auto}: the learner's default of {@value WordPieceTraining#DEFAULT_MAX_ALPHABET}
-   * code points, lowered so that both forms of every code point take at most half of the vocabulary.
-   */
-  static int autoAlphabet(int vocabularySize, int reservedIds) {
-    int room = (vocabularySize - reservedIds - 1) / AUTO_ALPHABET_DIVISOR;
-    return Math.max(1, Math.min(WordPieceTraining.DEFAULT_MAX_ALPHABET, room));
   }
 
   private static String name(WordPieceTraining.Score s) {
