@@ -45,7 +45,8 @@ final class Digests {
   }
 
   /**
-   * The model fingerprint: SHA-256 over, for each section but {@link ModelFile#TAG_METADATA} in tag
+   * The model fingerprint: SHA-256 over, for each section but {@link ModelFile#TAG_METADATA} and
+   * {@link AlphabetRecord#TAG} (records of how a model was made, not of how it encodes) in tag
    * order, the four tag bytes, the payload length as 8 bytes little-endian, then the payload.
    * {@code payloads} must iterate in tag order (a sorted map); payload positions are not moved.
    */
@@ -53,7 +54,7 @@ final class Digests {
     MessageDigest md = sha256();
     byte[] head = new byte[12];
     for (Map.Entry<String, ByteBuffer> e : payloads.entrySet()) {
-      if (e.getKey().equals(ModelFile.TAG_METADATA)) {
+      if (e.getKey().equals(ModelFile.TAG_METADATA) || e.getKey().equals(AlphabetRecord.TAG)) {
         continue;
       }
       String tag = e.getKey();

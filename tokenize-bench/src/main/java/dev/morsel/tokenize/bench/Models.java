@@ -88,11 +88,11 @@ public final class Models {
   }
 
 
-  /** The 32k unigram model file (byte fallback on), trained on first use. */
+  /** The 32k unigram model file (byte spelling on), trained on first use. */
   public static Path unigramFile() {
     return cached("unigram-32k.morsel", () -> {
       long t0 = System.nanoTime();
-      Tokenizer t = Learners.learner("unigram", LearnerSettings.of(UNIGRAM_SIZE), "raw-bytes=true").train(counts());
+      Tokenizer t = Learners.learner("unigram", LearnerSettings.of(UNIGRAM_SIZE), "byte-spelling=true").train(counts());
       System.err.printf(java.util.Locale.ROOT, "trained unigram %d in %.1f s, peak heap %d MB%n", UNIGRAM_SIZE,
           (System.nanoTime() - t0) / 1e9, peakHeapBytes() >> 20);
       return t;

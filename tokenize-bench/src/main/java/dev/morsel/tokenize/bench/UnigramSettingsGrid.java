@@ -124,8 +124,9 @@ public final class UnigramSettingsGrid {
   }
 
   static UnigramLearner.Builder centre(int size, int threads) {
-    // raw bytes off, as when the grid was measured (docs/unigram.md)
-    return UnigramLearner.builder().vocabularySize(size).threads(threads).rawBytes(false).candidateMultiple(CENTRE_MULTIPLE)
+    // byte spelling off and every character in the alphabet, as when the grid was measured (docs/unigram.md)
+    return UnigramLearner.builder().vocabularySize(size).threads(threads).byteSpelling(false)
+        .alphabet(dev.morsel.tokenize.train.AlphabetPolicy.of(1.0, Integer.MAX_VALUE)).candidateMultiple(CENTRE_MULTIPLE)
         .keepShare(CENTRE_KEEP).emPasses(CENTRE_PASSES).maxTokenCodePoints(CENTRE_CODE_POINTS)
         .seedTableLimit(CENTRE_TABLE);
   }
@@ -193,7 +194,7 @@ public final class UnigramSettingsGrid {
           r.tokensPerWord(), r.trainMillis(), r.cpuMillis(), r.peakLiveMb());
     }
     rows.add(measure(new Point("learner defaults", defaultsLabel(), b -> b),
-        UnigramLearner.builder().vocabularySize(size).threads(threads).rawBytes(false), counts, pipeline, held, words, peak,
+        UnigramLearner.builder().vocabularySize(size).threads(threads).byteSpelling(false), counts, pipeline, held, words, peak,
         repeat));
 
     StringBuilder md = new StringBuilder();

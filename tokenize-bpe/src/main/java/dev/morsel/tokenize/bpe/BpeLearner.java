@@ -171,6 +171,17 @@ public final class BpeLearner implements Learner {
     }
 
     /**
+     * How the alphabet is chosen (default {@link dev.morsel.tokenize.train.AlphabetPolicy#defaults()};
+     * a derived cap is no cap, the coverage alone decides): merges never join the bytes
+     * of a character left out, so no id is spent on rare characters, which encode as byte tokens.
+     * The choice is reported to {@link TrainingListener#alphabet}.
+     */
+    public Builder alphabet(dev.morsel.tokenize.train.AlphabetPolicy policy) {
+      b.alphabet(Objects.requireNonNull(policy, "alphabet"));
+      return this;
+    }
+
+    /**
      * The learner.
      *
      * @throws IllegalArgumentException naming the setting that is out of range or the reserved token

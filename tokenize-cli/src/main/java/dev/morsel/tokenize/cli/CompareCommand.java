@@ -84,18 +84,20 @@ final class CompareCommand implements Callable<Integer> {
     List<String> all = new ArrayList<>();
     groups.values().forEach(all::addAll);
     List<Sweep.Row> rows = new ArrayList<>();
+    List<Sweep.ScriptRow> scripts = new ArrayList<>();
     try (Progress progress = Progress.onTerminal()) {
       for (int i = 0; i < loaded.size(); i++) {
         progress.progress("compare", i, loaded.size(), labels.get(i));
         Tokenizer t = loaded.get(i);
         rows.addAll(Sweep.measureAll(t, labels.get(i), t.vocabularySize(), new LinkedHashMap<>(groups), all, Double.NaN,
             (long) (maxWarmup * 1e9)));
+        scripts.addAll(Sweep.byScript(t, labels.get(i), t.vocabularySize(), all));
       }
       progress.progress("compare", loaded.size(), loaded.size(), "done");
     }
     Report.Meta meta = Report.Meta.of(files, "every non-blank line of each file (text the models were not trained on)",
         loaded.get(0).pipeline(), "").withModels(described);
-    SweepCommand.write(rows, out, "Model comparison", meta, spec.commandLine().getOut(), "compare");
+    SweepCommand.write(rows, scripts, out, "Model comparison", meta, spec.commandLine().getOut(), "compare");
     return 0;
   }
 }

@@ -112,12 +112,13 @@ final class DemoCommand implements Callable<Integer> {
     Map<String, List<String>> groups = SweepCommand.read(files, dev.morsel.tokenize.train.Utf8Lines.Malformed.FAIL,
         spec.commandLine().getErr(), "demo");
     List<Sweep.Row> rows;
+    List<Sweep.ScriptRow> scripts = new java.util.ArrayList<>();
     try (Progress progress = Progress.onTerminal()) {
       rows = Sweep.run(groups, 10, pipeline, Schemes.NAMES, sizes, List.of(), threads, progress, spec.commandLine().getErr(),
-          DEMO_MAX_WARMUP_NANOS);
+          DEMO_MAX_WARMUP_NANOS, scripts);
     }
     Path report = out.resolve("report");
-    SweepCommand.write(rows, report, "Morsel demo: vocabulary sweep on ferry passenger messages",
+    SweepCommand.write(rows, scripts, report, "Morsel demo: vocabulary sweep on ferry passenger messages",
         Report.Meta.of(files, 10, pipeline, "defaults"), o, "sweep");
     o.printf(Locale.ROOT, "%nDone in %.1f s. Open %s in a browser.%n", (System.nanoTime() - t0) / 1e9,
         report.resolve("sweep.html").toAbsolutePath());

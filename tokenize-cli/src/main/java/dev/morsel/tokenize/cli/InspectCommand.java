@@ -59,6 +59,9 @@ final class InspectCommand implements Callable<Integer> {
         : t.unknownId() + " " + quote(t.token(t.unknownId())));
     t.lineage().ifPresent(l -> o.printf(Locale.ROOT, "extends          %s (ids 0..%,d kept from its %,d)%n",
         l.baseFingerprint(), l.baseVocabularySize() - 1, l.baseVocabularySize()));
+    dev.morsel.tokenize.format.AlphabetRecord alphabet =
+        dev.morsel.tokenize.format.AlphabetRecord.read(dev.morsel.tokenize.format.ModelFile.read(model));
+    o.printf(Locale.ROOT, "alphabet         %s%n", alphabet == null ? "not recorded" : alphabet.summary());
     o.printf(Locale.ROOT, "file size        %,d bytes%n", Files.size(model));
     if (top > 0) {
       o.println();

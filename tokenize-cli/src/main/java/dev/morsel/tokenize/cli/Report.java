@@ -116,6 +116,38 @@ final class Report {
     Files.write(file, sb.toString().getBytes(StandardCharsets.UTF_8));
   }
 
+  /** The header of {@code sweep-scripts.csv}. */
+  static final String SCRIPTS_CSV_HEADER = "scheme,requested_size,vocabulary_size,script,chars,tokens,tokens_per_char,"
+      + "unknown_chars,byte_spelled_chars,unknown_or_byte_rate";
+
+  /** The per-script figures, one row per scheme, size and script. */
+  static void scriptsCsv(List<Sweep.ScriptRow> rows, Path file) throws IOException {
+    StringBuilder sb = new StringBuilder(SCRIPTS_CSV_HEADER).append('\n');
+    for (Sweep.ScriptRow r : rows) {
+      sb.append(String.format(Locale.ROOT, "%s,%d,%d,%s,%d,%d,%.4f,%d,%d,%.6f%n", r.scheme(), r.requestedSize(),
+          r.vocabularySize(), csvField(r.script()), r.chars(), r.tokens(), r.tokensPerChar(), r.unknownChars(),
+          r.byteChars(), r.unknownOrByteRate()));
+    }
+    Files.write(file, sb.toString().getBytes(StandardCharsets.UTF_8));
+  }
+
+  /** The HTML table of the per-script figures. */
+  static String scriptsTable(List<Sweep.ScriptRow> rows) {
+    StringBuilder sb = new StringBuilder();
+    sb.append("<h2 id=\"by-script\">By script</h2>\n<p>Held-out characters grouped by their Unicode script (ICU"
+        + " script property); a token counts for the script of its first character that is not Common or Inherited."
+        + " A high share of unknown or byte-spelled characters shows a script the vocabulary serves badly.</p>\n"
+        + "<table><tr><th class=\"t\">scheme</th><th>vocabulary</th><th class=\"t\">script</th><th>characters</th>"
+        + "<th>tokens/char</th><th>unknown chars</th><th>byte-spelled chars</th><th>unknown or byte-spelled</th></tr>\n");
+    for (Sweep.ScriptRow r : rows) {
+      sb.append(String.format(Locale.ROOT, "<tr><td class=\"t\">%s</td><td>%s</td><td class=\"t\">%s</td><td>%s</td>"
+          + "<td>%.3f</td><td>%s</td><td>%s</td><td>%.3f%%</td></tr>%n", esc(r.scheme()), num(r.vocabularySize()),
+          esc(r.script()), num(r.chars()), r.tokensPerChar(), num(r.unknownChars()), num(r.byteChars()),
+          100 * r.unknownOrByteRate()));
+    }
+    return sb.append("</table>\n").toString();
+  }
+
   private static String fixed(double v, int digits) {
     return Double.isNaN(v) ? "" : String.format(Locale.ROOT, "%." + digits + "f", v);
   }
@@ -126,6 +158,12 @@ final class Report {
 
   /** The HTML report: what was measured on what, three SVG charts, the overall and per-input tables. */
   static void html(List<Sweep.Row> rows, Path file, String title, Meta meta) throws IOException {
+    html(rows, List.of(), file, title, meta);
+  }
+
+  /** The HTML report with the per-script table after the per-input one (none when {@code scripts} is empty). */
+  static void html(List<Sweep.Row> rows, List<Sweep.ScriptRow> scripts, Path file, String title, Meta meta)
+      throws IOException {
     System.setProperty("java.awt.headless", "true");
     List<Sweep.Row> all = new ArrayList<>();
     for (Sweep.Row r : rows) {
@@ -220,7 +258,11 @@ final class Report {
             r.bytesPerToken(), r.unknownPer1000Chars()));
       }
     }
-    sb.append("</table>\n</body></html>\n");
+    sb.append("</table>\n");
+    if (!scripts.isEmpty()) {
+      sb.append(scriptsTable(scripts));
+    }
+    sb.append("</body></html>\n");
     Files.write(file, sb.toString().getBytes(StandardCharsets.UTF_8));
   }
 

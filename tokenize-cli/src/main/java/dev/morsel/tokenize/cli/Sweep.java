@@ -6,11 +6,16 @@ import dev.morsel.tokenize.Tokens;
 import dev.morsel.tokenize.train.PieceCounter;
 import dev.morsel.tokenize.train.PieceCounts;
 import dev.morsel.tokenize.train.TrainingListener;
+import com.ibm.icu.lang.UScript;
+import java.nio.ByteBuffer;
+import java.nio.charset.CharacterCodingException;
+import java.nio.charset.CodingErrorAction;
 import java.nio.charset.StandardCharsets;
 import java.util.ArrayList;
 import java.util.LinkedHashMap;
 import java.util.List;
 import java.util.Map;
+import java.util.TreeMap;
 
 /**
  * The vocabulary-size sweep: for each scheme and size, train on the training lines and measure the
@@ -57,6 +62,25 @@ final class Sweep {
     }
   }
 
+  /**
+   * One scheme, size and Unicode script (ICU {@code UScript}, from the character property) of the
+   * held-out text: characters of the script, tokens (each counted for the script of its first
+   * character that is not Common or Inherited, or Common if it has none), characters that became the
+   * unknown token, and characters spelled with byte tokens (a token whose bytes are not a whole
+   * UTF-8 character).
+   */
+  record ScriptRow(String scheme, int requestedSize, int vocabularySize, String script, long chars, long tokens,
+      long unknownChars, long byteChars) {
+    double tokensPerChar() {
+      return chars == 0 ? 0 : (double) tokens / chars;
+    }
+
+    /** Share of the script's characters that are unknown or spelled with byte tokens. */
+    double unknownOrByteRate() {
+      return chars == 0 ? 0 : (double) (unknownChars + byteChars) / chars;
+    }
+  }
+
   /** The overall group's name. */
   static final String ALL = "(all)";
 
@@ -80,12 +104,13 @@ final class Sweep {
 
   /**
    * Runs the sweep; {@code listener} hears one "sweep" step per cell, {@code notes} one line per
-   * cell that is not feasible.
+   * cell that is not feasible; the per-script figures of every feasible cell go to {@code scripts}.
    *
    * @param options {@code [SCHEME:]NAME=VALUE} scheme options (see {@link Schemes#plan})
    */
   static List<Row> run(Map<String, List<String>> groups, int every, Pipeline pipeline, List<String> schemes, List<Integer> sizes,
-      List<String> options, int threads, TrainingListener listener, java.io.PrintWriter notes, long maxWarmupNanos) {
+      List<String> options, int threads, TrainingListener listener, java.io.PrintWriter notes, long maxWarmupNanos,
+      List<ScriptRow> scripts) {
     List<String> train = new ArrayList<>();
     Map<String, List<String>> held = new LinkedHashMap<>();
     split(groups, every, train, held);
@@ -118,6 +143,7 @@ final class Sweep {
         }
         double trainSeconds = (System.nanoTime() - t0) / 1e9;
         rows.addAll(measureAll(t, scheme, size, held, allHeld, trainSeconds, maxWarmupNanos));
+        scripts.addAll(byScript(t, scheme, size, allHeld));
       }
     }
     listener.progress("sweep", steps, steps, "done");
@@ -186,6 +212,77 @@ final class Sweep {
     }
     return new Row(scheme, size, t.vocabularySize(), group, texts.size(), words, chars, bytes, tokens, unknown, distinct,
         Double.NaN, Double.NaN, "", "");
+  }
+
+  /** The per-script figures of one tokenizer on {@code texts}, scripts in name order. */
+  static List<ScriptRow> byScript(Tokenizer t, String scheme, int size, List<String> texts) {
+    boolean[] partial = partialTokens(t);
+    int unk = t.unknownId();
+    Map<String, long[]> by = new TreeMap<>(); // chars, tokens, unknown chars, byte-spelled chars
+    for (String s : texts) {
+      for (int i = 0; i < s.length(); ) {
+        int cp = s.codePointAt(i);
+        by.computeIfAbsent(scriptName(cp), k -> new long[4])[0]++;
+        i += Character.charCount(cp);
+      }
+      Tokens x = t.encode(s);
+      int lastByteStart = -1;
+      for (int i = 0; i < x.size(); i++) {
+        int start = x.start(i);
+        int end = x.end(i);
+        by.computeIfAbsent(tokenScript(s, start, end), k -> new long[4])[1]++;
+        int id = x.id(i);
+        boolean unknown = id == unk;
+        boolean bytes = !unknown && partial[id] && start != lastByteStart;
+        if (bytes) {
+          lastByteStart = start;
+        }
+        if (unknown || bytes) {
+          for (int k = start; k < end; ) {
+            int cp = s.codePointAt(k);
+            by.computeIfAbsent(scriptName(cp), n -> new long[4])[unknown ? 2 : 3]++;
+            k += Character.charCount(cp);
+          }
+        }
+      }
+    }
+    List<ScriptRow> out = new ArrayList<>();
+    for (Map.Entry<String, long[]> e : by.entrySet()) {
+      long[] v = e.getValue();
+      out.add(new ScriptRow(scheme, size, t.vocabularySize(), e.getKey(), v[0], v[1], v[2], v[3]));
+    }
+    return out;
+  }
+
+  private static String scriptName(int cp) {
+    return UScript.getName(UScript.getScript(cp));
+  }
+
+  /** The script of the first character of text[start, end) that is not Common or Inherited, else Common. */
+  private static String tokenScript(String text, int start, int end) {
+    for (int k = start; k < end; ) {
+      int cp = text.codePointAt(k);
+      int sc = UScript.getScript(cp);
+      if (sc != UScript.COMMON && sc != UScript.INHERITED) {
+        return UScript.getName(sc);
+      }
+      k += Character.charCount(cp);
+    }
+    return UScript.getName(UScript.COMMON);
+  }
+
+  /** Which ids hold bytes that are not well-formed UTF-8 on their own: part of a character, a byte token. */
+  static boolean[] partialTokens(Tokenizer t) {
+    boolean[] partial = new boolean[t.vocabularySize()];
+    for (int id = 0; id < partial.length; id++) {
+      try {
+        StandardCharsets.UTF_8.newDecoder().onMalformedInput(CodingErrorAction.REPORT)
+            .onUnmappableCharacter(CodingErrorAction.REPORT).decode(ByteBuffer.wrap(t.tokenBytes(id)));
+      } catch (CharacterCodingException e) {
+        partial[id] = true;
+      }
+    }
+    return partial;
   }
 
   /** Whitespace-separated words. */

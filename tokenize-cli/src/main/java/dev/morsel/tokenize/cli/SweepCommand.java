@@ -95,12 +95,13 @@ final class SweepCommand implements Callable<Integer> {
     List<Path> files = Inputs.expand(corpus);
     Map<String, List<String>> groups = read(files, badUtf8.policy(), spec.commandLine().getErr(), "sweep");
     List<Sweep.Row> rows;
+    List<Sweep.ScriptRow> scripts = new java.util.ArrayList<>();
     try (Progress progress = Progress.onTerminal()) {
       rows = Sweep.run(groups, every, pipeline, schemes, sizes, options, threads, progress, spec.commandLine().getErr(),
-          (long) (maxWarmup * 1e9));
+          (long) (maxWarmup * 1e9), scripts);
     }
     Report.Meta meta = Report.Meta.of(files, every, pipeline, options.isEmpty() ? "defaults" : String.join(" ", options));
-    write(rows, out, "Vocabulary sweep", meta, spec.commandLine().getOut(), "sweep");
+    write(rows, scripts, out, "Vocabulary sweep", meta, spec.commandLine().getOut(), "sweep");
     return 0;
   }
 
@@ -128,12 +129,16 @@ final class SweepCommand implements Callable<Integer> {
     return groups;
   }
 
-  /** Writes {@code NAME.csv} and {@code NAME.html} into {@code dir} and a summary of the overall rows on {@code o}. */
-  static void write(List<Sweep.Row> rows, Path dir, String title, Report.Meta meta, PrintWriter o, String name)
-      throws java.io.IOException {
+  /**
+   * Writes {@code NAME.csv}, {@code NAME-scripts.csv} and {@code NAME.html} into {@code dir} and a
+   * summary of the overall rows on {@code o}.
+   */
+  static void write(List<Sweep.Row> rows, List<Sweep.ScriptRow> scripts, Path dir, String title, Report.Meta meta,
+      PrintWriter o, String name) throws java.io.IOException {
     Files.createDirectories(dir);
     Report.csv(rows, dir.resolve(name + ".csv"));
-    Report.html(rows, dir.resolve(name + ".html"), title, meta);
+    Report.scriptsCsv(scripts, dir.resolve(name + "-scripts.csv"));
+    Report.html(rows, scripts, dir.resolve(name + ".html"), title, meta);
     int width = 10;
     for (Sweep.Row r : rows) {
       width = Math.max(width, r.scheme().length());
@@ -152,6 +157,7 @@ final class SweepCommand implements Callable<Integer> {
     }
     o.println("encode speed: one thread, median of " + Sweep.TIMED_ROUNDS + " rounds of at least 50 ms after a warm-up"
         + " until " + Steady.WINDOW + " consecutive rounds agree within 5%");
-    o.println("wrote " + dir.resolve(name + ".csv") + " and " + dir.resolve(name + ".html"));
+    o.println("wrote " + dir.resolve(name + ".csv") + ", " + dir.resolve(name + "-scripts.csv") + " and "
+        + dir.resolve(name + ".html"));
   }
 }

@@ -4,9 +4,11 @@ import dev.morsel.tokenize.Pipeline;
 import dev.morsel.tokenize.Tokenizer;
 import dev.morsel.tokenize.normalize.Normalization;
 import dev.morsel.tokenize.split.Splitting;
+import dev.morsel.tokenize.train.Alphabet;
 import dev.morsel.tokenize.train.CountReport;
 import dev.morsel.tokenize.train.PieceCounter;
 import dev.morsel.tokenize.train.PieceCounts;
+import dev.morsel.tokenize.train.TrainingListener;
 import dev.morsel.tokenize.train.Utf8Lines;
 import java.io.PrintWriter;
 import java.nio.file.Files;
@@ -42,7 +44,7 @@ final class TrainCommand implements Callable<Integer> {
   String scheme;
 
   @Option(names = "--option", paramLabel = "NAME=VALUE",
-      description = "A scheme option, for example max-alphabet=300 for wordpiece (repeatable; 'morsel schemes' lists them with their defaults).")
+      description = "A scheme option, for example alphabet-coverage=0.999 or max-alphabet=300 (repeatable; 'morsel schemes' lists them with their defaults).")
   List<String> options = new ArrayList<>();
 
   @Option(names = "--vocab-size", paramLabel = "N", defaultValue = "16000",
@@ -97,13 +99,20 @@ final class TrainCommand implements Callable<Integer> {
       CountReport report = count(counter, corpus, policy, progress, err, "train");
       PieceCounts counts = report.counts();
       long t1 = System.nanoTime();
-      Tokenizer t = plan.train(counts, progress);
+      AlphabetCapture alphabet = new AlphabetCapture(progress);
+      Tokenizer t = plan.train(counts, alphabet);
       progress.close();
       save(t, out);
       long t2 = System.nanoTime();
       o.printf(Locale.ROOT, "pieces counted   %,d distinct, %,d in all, from %,d lines (%.1f s)%n", counts.size(), counts.total(),
           report.texts(), (t1 - t0) / 1e9);
       o.printf(Locale.ROOT, "vocabulary       %,d ids, scheme %s (%.1f s)%n", t.vocabularySize(), t.scheme(), (t2 - t1) / 1e9);
+      if (alphabet.chosen != null) {
+        o.printf(Locale.ROOT, "alphabet         %s%n", alphabet.chosen.summary().substring("alphabet ".length()));
+        if (verbose() && alphabet.chosen.leftOutSize() > Alphabet.SUMMARY_LEFT_OUT) {
+          o.printf(Locale.ROOT, "left out         %s%n", alphabet.chosen.leftOut(alphabet.chosen.leftOutSize()));
+        }
+      }
       o.printf(Locale.ROOT, "fingerprint      %s%n", t.fingerprint());
       o.printf(Locale.ROOT, "model            %s (%,d bytes)%n", out, Files.size(out));
       shortfall(err, "train", scheme, vocabularySize, t.vocabularySize());
@@ -118,6 +127,32 @@ final class TrainCommand implements Callable<Integer> {
       Files.createDirectories(parent);
     }
     t.save(out);
+  }
+
+  private boolean verbose() {
+    Object root = spec.root().userObject();
+    return root instanceof Morsel && ((Morsel) root).verbose;
+  }
+
+  /** Passes progress on and keeps the alphabet the learner reports. */
+  static final class AlphabetCapture implements TrainingListener {
+    private final TrainingListener next;
+    Alphabet chosen;
+
+    AlphabetCapture(TrainingListener next) {
+      this.next = next;
+    }
+
+    @Override
+    public void progress(String stage, long done, long total, String detail) {
+      next.progress(stage, done, total, detail);
+    }
+
+    @Override
+    public void alphabet(String scheme, Alphabet alphabet) {
+      chosen = alphabet;
+      next.alphabet(scheme, alphabet);
+    }
   }
 
   /** Says on standard error when the corpus gave fewer ids than asked for (the run still succeeds). */

@@ -228,9 +228,9 @@ class CliTest {
     assertEquals(Morsel.USAGE, unknown.code());
     assertTrue(unknown.err().contains("bpe has no option 'max-token-length'") && unknown.err().contains("max-token-bytes"),
         unknown.err());
-    Run value = run("train", "--scheme", "unigram", "--option", "raw-bytes=maybe", "--out", tight.toString(), corpus.toString());
+    Run value = run("train", "--scheme", "unigram", "--option", "byte-spelling=maybe", "--out", tight.toString(), corpus.toString());
     assertEquals(Morsel.USAGE, value.code());
-    assertTrue(value.err().contains("unigram --option raw-bytes=maybe is not true or false"), value.err());
+    assertTrue(value.err().contains("unigram --option byte-spelling=maybe is not true or false"), value.err());
     Run form = run("train", "--option", "max-token-bytes", "--out", tight.toString(), corpus.toString());
     assertEquals(Morsel.USAGE, form.code());
     assertTrue(form.err().contains("not name=value"), form.err());

@@ -26,6 +26,7 @@ import dev.morsel.tokenize.train.ExtensionSettings;
 import dev.morsel.tokenize.train.PieceCounter;
 import dev.morsel.tokenize.train.PieceCounts;
 import dev.morsel.tokenize.train.LearnerSettings;
+import dev.morsel.tokenize.train.AlphabetPolicy;
 import dev.morsel.tokenize.train.Learners;
 import dev.morsel.tokenize.unigram.Segmentation;
 import dev.morsel.tokenize.unigram.Unigram;
@@ -133,6 +134,15 @@ class GuideExamplesTest {
     List<Segmentation> best = Unigram.nBest(unigram, "Is the 07:40 from Oskevik late?", 3);   // best first
     Tokens drawn = Unigram.sample(unigram, "Is the 07:40 from Oskevik late?", 0.2, 7L);    // same seed, same draw
     // @end region="by-name"
+    // @start region="alphabet"
+    Tokenizer mixed = WordPieceLearner.builder().vocabularySize(8000)
+        .alphabet(AlphabetPolicy.defaults().withCoverage(0.999).withMaxSize(3000)).byteSpelling(true)
+        .build().train(counts);
+    // @end region="alphabet"
+    assertEquals("\u298300\u2984", mixed.token(mixed.unknownId() + 1), "byte token 0 right after the unknown token");
+    String rare = "Ωμέγα 渡轮";
+    assertEquals(mixed.pipeline().normalization().apply(rare).text(), mixed.decode(mixed.encode(rare).ids()),
+        "characters outside the alphabet are spelled with byte tokens");
     assertEquals(Pipeline.defaults(), wordpiece.pipeline(), "the counted pipeline");
     assertEquals(3, best.size());
     assertEquals(unigram.encode("Is the 07:40 from Oskevik late?"), best.get(0).tokens(), "the best is encode's result");
@@ -393,7 +403,7 @@ class GuideExamplesTest {
     while (m.find()) {
       regions.put(m.group(1), m.group(2).lines().map(String::strip).filter(s -> !s.isEmpty()).toList());
     }
-    assertEquals(List.of("start", "schemes", "by-name", "extend", "nfkc", "reserved", "reserved-safe", "lengths", "batch", "tuning", "file",
+    assertEquals(List.of("start", "schemes", "by-name", "alphabet", "extend", "nfkc", "reserved", "reserved-safe", "lengths", "batch", "tuning", "file",
         "limits"),
         new ArrayList<>(regions.keySet()));
     List<String> blocks = new ArrayList<>();

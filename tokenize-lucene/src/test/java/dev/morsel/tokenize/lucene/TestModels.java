@@ -46,7 +46,7 @@ final class TestModels {
           .threads(1).build().train(PIECES)));
       TOKENIZERS.put("wordpiece", framed(WordPieceLearner.builder().vocabularySize(VOCABULARY)
           .reservedTokens(List.of(DOCK)).build().train(PIECES)));
-      TOKENIZERS.put("unigram", framed(UnigramLearner.builder().vocabularySize(VOCABULARY).rawBytes(true)
+      TOKENIZERS.put("unigram", framed(UnigramLearner.builder().vocabularySize(VOCABULARY).byteSpelling(true)
           .reservedTokens(List.of(DOCK)).threads(1).build().train(PIECES)));
     }
   }

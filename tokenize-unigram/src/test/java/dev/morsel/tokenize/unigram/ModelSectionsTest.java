@@ -146,7 +146,7 @@ class ModelSectionsTest {
     byte[] f = good.get("UNST").clone();
     f[4] = 2;
     flag.put("UNST", f);
-    rejected(flag, "UNST", "byte fallback flag 2");
+    rejected(flag, "UNST", "byte spelling flag 2");
 
     Map<String, byte[]> trailing = new HashMap<>(good);
     trailing.put("UNST", java.util.Arrays.copyOf(good.get("UNST"), good.get("UNST").length + 1));

@@ -119,7 +119,7 @@ class SamplingTest {
   }
 
   @Test
-  void rawBytesSamplesCoverTheText() {
+  void byteSpellingSamplesCoverTheText() {
     Map<String, Double> vocab = new LinkedHashMap<>();
     vocab.put("d", -1.0);
     vocab.put("o", -1.0);

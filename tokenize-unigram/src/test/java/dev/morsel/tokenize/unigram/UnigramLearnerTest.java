@@ -6,6 +6,7 @@ import static org.junit.jupiter.api.Assertions.assertThrows;
 import static org.junit.jupiter.api.Assertions.assertTrue;
 
 import dev.morsel.tokenize.Tokenizer;
+import dev.morsel.tokenize.train.AlphabetPolicy;
 import dev.morsel.tokenize.train.PieceCounts;
 import dev.morsel.tokenize.unigram.internal.UnigramSegmenter;
 import java.util.ArrayList;
@@ -43,7 +44,7 @@ class UnigramLearnerTest {
   }
 
   private static UnigramLearner.Builder small() {
-    return UnigramLearner.builder().vocabularySize(120).candidateMultiple(4).maxTokenCodePoints(10).rawBytes(false);
+    return UnigramLearner.builder().vocabularySize(120).candidateMultiple(4).maxTokenCodePoints(10).byteSpelling(false);
   }
 
   @Test
@@ -93,13 +94,15 @@ class UnigramLearnerTest {
   void badInputIsRejected() {
     assertThrows(IllegalArgumentException.class, () -> small().build().train(PieceCounts.empty()));
     IllegalArgumentException e = assertThrows(IllegalArgumentException.class,
-        () -> UnigramLearner.builder().vocabularySize(10).rawBytes(false).build().train(corpus(1, 50)));
+        () -> UnigramLearner.builder().vocabularySize(10).byteSpelling(false).alphabet(AlphabetPolicy.of(1.0, 100))
+            .build().train(corpus(1, 50)));
     assertTrue(e.getMessage().contains("vocabularySize=10") && e.getMessage().contains("alphabet"), e.getMessage());
     e = assertThrows(IllegalArgumentException.class,
-        () -> UnigramLearner.builder().vocabularySize(200).rawBytes(true).build());
+        () -> UnigramLearner.builder().vocabularySize(200).byteSpelling(true).build());
     assertTrue(e.getMessage().contains("256 byte tokens"), "refused when built, before any learning: " + e.getMessage());
     e = assertThrows(IllegalArgumentException.class,
-        () -> UnigramLearner.builder().vocabularySize(262).build().train(corpus(1, 50)));
+        () -> UnigramLearner.builder().vocabularySize(262).alphabet(AlphabetPolicy.of(1.0, 100)).build()
+            .train(corpus(1, 50)));
     assertTrue(e.getMessage().contains("256 byte tokens") && e.getMessage().contains("alphabet"), e.getMessage());
     assertThrows(IllegalArgumentException.class, () -> UnigramLearner.builder().keepShare(1.0).build());
     assertThrows(IllegalArgumentException.class, () -> UnigramLearner.builder().keepShare(0).build());
@@ -166,8 +169,8 @@ class UnigramLearnerTest {
   }
 
   @Test
-  void rawBytesModelHasByteTokensAfterReservedTokens() {
-    UnigramSegmenter m = UnigramSegmenter.of(small().vocabularySize(400).rawBytes(true)
+  void byteSpellingModelHasByteTokensAfterReservedTokens() {
+    UnigramSegmenter m = UnigramSegmenter.of(small().vocabularySize(400).byteSpelling(true)
         .reservedTokens(List.of("\u00a7a", "\u00a7b")).build().train(corpus(8, 200)));
     assertEquals(400, m.vocabularySize());
     assertEquals(2, m.firstByteId());

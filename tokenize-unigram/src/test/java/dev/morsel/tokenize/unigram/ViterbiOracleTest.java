@@ -74,7 +74,7 @@ class ViterbiOracleTest {
     List<String> out = new ArrayList<>();
     double score = 0;
     for (int i = 0; i < n; i++) {
-      boolean unknown = ids[i] == m.unknownId() || (m.rawBytes() && ids[i] >= m.firstByteId()
+      boolean unknown = ids[i] == m.unknownId() || (m.byteSpelling() && ids[i] >= m.firstByteId()
           && ids[i] < m.firstByteId() + 256);
       if (unknown && i > 0 && starts[i] == starts[i - 1] && ends[i] == ends[i - 1]) {
         continue; // the 2nd..4th byte of one character

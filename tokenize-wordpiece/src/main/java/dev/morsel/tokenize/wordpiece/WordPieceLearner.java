@@ -2,6 +2,7 @@ package dev.morsel.tokenize.wordpiece;
 
 import dev.morsel.tokenize.Tokenizer;
 import dev.morsel.tokenize.train.Extender;
+import dev.morsel.tokenize.train.AlphabetPolicy;
 import dev.morsel.tokenize.train.Learner;
 import dev.morsel.tokenize.train.PieceCounts;
 import dev.morsel.tokenize.train.TrainingListener;
@@ -21,7 +22,8 @@ import java.util.Objects;
  *
  * <p>In short (the full contract, with the exact score and tie-breaks, is in
  * {@code docs/wordpiece.md}): pieces below {@code minCount} or longer than {@code maxPieceLength}
- * are dropped; the alphabet is the {@code maxAlphabet} most frequent code points; then the adjacent
+ * are dropped; the alphabet is chosen by an {@link AlphabetPolicy} (the most frequent code points
+ * up to a share of all occurrences, reported to {@link TrainingListener#alphabet}); then the adjacent
  * pair with the highest {@link Score} is merged everywhere, until the vocabulary (reserved tokens,
  * the unknown token and every unit created) reaches {@code vocabularySize} or no pair is left. A
  * piece that cannot be matched, or is longer than {@code maxPieceLength}, becomes the unknown token.
@@ -40,8 +42,8 @@ public final class WordPieceLearner implements Learner {
   public static final int DEFAULT_VOCABULARY_SIZE = WordPieceTraining.DEFAULT_VOCABULARY_SIZE;
   /** Largest {@code vocabularySize}, in tokens. */
   public static final int MAX_VOCABULARY_SIZE = WordPieceSegmenter.MAX_VOCABULARY_SIZE;
-  /** Default {@code maxAlphabet}, in code points (covers the scripts of a typical European corpus). */
-  public static final int DEFAULT_MAX_ALPHABET = WordPieceTraining.DEFAULT_MAX_ALPHABET;
+  /** Byte spelling is on by default from this {@code vocabularySize} up (256 byte tokens take at most an eighth). */
+  public static final int BYTE_SPELLING_FROM = WordPieceTraining.BYTE_SPELLING_FROM;
   /** Default {@code minCount}: every piece is used. */
   public static final long DEFAULT_MIN_COUNT = WordPieceTraining.DEFAULT_MIN_COUNT;
   /** Default {@code minPairCount}: no floor (docs/wordpiece.md measures floors of 3 and 10). */
@@ -133,7 +135,8 @@ public final class WordPieceLearner implements Learner {
   public static final class Builder {
     private int vocabularySize = DEFAULT_VOCABULARY_SIZE;
     private long minCount = DEFAULT_MIN_COUNT;
-    private int maxAlphabet = DEFAULT_MAX_ALPHABET;
+    private AlphabetPolicy alphabet = AlphabetPolicy.defaults();
+    private Boolean byteSpelling; // null: by the vocabulary size
     private List<String> reservedTokens = List.of();
     private String marker = DEFAULT_MARKER;
     private String unknownToken = DEFAULT_UNKNOWN_TOKEN;
@@ -143,6 +146,17 @@ public final class WordPieceLearner implements Learner {
     private TrainingListener listener = TrainingListener.NONE;
 
     private Builder() {}
+
+    /**
+     * Byte spelling: whether the vocabulary gets 256 byte tokens (right after the unknown token), so
+     * a character outside the alphabet is spelled with its UTF-8 bytes and its piece keeps its other
+     * characters, instead of the whole piece becoming the unknown token. Default: on from {@value
+     * WordPieceLearner#BYTE_SPELLING_FROM} ids up, off below (measured in docs/guide.md, "Large alphabets").
+     */
+    public Builder byteSpelling(boolean on) {
+      this.byteSpelling = on;
+      return this;
+    }
 
     /** Target vocabulary size in tokens, reserved and unknown tokens included, in {@code [2, MAX_VOCABULARY_SIZE]}. */
     public Builder vocabularySize(int vocabularySize) {
@@ -156,9 +170,14 @@ public final class WordPieceLearner implements Learner {
       return this;
     }
 
-    /** Most distinct code points kept in the alphabet (at least 1). */
-    public Builder maxAlphabet(int maxAlphabet) {
-      this.maxAlphabet = maxAlphabet;
+    /**
+     * How the alphabet is chosen (default {@link AlphabetPolicy#defaults()}); a derived cap is a
+     * quarter of the ids left after the reserved and unknown tokens, since every character takes two
+     * ids (word-initial and continuation). A piece holding a character outside the alphabet becomes
+     * the unknown token.
+     */
+    public Builder alphabet(AlphabetPolicy alphabet) {
+      this.alphabet = Objects.requireNonNull(alphabet, "alphabet");
       return this;
     }
 
@@ -224,11 +243,12 @@ public final class WordPieceLearner implements Learner {
      */
     public WordPieceLearner build() {
       WordPieceSettings settings = WordPieceSettings.defaults().withMarker(marker).withUnknownToken(unknownToken)
-          .withMaxPieceLength(maxPieceLength);
+          .withMaxPieceLength(maxPieceLength).withByteSpelling(byteSpelling != null ? byteSpelling
+              : WordPieceTraining.defaultByteSpelling(vocabularySize));
       return new WordPieceLearner(WordPieceTraining.builder()
           .vocabularySize(vocabularySize)
           .minCount(minCount)
-          .maxAlphabet(maxAlphabet)
+          .alphabet(alphabet)
           .reservedTokens(reservedTokens)
           .settings(settings)
           .score(score == Score.PAIR_RATIO ? WordPieceTraining.Score.PAIR_RATIO : WordPieceTraining.Score.LIKELIHOOD_GAIN)
@@ -246,7 +266,8 @@ public final class WordPieceLearner implements Learner {
   public static final class ExtenderBuilder {
     private int addedIds;
     private long minCount = DEFAULT_MIN_COUNT;
-    private int maxAlphabet = DEFAULT_MAX_ALPHABET;
+    private int maxAlphabet;
+    private boolean maxAlphabetSet; // unset: a quarter of the added ids
     private long minPairCount = DEFAULT_MIN_PAIR_COUNT;
     private Score score = Score.LIKELIHOOD_GAIN;
     private TrainingListener listener = TrainingListener.NONE;
@@ -265,9 +286,13 @@ public final class WordPieceLearner implements Learner {
       return this;
     }
 
-    /** Most code points the base lacks that are added (each in both forms; at least 1). Default 1,000. */
+    /**
+     * Most code points the base lacks that are added (each in both forms; at least 1). Default: a
+     * quarter of {@code addedIds}, as a learner's derived alphabet cap is a quarter of its free ids.
+     */
     public ExtenderBuilder maxAlphabet(int codePoints) {
       this.maxAlphabet = codePoints;
+      this.maxAlphabetSet = true;
       return this;
     }
 
@@ -296,7 +321,8 @@ public final class WordPieceLearner implements Learner {
      *     below 1 included)
      */
     public Extender build() {
-      return new WordPieceExtension(addedIds, minCount, maxAlphabet, minPairCount,
+      return new WordPieceExtension(addedIds, minCount, maxAlphabetSet ? maxAlphabet : Math.max(1, addedIds / 4),
+          minPairCount,
           score == Score.PAIR_RATIO ? WordPieceTraining.Score.PAIR_RATIO : WordPieceTraining.Score.LIKELIHOOD_GAIN,
           listener);
     }

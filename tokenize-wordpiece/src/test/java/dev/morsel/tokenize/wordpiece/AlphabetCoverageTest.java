@@ -6,6 +6,7 @@ import static org.junit.jupiter.api.Assertions.assertTrue;
 import dev.morsel.tokenize.wordpiece.internal.WordPieceSegmenter;
 import dev.morsel.tokenize.wordpiece.internal.WordPieceTraining;
 import dev.morsel.tokenize.Pipeline;
+import dev.morsel.tokenize.train.AlphabetPolicy;
 import dev.morsel.tokenize.train.PieceCounter;
 import dev.morsel.tokenize.train.PieceCounts;
 import it.unimi.dsi.fastutil.ints.IntArrayList;
@@ -28,7 +29,7 @@ class AlphabetCoverageTest {
     List<String> bodies = TestSupport.europarlBodies();
     Pipeline pipeline = Pipeline.defaults();
     PieceCounts counts = PieceCounter.builder().pipeline(pipeline).build().count(bodies.subList(0, 3000));
-    WordPieceSegmenter model = WordPieceTraining.builder().vocabularySize(4000).maxAlphabet(400).build().segmenter(counts);
+    WordPieceSegmenter model = WordPieceTraining.builder().vocabularySize(4000).alphabet(AlphabetPolicy.of(1.0, 400)).build().segmenter(counts);
     String marker = model.settings().marker();
     long checked = 0;
     long outside = 0;

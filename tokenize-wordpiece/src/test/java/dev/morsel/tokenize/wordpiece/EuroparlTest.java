@@ -8,6 +8,7 @@ import dev.morsel.tokenize.wordpiece.internal.WordPieceSettings;
 import dev.morsel.tokenize.wordpiece.internal.WordPieceSegmenter;
 import dev.morsel.tokenize.wordpiece.internal.WordPieceTraining;
 import dev.morsel.tokenize.testkit.OffsetInvariants;
+import dev.morsel.tokenize.train.AlphabetPolicy;
 import dev.morsel.tokenize.train.PieceCounts;
 import java.nio.charset.StandardCharsets;
 import java.util.List;
@@ -30,7 +31,7 @@ class EuroparlTest {
     // documented size of the sample: 17,597 lines
     assertEquals(17_597, bodies.size());
     PieceCounts counts = PieceCounts.of(TestSupport.countPieces(bodies.subList(0, 2000)));
-    model = WordPieceTraining.builder().vocabularySize(3000).maxAlphabet(300).build().segmenter(counts);
+    model = WordPieceTraining.builder().vocabularySize(3000).alphabet(AlphabetPolicy.of(1.0, 300)).build().segmenter(counts);
   }
 
   @Test

@@ -15,6 +15,7 @@ import dev.morsel.tokenize.normalize.Normalization;
 import dev.morsel.tokenize.split.Splitting;
 import dev.morsel.tokenize.testkit.ByteSegmenter;
 import dev.morsel.tokenize.testkit.Europarl;
+import dev.morsel.tokenize.train.AlphabetPolicy;
 import dev.morsel.tokenize.train.PieceCounter;
 import dev.morsel.tokenize.train.PieceCounts;
 import java.util.Arrays;
@@ -52,7 +53,8 @@ class WordPieceApiTest {
   void buildRefusesEveryBadSettingByName() {
     refused("vocabularySize=1", () -> WordPieceLearner.builder().vocabularySize(1));
     refused("minCount=0", () -> WordPieceLearner.builder().minCount(0));
-    refused("maxAlphabet=0", () -> WordPieceLearner.builder().maxAlphabet(0));
+    IllegalArgumentException cap = assertThrows(IllegalArgumentException.class, () -> AlphabetPolicy.of(1.0, -1));
+    assertTrue(cap.getMessage().contains("maxSize=-1"), cap.getMessage()); // a value type refuses at once
     refused("minPairCount=0", () -> WordPieceLearner.builder().minPairCount(0));
     refused("maxPieceLength=-1", () -> WordPieceLearner.builder().maxPieceLength(-1));
     refused("marker", () -> WordPieceLearner.builder().marker(""));
@@ -95,9 +97,16 @@ class WordPieceApiTest {
     assertTrue(WordPiece.maxPieceLength(learned) >= run.length(), "the derived limit: " + WordPiece.maxPieceLength(learned));
     Tokenizer tight = WordPiece.withMaxPieceLength(learned, 100);
     assertEquals(100, WordPiece.maxPieceLength(tight));
+    // below 2,048 ids byte spelling is off by default: the piece over the limit is one unknown token
     Tokens unknown = tight.encode(run);
     assertEquals(1, unknown.size());
     assertEquals(tight.unknownId(), unknown.id(0));
+    // with byte spelling the piece is cut into chunks of at most the limit instead
+    Tokenizer tightBytes = WordPiece.withMaxPieceLength(
+        WordPieceLearner.builder().vocabularySize(2000).byteSpelling(true).build().train(counts), 100);
+    Tokens chunked = tightBytes.encode(run);
+    assertFalse(Arrays.stream(chunked.ids()).anyMatch(id -> id == tightBytes.unknownId()), chunked.toString());
+    assertEquals(run, tightBytes.decode(chunked.ids()));
     Tokenizer wide = WordPiece.withMaxPieceLength(tight, 1000);
     assertEquals(1000, WordPiece.maxPieceLength(wide));
     Tokens segmented = wide.encode(run);

@@ -9,6 +9,7 @@ import static org.junit.jupiter.api.Assertions.assertTrue;
 import dev.morsel.tokenize.wordpiece.internal.WordPieceSegmenter;
 import dev.morsel.tokenize.wordpiece.internal.WordPieceSettings;
 import dev.morsel.tokenize.wordpiece.internal.WordPieceTraining;
+import dev.morsel.tokenize.train.AlphabetPolicy;
 import dev.morsel.tokenize.train.PieceCounts;
 import java.util.ArrayList;
 import java.util.HashMap;
@@ -28,6 +29,9 @@ import org.junit.jupiter.params.provider.MethodSource;
  * textbook learner (full recount every merge) on seeded random corpora, and bad input.
  */
 class WordPieceLearnerTest {
+  /** Every character in the alphabet: these tests are about merging, and their vocabularies are tiny. */
+  static final AlphabetPolicy EVERY = AlphabetPolicy.of(1.0, Integer.MAX_VALUE);
+
   private static final String M = WordPieceSettings.DEFAULT_MARKER;
   private static final String UNK = WordPieceSettings.DEFAULT_UNKNOWN;
 
@@ -61,7 +65,7 @@ class WordPieceLearnerTest {
     // 3rd: (∘e,∘r) -> "∘er" (6.848).
     // Both forms of each of the 7 characters are units (14); the forms that never occur have count
     // 0, take part in no pair and leave N alone, so the merges are those worked above.
-    WordPieceSegmenter s = WordPieceTraining.builder().vocabularySize(1 + 14 + 3).build().segmenter(ferryCorpus());
+    WordPieceSegmenter s = WordPieceTraining.builder().alphabet(EVERY).vocabularySize(1 + 14 + 3).build().segmenter(ferryCorpus());
     List<String> t = s.tokens();
     assertEquals(18, t.size());
     assertEquals(UNK, t.get(0));
@@ -85,7 +89,7 @@ class WordPieceLearnerTest {
     // 1st merge: (p,∘i) -> "pi" (0.5).
     // 2nd: (pi,∘e) is now 2/(2*10)=0.1; best is (f,∘a) -> "fa" (0.125).
     // 3rd: f now counts 5: (f,∘e)=5/(5*10)=0.1 ties (pi,∘e)=0.1; higher pair count wins -> "fe".
-    WordPieceSegmenter s = WordPieceTraining.builder().score(WordPieceTraining.Score.PAIR_RATIO)
+    WordPieceSegmenter s = WordPieceTraining.builder().alphabet(EVERY).score(WordPieceTraining.Score.PAIR_RATIO)
         .vocabularySize(1 + 14 + 3).build().segmenter(ferryCorpus());
     assertEquals(List.of("pi", "fa", "fe"), s.tokens().subList(15, 18));
     assertArrayEquals(new int[] {s.id("fe"), s.id(M + "r"), s.id(M + "r"), s.id(M + "y")},
@@ -97,21 +101,21 @@ class WordPieceLearnerTest {
     // With a floor of 3 the (p,∘i) pair (count 2) is never merged, although it has the best gain
     // (6.227, see the hand-worked example); merging stops when no pair of count >= 3 is left,
     // well before the asked 100 tokens.
-    WordPieceSegmenter s = WordPieceTraining.builder().minPairCount(3).vocabularySize(100).build().segmenter(ferryCorpus());
+    WordPieceSegmenter s = WordPieceTraining.builder().alphabet(EVERY).minPairCount(3).vocabularySize(100).build().segmenter(ferryCorpus());
     assertEquals(-1, s.tokens().indexOf("pi"));
     assertTrue(s.vocabularySize() < 100, "size " + s.vocabularySize());
     // by hand: counts >= 3 only ever occur inside ferry (x5) and fare (x3), so both become single tokens
     assertEquals(1, TestSupport.segmentOne(s, "ferry", 0, 5).ids.size(), s.tokens().toString());
     assertEquals(1, TestSupport.segmentOne(s, "fare", 0, 4).ids.size(), s.tokens().toString());
-    assertEquals(2, WordPieceTraining.builder().minPairCount(2).build().minPairCount());
-    assertEquals(WordPieceTraining.Score.LIKELIHOOD_GAIN, WordPieceTraining.builder().build().score());
+    assertEquals(2, WordPieceTraining.builder().alphabet(EVERY).minPairCount(2).build().minPairCount());
+    assertEquals(WordPieceTraining.Score.LIKELIHOOD_GAIN, WordPieceTraining.builder().alphabet(EVERY).build().score());
   }
 
   @Test
   void reservedTokensComeFirstAndListenerReportsMerges() {
     List<String> stages = new ArrayList<>();
     long[] last = {-1, -1};
-    WordPieceSegmenter s = WordPieceTraining.builder().vocabularySize(2 + 1 + 14 + 2)
+    WordPieceSegmenter s = WordPieceTraining.builder().alphabet(EVERY).vocabularySize(2 + 1 + 14 + 2)
         .reservedTokens(List.of("\u27e8voyage\u27e9", "\u27e8/voyage\u27e9"))
         .listener((stage, done, total, detail) -> {
           stages.add(stage);
@@ -126,11 +130,11 @@ class WordPieceLearnerTest {
   }
 
   @Test
-  void maxAlphabetDropsRareCharactersAndTheirPieces() {
+  void alphabetCapDropsRareCharactersAndTheirPieces() {
     Map<String, Long> m = new HashMap<>();
     m.put("ferry", 5L);
     m.put("fez", 1L);
-    WordPieceSegmenter s = WordPieceTraining.builder().vocabularySize(100).maxAlphabet(4).build().segmenter(PieceCounts.of(m));
+    WordPieceSegmenter s = WordPieceTraining.builder().alphabet(EVERY).vocabularySize(100).alphabet(AlphabetPolicy.of(1.0, 4)).build().segmenter(PieceCounts.of(m));
     for (String tok : s.tokens()) {
       assertFalse(tok.contains("z"), tok);
     }
@@ -140,22 +144,22 @@ class WordPieceLearnerTest {
   @Test
   void badInputIsRejectedClearly() {
     IllegalArgumentException small = assertThrows(IllegalArgumentException.class,
-        () -> WordPieceTraining.builder().vocabularySize(5).build().segmenter(ferryCorpus()));
+        () -> WordPieceTraining.builder().alphabet(EVERY).vocabularySize(5).build().segmenter(ferryCorpus()));
     assertTrue(small.getMessage().contains("vocabularySize=5"), small.getMessage());
     IllegalArgumentException empty = assertThrows(IllegalArgumentException.class,
-        () -> WordPieceTraining.builder().build().segmenter(PieceCounts.empty()));
+        () -> WordPieceTraining.builder().alphabet(EVERY).build().segmenter(PieceCounts.empty()));
     assertTrue(empty.getMessage().contains("minCount"), empty.getMessage());
     assertThrows(IllegalArgumentException.class,
-        () -> WordPieceTraining.builder().minCount(10).build().segmenter(ferryCorpus()));
-    assertThrows(IllegalArgumentException.class, () -> WordPieceTraining.builder().vocabularySize(1));
-    assertThrows(IllegalArgumentException.class, () -> WordPieceTraining.builder().minCount(0));
-    assertThrows(IllegalArgumentException.class, () -> WordPieceTraining.builder().maxAlphabet(0));
+        () -> WordPieceTraining.builder().alphabet(EVERY).minCount(10).build().segmenter(ferryCorpus()));
+    assertThrows(IllegalArgumentException.class, () -> WordPieceTraining.builder().alphabet(EVERY).vocabularySize(1));
+    assertThrows(IllegalArgumentException.class, () -> WordPieceTraining.builder().alphabet(EVERY).minCount(0));
+    assertThrows(IllegalArgumentException.class, () -> WordPieceTraining.builder().alphabet(AlphabetPolicy.of(1.0, -1)));
     IllegalArgumentException floor = assertThrows(IllegalArgumentException.class,
-        () -> WordPieceTraining.builder().minPairCount(0));
+        () -> WordPieceTraining.builder().alphabet(EVERY).minPairCount(0));
     assertTrue(floor.getMessage().contains("minPairCount=0"), floor.getMessage());
-    assertThrows(NullPointerException.class, () -> WordPieceTraining.builder().score(null));
-    assertThrows(IllegalArgumentException.class, () -> WordPieceTraining.builder().reservedTokens(List.of("a", "a")));
-    assertThrows(IllegalArgumentException.class, () -> WordPieceTraining.builder().reservedTokens(List.of(UNK)).build());
+    assertThrows(NullPointerException.class, () -> WordPieceTraining.builder().alphabet(EVERY).score(null));
+    assertThrows(IllegalArgumentException.class, () -> WordPieceTraining.builder().alphabet(EVERY).reservedTokens(List.of("a", "a")));
+    assertThrows(IllegalArgumentException.class, () -> WordPieceTraining.builder().alphabet(EVERY).reservedTokens(List.of(UNK)).build());
   }
 
   @Test
@@ -166,7 +170,7 @@ class WordPieceLearnerTest {
     m.put("quay", 9L);
     m.put("dock", 4L);
     m.put("dock?", 7L);
-    WordPieceSegmenter s = WordPieceTraining.builder().settings(st).reservedTokens(List.of("ock")).vocabularySize(200)
+    WordPieceSegmenter s = WordPieceTraining.builder().alphabet(EVERY).settings(st).reservedTokens(List.of("ock")).vocabularySize(200)
         .build().segmenter(PieceCounts.of(m));
     // "qu" is the continuation form of 'u'; the word-initial merge q + u is blocked, so "quay"
     // starts with the word-initial "q" (equal to the marker, hence word-initial)
@@ -209,7 +213,7 @@ class WordPieceLearnerTest {
     List<String> expected = textbook(corpus, reserved, extra, gain, floor);
     // an explicit piece limit above every piece: the textbook learner keeps all pieces, while the
     // derived limit would leave out pieces longer than these tiny vocabularies
-    WordPieceSegmenter s = WordPieceTraining.builder().reservedTokens(reserved).minPairCount(floor)
+    WordPieceSegmenter s = WordPieceTraining.builder().alphabet(EVERY).reservedTokens(reserved).minPairCount(floor)
         .settings(WordPieceSettings.defaults().withMaxPieceLength(64))
         .score(gain ? WordPieceTraining.Score.LIKELIHOOD_GAIN : WordPieceTraining.Score.PAIR_RATIO)
         .vocabularySize(Math.max(2, alphabetEnd(corpus, reserved) + extra)).build().segmenter(PieceCounts.of(corpus));

@@ -2,6 +2,7 @@ package dev.morsel.tokenize.bpe.internal;
 
 import dev.morsel.tokenize.train.ExtensionSettings;
 import dev.morsel.tokenize.train.Extender;
+import dev.morsel.tokenize.train.AlphabetPolicy;
 import dev.morsel.tokenize.train.Learner;
 import dev.morsel.tokenize.train.LearnerOption;
 import dev.morsel.tokenize.train.LearnerOptions;
@@ -15,13 +16,22 @@ public final class BpeLearnerProvider implements LearnerProvider {
   static final String MAX_TOKEN_BYTES = "max-token-bytes";
   static final String MAX_PIECE_BYTES = "max-piece-bytes";
 
-  private static final List<LearnerOption> OPTIONS = List.of(
+  private static final List<LearnerOption> MORE = List.of(
       LearnerOption.of(MIN_PAIR_COUNT, Long.toString(BpeTraining.DEFAULT_MIN_PAIR_COUNT),
           "smallest count-weighted pair count worth a merge"),
       LearnerOption.of(MAX_TOKEN_BYTES, Integer.toString(BpeTraining.DEFAULT_MAX_TOKEN_BYTES),
           "longest token, in bytes of UTF-8 (2.." + BpeSegmenter.MAX_TOKEN_BYTES + ")"),
       LearnerOption.of(MAX_PIECE_BYTES, Integer.toString(BpeTraining.DEFAULT_MAX_PIECE_BYTES),
           "pieces longer than this many bytes of UTF-8 are left out of learning"));
+
+  private static final List<LearnerOption> OPTIONS = declared();
+
+  private static List<LearnerOption> declared() {
+    List<LearnerOption> all = new java.util.ArrayList<>(AlphabetPolicy.options(
+        "no cap (the coverage decides); merges never join bytes of characters left out"));
+    all.addAll(MORE);
+    return List.copyOf(all);
+  }
 
   /** For {@link java.util.ServiceLoader}. */
   public BpeLearnerProvider() {}
@@ -52,6 +62,7 @@ public final class BpeLearnerProvider implements LearnerProvider {
         .minPairCount(options.longValue(MIN_PAIR_COUNT, 1, Long.MAX_VALUE))
         .maxTokenBytes(options.intValue(MAX_TOKEN_BYTES, 2, BpeSegmenter.MAX_TOKEN_BYTES))
         .maxPieceBytes(options.intValue(MAX_PIECE_BYTES, 2, Integer.MAX_VALUE))
+        .alphabet(AlphabetPolicy.fromOptions(options))
         .build();
   }
 

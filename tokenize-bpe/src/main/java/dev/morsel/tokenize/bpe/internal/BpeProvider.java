@@ -1,5 +1,6 @@
 package dev.morsel.tokenize.bpe.internal;
 
+import dev.morsel.tokenize.format.AlphabetRecord;
 import dev.morsel.tokenize.format.ModelLimits;
 import dev.morsel.tokenize.format.ModelSections;
 import dev.morsel.tokenize.format.ReviewDocument;
@@ -18,11 +19,15 @@ public final class BpeProvider implements SegmenterProvider {
 
   @Override
   public Segmenter read(ModelSections sections, ModelLimits limits) {
-    return BpeSegmenter.read(sections, limits);
+    BpeSegmenter s = BpeSegmenter.read(sections, limits);
+    s.recordAlphabet(AlphabetRecord.read(sections));
+    return s;
   }
 
   @Override
   public Segmenter readReview(ReviewDocument review) {
-    return BpeSegmenter.readReview(review);
+    BpeSegmenter s = BpeSegmenter.readReview(review);
+    s.recordAlphabet(AlphabetRecord.readReview(review));
+    return s;
   }
 }

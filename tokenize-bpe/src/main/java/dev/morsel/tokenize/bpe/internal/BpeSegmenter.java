@@ -4,6 +4,7 @@ import dev.morsel.tokenize.ReservedTokens;
 import dev.morsel.tokenize.format.ModelFormatException;
 import dev.morsel.tokenize.format.ModelLimits;
 import dev.morsel.tokenize.format.ModelSections;
+import dev.morsel.tokenize.format.AlphabetRecord;
 import dev.morsel.tokenize.format.ModelWriter;
 import dev.morsel.tokenize.format.ReviewDocument;
 import dev.morsel.tokenize.format.ReviewWriter;
@@ -72,6 +73,9 @@ public final class BpeSegmenter implements Segmenter {
   private final SplittableRandom dropoutRoot; // null when dropout is off
   /** Workspaces for calls that bring none; owned by this segmenter. */
   private final WorkspacePool<Encoder.Scratch> own;
+
+  /** What the learner's alphabet policy did, or null (a model made from a token list, or an old file). */
+  private volatile AlphabetRecord alphabetRecord;
 
   private BpeSegmenter(Vocab vocab, Encoder encoder, ReservedTokens reserved, int cacheEntries, double dropout, long seed) {
     this.vocab = vocab;
@@ -367,15 +371,46 @@ public final class BpeSegmenter implements Segmenter {
     out.write(vocab.byteStore(), vocab.offset(id), vocab.length(id));
   }
 
+
+  /**
+   * Records what the alphabet policy did, once, before the segmenter is shared: the model file and
+   * the review text then carry it (section {@code ALPH}, outside the fingerprint). A null record is
+   * ignored.
+   *
+   * @throws IllegalStateException if a record was set already
+   */
+  public void recordAlphabet(AlphabetRecord record) {
+    if (record == null) {
+      return;
+    }
+    if (alphabetRecord != null) {
+      throw new IllegalStateException("the alphabet record is set once");
+    }
+    alphabetRecord = record;
+  }
+
+  /** What the learner's alphabet policy did, or null when the model does not say. */
+  public AlphabetRecord alphabetRecord() {
+    return alphabetRecord;
+  }
+
   @Override
   public void write(ModelWriter out) {
     BpeSections.write(out, vocab, DEFAULT_CACHE_ENTRIES);
+    AlphabetRecord r = alphabetRecord;
+    if (r != null) {
+      r.write(out);
+    }
   }
 
   /** Writes the {@code vocabulary} and {@code merges} sections of a review text. */
   @Override
   public void writeReview(ReviewWriter out) {
     BpeReview.write(out, vocab);
+    AlphabetRecord r = alphabetRecord;
+    if (r != null) {
+      r.writeReview(out);
+    }
   }
 
   /** Test and benchmark access to the two merge paths and the vocabulary. */

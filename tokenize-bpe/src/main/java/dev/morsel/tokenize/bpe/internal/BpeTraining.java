@@ -3,6 +3,8 @@ package dev.morsel.tokenize.bpe.internal;
 import dev.morsel.tokenize.Tokenizer;
 import dev.morsel.tokenize.Tokenizers;
 import dev.morsel.tokenize.format.ReviewText;
+import dev.morsel.tokenize.train.Alphabet;
+import dev.morsel.tokenize.train.AlphabetPolicy;
 import dev.morsel.tokenize.train.Learner;
 import dev.morsel.tokenize.train.LearnerSettings;
 import dev.morsel.tokenize.train.PieceCounts;
@@ -20,6 +22,12 @@ import java.util.Objects;
  * {@code vocabularySize}, or no pair occurs at least {@code minPairCount} times, or no pair is
  * eligible. A pair is eligible unless its token would exceed {@code maxTokenBytes}, its bytes are
  * already a token, or its display spelling equals a reserved spelling.
+ *
+ * <p>Alphabet: an {@link AlphabetPolicy} chooses the characters whose bytes merges may join (a
+ * derived cap is no cap: the coverage alone decides). Each piece is cut at the characters
+ * left out, and only the runs between them are learned from, so no merge, and no id, is spent on a
+ * rare character: at encode time its bytes stay byte tokens (or join by merges learned from other
+ * characters that share them). The choice goes to {@link TrainingListener#alphabet}.
  *
  * <p>Tie-break (deterministic): highest weighted pair count; then the smallest concatenated bytes in
  * unsigned lexicographic order; then the shorter left operand. Pair counts count overlapping
@@ -68,8 +76,10 @@ public final class BpeTraining implements Learner {
   private final List<String> reserved;
   private final int threads;
   private final TrainingListener listener;
+  private final AlphabetPolicy alphabet;
 
   private BpeTraining(Builder b) {
+    this.alphabet = b.alphabet;
     this.vocabularySize = b.vocabularySize;
     this.minPairCount = b.minPairCount;
     this.maxTokenBytes = b.maxTokenBytes;
@@ -111,24 +121,53 @@ public final class BpeTraining implements Learner {
     }
     List<byte[]> words = new ArrayList<>(kept.size());
     List<Long> kweights = new ArrayList<>(kept.size());
-    long pairTotal = 0;
+    List<String> within = new ArrayList<>(kept.size());
+    List<Long> withinCounts = new ArrayList<>(kept.size());
     for (int i = 0; i < kept.size(); i++) {
       String piece = kept.piece(i);
       if (piece.length() > maxPieceBytes) { // every UTF-16 unit takes at least one UTF-8 byte: skip unencoded
         continue;
       }
+      within.add(piece);
+      withinCounts.add(kept.count(i));
+    }
+    Alphabet chosen = null;
+    if (!within.isEmpty()) {
+      long[] wc = new long[within.size()];
+      for (int i = 0; i < wc.length; i++) {
+        wc[i] = withinCounts.get(i);
+      }
+      // derived cap: none; an alphabet character costs an id only when a merge that assembles it wins
+      chosen = alphabet.select(PieceCounts.of(within.toArray(new String[0]), wc), Integer.MAX_VALUE, true);
+      listener.alphabet(BpeSegmenter.SCHEME, chosen);
+    }
+    long pairTotal = 0;
+    for (int i = 0; i < within.size(); i++) {
+      String piece = within.get(i);
       byte[] b = Utf8.encode(piece);
       if (b.length > maxPieceBytes) {
         continue;
       }
-      try {
-        pairTotal = Math.addExact(pairTotal, Math.multiplyExact(kept.count(i), (long) b.length - 1));
-      } catch (ArithmeticException e) {
-        throw new IllegalArgumentException("piece counts are too large: the count-weighted number of byte pairs"
-            + " exceeds Long.MAX_VALUE, so pair counts would overflow; divide the counts by a common factor", e);
+      long count = withinCounts.get(i);
+      if (chosen.leftOutSize() == 0 || chosen.containsAll(piece)) {
+        pairTotal = addWord(b, count, pairTotal, words, kweights);
+        continue;
       }
-      words.add(b);
-      kweights.add(kept.count(i));
+      int start = 0; // the runs of alphabet characters between left-out ones
+      for (int c = 0; c < piece.length(); ) {
+        int cp = piece.codePointAt(c);
+        int next = c + Character.charCount(cp);
+        if (!chosen.contains(cp)) {
+          if (c > start) {
+            pairTotal = addWord(Utf8.encode(piece.substring(start, c)), count, pairTotal, words, kweights);
+          }
+          start = next;
+        }
+        c = next;
+      }
+      if (start < piece.length()) {
+        pairTotal = addWord(Utf8.encode(piece.substring(start)), count, pairTotal, words, kweights);
+      }
     }
     if (words.isEmpty()) {
       throw new IllegalArgumentException("every piece is longer than maxPieceBytes=" + maxPieceBytes
@@ -143,7 +182,21 @@ public final class BpeTraining implements Learner {
     MergeLearner learner = new MergeLearner(k, words, weights, budget, minPairCount, maxTokenBytes, reserved, listener);
     int[][] merges = learner.run(threads);
     Vocab v = Vocab.build(reserved, merges[0], merges[1], (i, msg) -> new IllegalStateException(msg));
-    return BpeSegmenter.create(v, BpeSegmenter.DEFAULT_CACHE_ENTRIES);
+    BpeSegmenter made = BpeSegmenter.create(v, BpeSegmenter.DEFAULT_CACHE_ENTRIES);
+    made.recordAlphabet(chosen == null ? null : chosen.record());
+    return made;
+  }
+
+  private static long addWord(byte[] b, long count, long pairTotal, List<byte[]> words, List<Long> weights) {
+    try {
+      pairTotal = Math.addExact(pairTotal, Math.multiplyExact(count, (long) b.length - 1));
+    } catch (ArithmeticException e) {
+      throw new IllegalArgumentException("piece counts are too large: the count-weighted number of byte pairs"
+          + " exceeds Long.MAX_VALUE, so pair counts would overflow; divide the counts by a common factor", e);
+    }
+    words.add(b);
+    weights.add(count);
+    return pairTotal;
   }
 
   /**
@@ -160,8 +213,18 @@ public final class BpeTraining implements Learner {
     private List<String> reserved = List.of();
     private int threads = Runtime.getRuntime().availableProcessors();
     private TrainingListener listener = TrainingListener.NONE;
+    private AlphabetPolicy alphabet = AlphabetPolicy.defaults();
 
     private Builder() {}
+
+    /**
+     * How the alphabet is chosen (default {@link AlphabetPolicy#defaults()}): merges never join the
+     * bytes of a character left out, so no id is spent on rare characters.
+     */
+    public Builder alphabet(AlphabetPolicy alphabet) {
+      this.alphabet = Objects.requireNonNull(alphabet, "alphabet");
+      return this;
+    }
 
     /** Target number of ids: reserved tokens + 256 bytes + merges. Default {@value #DEFAULT_VOCABULARY_SIZE}. */
     public Builder vocabularySize(int size) {

@@ -2,12 +2,14 @@ package dev.morsel.tokenize.unigram.internal;
 
 import dev.morsel.tokenize.Tokenizer;
 import dev.morsel.tokenize.Tokenizers;
+import dev.morsel.tokenize.train.Alphabet;
+import dev.morsel.tokenize.train.AlphabetPolicy;
 import dev.morsel.tokenize.train.Learner;
 import dev.morsel.tokenize.train.LearnerSettings;
 import dev.morsel.tokenize.train.PieceCounts;
 import dev.morsel.tokenize.train.TrainingListener;
 import it.unimi.dsi.fastutil.ints.IntArrays;
-import it.unimi.dsi.fastutil.ints.IntOpenHashSet;
+import it.unimi.dsi.fastutil.objects.Object2IntOpenHashMap;
 import java.util.ArrayList;
 import java.util.Arrays;
 import java.util.HashSet;
@@ -27,6 +29,12 @@ import java.util.concurrent.Executors;
  * (Viterbi) segmentation alt(t) of t's string without t itself [1, section 3.2]. The tokens with the
  * highest loss are kept, {@code keepShare} of the vocabulary per round; single characters always
  * stay so every piece stays covered.
+ *
+ * <p>Alphabet: an {@link AlphabetPolicy} chooses the characters tokens are made of (when its cap is
+ * derived: half the ids left after the reserved, byte and unknown tokens). Each piece is cut at the
+ * characters left out, and the runs between them are learned from in its place, so no seed token
+ * and no id holds a left-out character; at encode time those characters are spelled with byte
+ * tokens (byte spelling on) or become the unknown token.
  *
  * <p>Every setting is checked when the training is made (so by {@code UnigramLearner.Builder.build()}
  * and by the learner provider alike), each refusal naming the setting.
@@ -49,7 +57,7 @@ public final class Training implements Learner {
   /** Largest keep share: every round removes at least 1 % of the vocabulary. */
   public static final double MAX_KEEP_SHARE = 0.99;
   /** Default: characters outside the vocabulary become their UTF-8 bytes, never the unknown token. */
-  public static final boolean DEFAULT_RAW_BYTES = true;
+  public static final boolean DEFAULT_BYTE_SPELLING = true;
   /** Default seed table entries (about 100 bytes each). */
   public static final int DEFAULT_SEED_TABLE_LIMIT = 2_000_000;
   /**
@@ -65,7 +73,8 @@ public final class Training implements Learner {
   private final int maxTokenCodePoints;
   private final double keepShare;
   private final int emPasses;
-  private final boolean rawBytes;
+  private final boolean byteSpelling;
+  private final AlphabetPolicy alphabetPolicy;
   private final List<String> reserved;
   private final String unknown;
   private final int threads;
@@ -82,7 +91,7 @@ public final class Training implements Learner {
    * @throws NullPointerException if a reserved token, the unknown token or the listener is null
    */
   public Training(int vocabularySize, int candidateMultiple, int maxTokenCodePoints, double keepShare, int emPasses,
-      boolean rawBytes, List<String> reserved, String unknown, int threads, int seedTableLimit,
+      boolean byteSpelling, AlphabetPolicy alphabetPolicy, List<String> reserved, String unknown, int threads, int seedTableLimit,
       int maxPieceLength, long minCount, TrainingListener listener) {
     this.vocabularySize = check("vocabularySize", vocabularySize, 1, Integer.MAX_VALUE - 8);
     this.candidateMultiple = check("candidateMultiple", candidateMultiple, 1, 1000);
@@ -92,7 +101,8 @@ public final class Training implements Learner {
     }
     this.keepShare = keepShare;
     this.emPasses = check("emPasses", emPasses, 1, 100);
-    this.rawBytes = rawBytes;
+    this.byteSpelling = byteSpelling;
+    this.alphabetPolicy = Objects.requireNonNull(alphabetPolicy, "alphabet");
     this.reserved = LearnerSettings.checkReserved(reserved);
     Objects.requireNonNull(unknown, "unknownToken");
     if (unknown.isEmpty() || unknown.length() > UnigramSegmenter.MAX_PIECE_LENGTH
@@ -104,12 +114,12 @@ public final class Training implements Learner {
     if (clash >= 0) {
       throw new IllegalArgumentException("reservedTokens[" + clash + "] '" + unknown + "' equals the unknownToken spelling");
     }
-    if (rawBytes) {
+    if (byteSpelling) {
       for (int i = 0; i < this.reserved.size(); i++) {
         for (int b = 0; b < 256; b++) {
-          if (this.reserved.get(i).equals(UnigramSegmenter.byteSpelling(b))) {
+          if (this.reserved.get(i).equals(UnigramSegmenter.byteTokenText(b))) {
             throw new IllegalArgumentException("reservedTokens[" + i + "] '" + this.reserved.get(i)
-                + "' is the spelling of byte token " + b + " (rawBytes is on)");
+                + "' is the spelling of byte token " + b + " (byteSpelling is on)");
           }
         }
       }
@@ -123,10 +133,10 @@ public final class Training implements Learner {
     }
     this.minCount = minCount;
     this.listener = Objects.requireNonNull(listener, "listener");
-    long floor = (long) this.reserved.size() + (rawBytes ? 256 : 0) + 2;
+    long floor = (long) this.reserved.size() + (byteSpelling ? 256 : 0) + 2;
     if (vocabularySize < floor) {
       throw new IllegalArgumentException("vocabularySize=" + vocabularySize + " is below " + floor + " ("
-          + this.reserved.size() + " reserved tokens" + (rawBytes ? ", 256 byte tokens" : "")
+          + this.reserved.size() + " reserved tokens" + (byteSpelling ? ", 256 byte tokens" : "")
           + ", the unknown token and at least one piece)");
     }
   }
@@ -163,9 +173,8 @@ public final class Training implements Learner {
       throw new IllegalArgumentException("piece counts are empty; training needs at least one piece");
     }
     int n = counts.size();
-    List<String> corpusList = new ArrayList<>(n);
-    long[] weights = new long[n];
-    IntOpenHashSet alphabet = new IntOpenHashSet();
+    List<String> usable = new ArrayList<>(n);
+    long[] usableCounts = new long[n];
     int tooLong = 0;
     for (int i = 0; i < n; i++) {
       String p = counts.piece(i);
@@ -176,31 +185,65 @@ public final class Training implements Learner {
       if (UnigramSegmenter.unpairedSurrogate(p) >= 0) {
         continue; // an unpaired surrogate cannot be a token; such pieces are not learned from
       }
-      weights[corpusList.size()] = counts.count(i);
-      corpusList.add(p);
-      p.codePoints().forEach(alphabet::add);
+      usableCounts[usable.size()] = counts.count(i);
+      usable.add(p);
     }
-    if (corpusList.isEmpty()) {
+    if (usable.isEmpty()) {
       throw new IllegalArgumentException(tooLong == 0 ? "every piece holds an unpaired surrogate; nothing to train on"
           : tooLong + " of " + n + " pieces are longer than maxPieceLength="
           + maxPieceLength + " (UnigramLearner.Builder.maxPieceLength) and the rest hold an unpaired surrogate;"
           + " nothing to train on");
     }
-    String[] corpus = corpusList.toArray(new String[0]);
-    weights = Arrays.copyOf(weights, corpus.length);
-    int reservedIds = reserved.size() + (rawBytes ? 256 : 0) + 1;
+    int reservedIds = reserved.size() + (byteSpelling ? 256 : 0) + 1;
+    Alphabet alphabet = alphabetPolicy.select(PieceCounts.of(usable.toArray(new String[0]),
+        Arrays.copyOf(usableCounts, usable.size())), Math.max(1, (vocabularySize - reservedIds) / 2), byteSpelling);
     long required = (long) reservedIds + alphabet.size();
     if (vocabularySize < required) {
       throw new IllegalArgumentException("vocabularySize=" + vocabularySize + " is smaller than the " + required
-          + " ids required: " + reserved.size() + " reserved tokens" + (rawBytes ? ", 256 byte tokens" : "")
-          + ", 1 unknown token and an alphabet of " + alphabet.size() + " characters");
+          + " ids required: " + reserved.size() + " reserved tokens" + (byteSpelling ? ", 256 byte tokens" : "")
+          + ", 1 unknown token and an alphabet of " + alphabet.size() + " characters (lower the alphabet's maxSize"
+          + " or coverage)");
     }
+    listener.alphabet(UnigramSegmenter.SCHEME, alphabet);
+    // the runs of alphabet characters between the left-out ones, merged where equal (first-seen order)
+    Object2IntOpenHashMap<String> runIndex = new Object2IntOpenHashMap<>();
+    runIndex.defaultReturnValue(-1);
+    List<String> corpusList = new ArrayList<>(usable.size());
+    long[] weights = new long[usable.size()];
+    for (int i = 0; i < usable.size(); i++) {
+      String p = usable.get(i);
+      long w = usableCounts[i];
+      if (alphabet.leftOutSize() == 0 || alphabet.containsAll(p)) {
+        weights = addRun(p, w, runIndex, corpusList, weights);
+        continue;
+      }
+      int start = 0;
+      for (int k = 0; k < p.length(); ) {
+        int cp = p.codePointAt(k);
+        int next = k + Character.charCount(cp);
+        if (!alphabet.contains(cp)) {
+          if (k > start) {
+            weights = addRun(p.substring(start, k), w, runIndex, corpusList, weights);
+          }
+          start = next;
+        }
+        k = next;
+      }
+      if (start < p.length()) {
+        weights = addRun(p.substring(start), w, runIndex, corpusList, weights);
+      }
+    }
+    if (corpusList.isEmpty()) {
+      throw new IllegalArgumentException("no piece holds a character of the alphabet (" + alphabet.summary() + ")");
+    }
+    String[] corpus = corpusList.toArray(new String[0]);
+    weights = Arrays.copyOf(weights, corpus.length);
     int target = vocabularySize - reservedIds;
     Set<String> taken = new HashSet<>(reserved);
     taken.add(unknown);
-    if (rawBytes) {
+    if (byteSpelling) {
       for (int b = 0; b < 256; b++) {
-        taken.add(UnigramSegmenter.byteSpelling(b));
+        taken.add(UnigramSegmenter.byteTokenText(b));
       }
     }
     int maxMulti = (int) Math.min(Integer.MAX_VALUE - 8, (long) candidateMultiple * target);
@@ -258,7 +301,26 @@ public final class Training implements Learner {
       pieces.add(fv[order[i]]);
       scores[i] = fl[order[i]];
     }
-    return UnigramSegmenter.create(reserved, rawBytes, unknown, pieces, scores);
+    UnigramSegmenter made = UnigramSegmenter.create(reserved, byteSpelling, unknown, pieces, scores);
+    made.recordAlphabet(alphabet.record());
+    return made;
+  }
+
+  /** Adds {@code w} to the weight of {@code run}, appending it when new; returns the (grown) weights. */
+  private static long[] addRun(String run, long w, Object2IntOpenHashMap<String> index, List<String> runs,
+      long[] weights) {
+    int at = index.getInt(run);
+    if (at >= 0) {
+      weights[at] += w;
+      return weights;
+    }
+    index.put(run, runs.size());
+    if (runs.size() == weights.length) {
+      weights = Arrays.copyOf(weights, Math.max(16, weights.length * 2));
+    }
+    weights[runs.size()] = w;
+    runs.add(run);
+    return weights;
   }
 
   /** The E-step's threads: null for one (the caller's thread runs it), else daemon threads. */

@@ -220,7 +220,7 @@ public final class UnigramExtension implements Extender {
       pieces.add(fv[order[i]]);
       scores[nOld + i] = fl[order[i]];
     }
-    UnigramSegmenter extended = UnigramSegmenter.create(s.reservedSpellings(), s.rawBytes(), s.token(s.unknownId()),
+    UnigramSegmenter extended = UnigramSegmenter.create(s.reservedSpellings(), s.byteSpelling(), s.token(s.unknownId()),
         pieces, scores);
     return Tokenizers.extension(base, extended);
   }

@@ -2,6 +2,7 @@ package dev.morsel.tokenize.unigram.internal;
 
 import dev.morsel.tokenize.train.Extender;
 import dev.morsel.tokenize.train.ExtensionSettings;
+import dev.morsel.tokenize.train.AlphabetPolicy;
 import dev.morsel.tokenize.train.Learner;
 import dev.morsel.tokenize.train.LearnerOption;
 import dev.morsel.tokenize.train.LearnerOptions;
@@ -11,7 +12,7 @@ import java.util.List;
 
 /** Makes unigram learners by scheme name; registered for {@link java.util.ServiceLoader}. */
 public final class UnigramLearnerProvider implements LearnerProvider {
-  static final String RAW_BYTES = "raw-bytes";
+  static final String BYTE_SPELLING = "byte-spelling";
   static final String UNKNOWN_TOKEN = "unknown-token";
   static final String CANDIDATE_MULTIPLE = "candidate-multiple";
   static final String MAX_TOKEN_CODE_POINTS = "max-token-code-points";
@@ -20,9 +21,16 @@ public final class UnigramLearnerProvider implements LearnerProvider {
   static final String SEED_TABLE_LIMIT = "seed-table-limit";
   static final String MAX_PIECE_LENGTH = "max-piece-length";
 
-  private static final List<LearnerOption> OPTIONS = List.of(
-      LearnerOption.of(RAW_BYTES, Boolean.toString(Training.DEFAULT_RAW_BYTES),
-          "characters outside the vocabulary become their UTF-8 bytes, not the unknown token"),
+  private static List<LearnerOption> declared() {
+    List<LearnerOption> all = new java.util.ArrayList<>();
+    all.add(LearnerOption.of(BYTE_SPELLING, Boolean.toString(Training.DEFAULT_BYTE_SPELLING),
+        "characters outside the alphabet are spelled with byte tokens (UTF-8), not the unknown token"));
+    all.addAll(AlphabetPolicy.options("half the ids left after the reserved, byte and unknown tokens"));
+    all.addAll(MORE);
+    return List.copyOf(all);
+  }
+
+  private static final List<LearnerOption> MORE = List.of(
       LearnerOption.of(UNKNOWN_TOKEN, UnigramSegmenter.DEFAULT_UNKNOWN, "the spelling of the unknown token"),
       LearnerOption.of(CANDIDATE_MULTIPLE, Integer.toString(Training.DEFAULT_CANDIDATE_MULTIPLE),
           "seed candidates as a multiple of the pieces wanted (1..1000)"),
@@ -35,6 +43,8 @@ public final class UnigramLearnerProvider implements LearnerProvider {
           "entries of the seed substring table before rare ones are dropped"),
       LearnerOption.of(MAX_PIECE_LENGTH, Integer.toString(Training.DEFAULT_MAX_PIECE_LENGTH),
           "pieces longer than this many UTF-16 units are left out of learning"));
+
+  private static final List<LearnerOption> OPTIONS = declared();
 
   /** For {@link java.util.ServiceLoader}. */
   public UnigramLearnerProvider() {}
@@ -56,7 +66,8 @@ public final class UnigramLearnerProvider implements LearnerProvider {
 
   @Override
   public Learner learner(LearnerSettings settings, LearnerOptions options) {
-    boolean rawBytes = options.booleanValue(RAW_BYTES);
+    boolean byteSpelling = options.booleanValue(BYTE_SPELLING);
+    AlphabetPolicy alphabet = AlphabetPolicy.fromOptions(options);
     String unknown = options.string(UNKNOWN_TOKEN);
     int candidates = options.intValue(CANDIDATE_MULTIPLE, 1, 1000);
     int tokenLength = options.intValue(MAX_TOKEN_CODE_POINTS, 1, 64);
@@ -65,7 +76,7 @@ public final class UnigramLearnerProvider implements LearnerProvider {
     int seedTable = options.intValue(SEED_TABLE_LIMIT, 1000, 100_000_000);
     int pieceLength = options.intValue(MAX_PIECE_LENGTH, 1, 1 << 26);
     try {
-      return new Training(settings.vocabularySize(), candidates, tokenLength, keep, passes, rawBytes,
+      return new Training(settings.vocabularySize(), candidates, tokenLength, keep, passes, byteSpelling, alphabet,
           settings.reservedTokens(), unknown, Math.min(settings.threads(), Training.MAX_THREADS), seedTable, pieceLength,
           settings.minCount(), settings.listener());
     } catch (IllegalArgumentException e) {

@@ -1,5 +1,6 @@
 package dev.morsel.tokenize.unigram.internal;
 
+import dev.morsel.tokenize.format.AlphabetRecord;
 import dev.morsel.tokenize.format.ModelFormatException;
 import dev.morsel.tokenize.format.ModelLimits;
 import dev.morsel.tokenize.format.ModelSections;
@@ -35,7 +36,9 @@ public final class UnigramProvider implements SegmenterProvider {
 
   @Override
   public Segmenter readReview(ReviewDocument review) {
-    return UnigramReview.read(review);
+    UnigramSegmenter s = UnigramReview.read(review);
+    s.recordAlphabet(AlphabetRecord.readReview(review));
+    return s;
   }
 
   @Override
@@ -45,9 +48,9 @@ public final class UnigramProvider implements SegmenterProvider {
     if (version != UnigramSegmenter.FORMAT_VERSION) {
       throw st.fail("format version " + version + " is not " + UnigramSegmenter.FORMAT_VERSION);
     }
-    int flag = st.getByte("byte fallback flag");
+    int flag = st.getByte("byte spelling flag");
     if (flag > 1) {
-      throw st.fail("byte fallback flag " + flag + " is not 0 or 1");
+      throw st.fail("byte spelling flag " + flag + " is not 0 or 1");
     }
     String unknown = limits.readToken(st, "unknown token");
     int k = limits.readReservedCount(st, "reserved tokens", 4);
@@ -66,9 +69,11 @@ public final class UnigramProvider implements SegmenterProvider {
       scores[i] = vo.getDouble("score of piece " + i);
     }
     vo.expectEnd();
-    return new UnigramSegmenter(reserved, flag == 1, unknown, pieces, scores, (what, index, message) -> {
+    UnigramSegmenter s = new UnigramSegmenter(reserved, flag == 1, unknown, pieces, scores, (what, index, message) -> {
       String tag = what.equals("piece") ? UnigramSegmenter.PIECES : UnigramSegmenter.SETTINGS;
       return new ModelFormatException(tag, what + " " + index + ": " + message);
     });
+    s.recordAlphabet(AlphabetRecord.read(sections));
+    return s;
   }
 }

@@ -35,7 +35,7 @@ final class UnigramReview {
     for (int i = 0; i < m.reservedCount(); i++, id++) {
       out.row(Integer.toString(id), RESERVED, ReviewText.escape(m.token(id)), "");
     }
-    if (m.rawBytes()) {
+    if (m.byteSpelling()) {
       for (int b = 0; b < 256; b++, id++) {
         out.row(Integer.toString(id), BYTE, ReviewText.escape(new byte[] {(byte) b}), "");
       }
@@ -57,8 +57,8 @@ final class UnigramReview {
       empty(byId[id]);
       id++;
     }
-    boolean rawBytes = id < n && byId[id].raw(1).equals(BYTE);
-    if (rawBytes) {
+    boolean byteSpelling = id < n && byId[id].raw(1).equals(BYTE);
+    if (byteSpelling) {
       for (int b = 0; b < 256; b++, id++) {
         if (id >= n || !byId[id].word(1, RESERVED, BYTE, UNKNOWN, PIECE).equals(BYTE)) {
           throw (id >= n ? vs.fail("ends inside the 256 byte rows") : byId[id].fail(1, "expected byte row " + b
@@ -73,7 +73,7 @@ final class UnigramReview {
     }
     if (id >= n || !byId[id].word(1, RESERVED, BYTE, UNKNOWN, PIECE).equals(UNKNOWN)) {
       throw id >= n ? vs.fail("has no unknown row") : byId[id].fail(1, "expected the unknown row at id " + id
-          + " (after the reserved" + (rawBytes ? " and byte" : "") + " rows)");
+          + " (after the reserved" + (byteSpelling ? " and byte" : "") + " rows)");
     }
     String unknown = byId[id].text(2);
     empty(byId[id]);
@@ -89,7 +89,7 @@ final class UnigramReview {
       scores[id - first] = r.decimal(3);
     }
     int reservedCount = reserved.size();
-    return new UnigramSegmenter(reserved.toArray(new String[0]), rawBytes, unknown, pieces, scores,
+    return new UnigramSegmenter(reserved.toArray(new String[0]), byteSpelling, unknown, pieces, scores,
         (what, index, message) -> {
           int at = what.equals("piece") ? first + index : what.equals("reserved token") ? index
               : what.equals("byte token") ? reservedCount + index : first - 1;

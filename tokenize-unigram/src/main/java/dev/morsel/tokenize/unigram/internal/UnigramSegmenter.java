@@ -2,6 +2,7 @@ package dev.morsel.tokenize.unigram.internal;
 
 import dev.morsel.tokenize.Tokenizer;
 import dev.morsel.tokenize.Tokenizers;
+import dev.morsel.tokenize.format.AlphabetRecord;
 import dev.morsel.tokenize.format.ModelWriter;
 import dev.morsel.tokenize.format.ReviewWriter;
 import dev.morsel.tokenize.format.SectionWriter;
@@ -82,7 +83,7 @@ public final class UnigramSegmenter implements Segmenter {
   /** Pieces that are their own Viterbi path: one probe instead of a Viterbi pass (see wholePieces). */
   private final PieceTable whole;
   private final int reservedCount;
-  private final boolean rawBytes;
+  private final boolean byteSpelling;
   private final int byteBase;
   private final int unknownId;
   private final int firstPiece;
@@ -92,6 +93,9 @@ public final class UnigramSegmenter implements Segmenter {
   private final double[] pieceScores;
   /** Workspaces for calls that bring none (n-best, sampling, direct use); owned by this segmenter. */
   private final WorkspacePool<Scratch> own = WorkspacePool.of(Scratch::new);
+
+  /** What the learner's alphabet policy did, or null (a model made from a token list, or an old file). */
+  private volatile AlphabetRecord alphabetRecord;
 
   // ------------------------------------------------------------------ life-cycle
 
@@ -108,13 +112,13 @@ public final class UnigramSegmenter implements Segmenter {
    * scores {@code min(0, lowest piece score) - 10} (a penalty below every piece).
    *
    * @param reservedTokens reserved tokens (ids 0..k-1), distinct and non-empty
-   * @param rawBytes whether uncovered characters become byte tokens instead of the unknown token
+   * @param byteSpelling whether uncovered characters become byte tokens instead of the unknown token
    * @param unknownToken spelling of the unknown token
    * @param pieces the pieces: non-empty, distinct, well-formed UTF-16, at most {@link #MAX_PIECE_LENGTH} units
    * @param scores their log-probabilities, finite
    * @throws IllegalArgumentException naming the entry that is wrong
    */
-  public static UnigramSegmenter create(List<String> reservedTokens, boolean rawBytes, String unknownToken,
+  public static UnigramSegmenter create(List<String> reservedTokens, boolean byteSpelling, String unknownToken,
       List<String> pieces, double[] scores) {
     Objects.requireNonNull(reservedTokens, "reservedTokens");
     Objects.requireNonNull(unknownToken, "unknownToken");
@@ -123,7 +127,7 @@ public final class UnigramSegmenter implements Segmenter {
     if (pieces.size() != scores.length) {
       throw new IllegalArgumentException(pieces.size() + " pieces but " + scores.length + " scores");
     }
-    return new UnigramSegmenter(reservedTokens.toArray(new String[0]), rawBytes, unknownToken,
+    return new UnigramSegmenter(reservedTokens.toArray(new String[0]), byteSpelling, unknownToken,
         pieces.toArray(new String[0]), scores.clone(), ARGUMENT);
   }
 
@@ -151,17 +155,17 @@ public final class UnigramSegmenter implements Segmenter {
     return (UnigramSegmenter) s;
   }
 
-  UnigramSegmenter(String[] reserved, boolean rawBytes, String unknown, String[] pieces, double[] scores,
+  UnigramSegmenter(String[] reserved, boolean byteSpelling, String unknown, String[] pieces, double[] scores,
       Failure fail) {
     int k = reserved.length;
-    int total = k + (rawBytes ? 256 : 0) + 1 + pieces.length;
+    int total = k + (byteSpelling ? 256 : 0) + 1 + pieces.length;
     this.reserved = reserved;
     this.pieces = pieces;
     this.pieceScores = scores;
     this.reservedCount = k;
-    this.rawBytes = rawBytes;
-    this.byteBase = rawBytes ? k : -1;
-    this.unknownId = k + (rawBytes ? 256 : 0);
+    this.byteSpelling = byteSpelling;
+    this.byteBase = byteSpelling ? k : -1;
+    this.unknownId = k + (byteSpelling ? 256 : 0);
     this.firstPiece = unknownId + 1;
     this.spelling = new String[total];
     this.bytes = new byte[total][];
@@ -176,9 +180,9 @@ public final class UnigramSegmenter implements Segmenter {
       }
       put(i, c, c.getBytes(StandardCharsets.UTF_8), "reserved token", i, fail);
     }
-    if (rawBytes) {
+    if (byteSpelling) {
       for (int b = 0; b < 256; b++) {
-        put(byteBase + b, byteSpelling(b), new byte[] {(byte) b}, "byte token", b, fail);
+        put(byteBase + b, byteTokenText(b), new byte[] {(byte) b}, "byte token", b, fail);
       }
     }
     if (unknown == null || unknown.isEmpty()) {
@@ -255,7 +259,7 @@ public final class UnigramSegmenter implements Segmenter {
   }
 
   /** Display spelling of byte token {@code b}: white curly brackets around two hex digits. */
-  static String byteSpelling(int b) {
+  static String byteTokenText(int b) {
     return "\u2983" + Character.toUpperCase(Character.forDigit(b >>> 4, 16))
         + Character.toUpperCase(Character.forDigit(b & 15, 16)) + "\u2984";
   }
@@ -310,8 +314,8 @@ public final class UnigramSegmenter implements Segmenter {
   }
 
   /** Whether uncovered characters become byte tokens. */
-  public boolean rawBytes() {
-    return rawBytes;
+  public boolean byteSpelling() {
+    return byteSpelling;
   }
 
   /** The id of the first byte token (byte {@code b} is {@code firstByteId() + b}), or -1 without raw bytes. */
@@ -372,10 +376,37 @@ public final class UnigramSegmenter implements Segmenter {
     out.write(b, 0, b.length);
   }
 
+
+  /**
+   * Records what the alphabet policy did, once, before the segmenter is shared: the model file and
+   * the review text then carry it (section {@code ALPH}, outside the fingerprint). A null record is
+   * ignored.
+   *
+   * @throws IllegalStateException if a record was set already
+   */
+  public void recordAlphabet(AlphabetRecord record) {
+    if (record == null) {
+      return;
+    }
+    if (alphabetRecord != null) {
+      throw new IllegalStateException("the alphabet record is set once");
+    }
+    alphabetRecord = record;
+  }
+
+  /** What the learner's alphabet policy did, or null when the model does not say. */
+  public AlphabetRecord alphabetRecord() {
+    return alphabetRecord;
+  }
+
   @Override
   public void write(ModelWriter out) {
+    AlphabetRecord r = alphabetRecord;
+    if (r != null) {
+      r.write(out);
+    }
     SectionWriter st = out.section(SETTINGS);
-    st.putInt(FORMAT_VERSION).putByte(rawBytes ? 1 : 0).putString(spelling[unknownId]).putInt(reservedCount);
+    st.putInt(FORMAT_VERSION).putByte(byteSpelling ? 1 : 0).putString(spelling[unknownId]).putInt(reservedCount);
     for (String c : reserved) {
       st.putString(c);
     }
@@ -390,6 +421,10 @@ public final class UnigramSegmenter implements Segmenter {
   @Override
   public void writeReview(ReviewWriter out) {
     UnigramReview.write(out, this);
+    AlphabetRecord r = alphabetRecord;
+    if (r != null) {
+      r.writeReview(out);
+    }
   }
 
   @Override
@@ -714,7 +749,7 @@ public final class UnigramSegmenter implements Segmenter {
 
   /** Reports one lattice edge: a token, or an uncovered character as unknown or byte tokens. */
   private void emit(CharSequence text, int from, int to, int id, TokenSink sink) {
-    if (id != unknownId || !rawBytes) {
+    if (id != unknownId || !byteSpelling) {
       sink.token(id, from, to);
       return;
     }

@@ -3,6 +3,7 @@ package dev.morsel.tokenize.wordpiece.internal;
 import dev.morsel.tokenize.Tokenizer;
 import dev.morsel.tokenize.Tokenizers;
 import dev.morsel.tokenize.spi.Segmenter;
+import dev.morsel.tokenize.train.AlphabetPolicy;
 import dev.morsel.tokenize.train.Extender;
 import dev.morsel.tokenize.train.PieceCounts;
 import dev.morsel.tokenize.train.TrainingListener;
@@ -74,7 +75,7 @@ public final class WordPieceExtension implements Extender {
     WordPieceTraining training = WordPieceTraining.builder()
         .vocabularySize((int) total)
         .minCount(minCount)
-        .maxAlphabet(maxAlphabet)
+        .alphabet(AlphabetPolicy.defaults().withMaxSize(maxAlphabet))
         .reservedTokens(s.reservedSpellings())
         .settings(s.settings())
         .score(score)

@@ -4,6 +4,7 @@ import dev.morsel.tokenize.Tokenizer;
 import dev.morsel.tokenize.Tokenizers;
 import dev.morsel.tokenize.train.Extender;
 import dev.morsel.tokenize.train.ExtensionSettings;
+import dev.morsel.tokenize.train.AlphabetPolicy;
 import dev.morsel.tokenize.train.Learner;
 import dev.morsel.tokenize.train.LearnerOption;
 import dev.morsel.tokenize.train.LearnerOptions;
@@ -15,27 +16,36 @@ import java.util.Locale;
 
 /** Makes WordPiece learners by scheme name; registered for {@link java.util.ServiceLoader}. */
 public final class WordPieceLearnerProvider implements LearnerProvider {
-  static final String MAX_ALPHABET = "max-alphabet";
+  static final String MAX_ALPHABET = AlphabetPolicy.MAX_SIZE_OPTION;
   static final String MIN_PAIR_COUNT = "min-pair-count";
+  static final String BYTE_SPELLING = "byte-spelling";
   static final String SCORE = "score";
   static final String MARKER = "marker";
   static final String UNKNOWN_TOKEN = "unknown-token";
-  /** {@code max-alphabet=auto}: the alphabet takes at most this share of the vocabulary (each code point has two forms). */
-  static final int AUTO_ALPHABET_DIVISOR = 4;
-  static final String AUTO = "auto";
+  static final String AUTO = AlphabetPolicy.AUTO;
 
   private static final List<String> SCORES = List.of(name(WordPieceTraining.Score.LIKELIHOOD_GAIN),
       name(WordPieceTraining.Score.PAIR_RATIO));
 
-  private static final List<LearnerOption> OPTIONS = List.of(
-      LearnerOption.of(MAX_ALPHABET, AUTO,
-          "most distinct code points kept in the alphabet (each has two forms); auto: at most "
-              + WordPieceTraining.DEFAULT_MAX_ALPHABET + " and a quarter of the vocabulary"),
+  private static List<LearnerOption> declared() {
+    List<LearnerOption> all = new java.util.ArrayList<>();
+    all.add(LearnerOption.of(BYTE_SPELLING, AUTO,
+        "characters outside the alphabet are spelled with byte tokens (UTF-8), not the unknown token for their piece;"
+            + " auto: on from " + WordPieceTraining.BYTE_SPELLING_FROM + " ids"));
+    all.addAll(AlphabetPolicy.options(
+        "a quarter of the ids left after the reserved and unknown tokens (each character has two forms)"));
+    all.addAll(MORE);
+    return List.copyOf(all);
+  }
+
+  private static final List<LearnerOption> MORE = List.of(
       LearnerOption.of(MIN_PAIR_COUNT, Long.toString(WordPieceTraining.DEFAULT_MIN_PAIR_COUNT),
           "pairs occurring fewer times are never merged"),
       LearnerOption.of(SCORE, SCORES.get(0), "how candidate pairs are ranked: " + String.join(" or ", SCORES)),
       LearnerOption.of(MARKER, WordPieceSettings.DEFAULT_MARKER, "the prefix that marks a continuation token"),
       LearnerOption.of(UNKNOWN_TOKEN, WordPieceSettings.DEFAULT_UNKNOWN, "the spelling of the unknown token"));
+
+  private static final List<LearnerOption> OPTIONS = declared();
 
   /** For {@link java.util.ServiceLoader}. */
   public WordPieceLearnerProvider() {}
@@ -59,20 +69,24 @@ public final class WordPieceLearnerProvider implements LearnerProvider {
   public Learner learner(LearnerSettings settings, LearnerOptions options) {
     WordPieceSettings wp;
     try {
-      wp = WordPieceSettings.defaults().withMarker(options.string(MARKER)).withUnknownToken(options.string(UNKNOWN_TOKEN));
+      wp = WordPieceSettings.defaults().withMarker(options.string(MARKER)).withUnknownToken(options.string(UNKNOWN_TOKEN))
+          .withByteSpelling(options.string(BYTE_SPELLING).equals(AUTO)
+              ? WordPieceTraining.defaultByteSpelling(settings.vocabularySize()) : options.booleanValue(BYTE_SPELLING));
     } catch (IllegalArgumentException e) {
       throw new IllegalArgumentException(scheme() + " options: " + e.getMessage(), e);
     }
     String score = options.choice(SCORE, SCORES);
-    boolean auto = options.string(MAX_ALPHABET).equals(AUTO);
-    int alphabet = auto ? autoAlphabet(settings.vocabularySize(), settings.reservedTokens().size() + 1)
-        : options.intValue(MAX_ALPHABET, 1, Integer.MAX_VALUE);
+    AlphabetPolicy policy = AlphabetPolicy.fromOptions(options);
+    boolean auto = policy.maxSize() == AlphabetPolicy.DERIVED_MAX_SIZE;
+    int alphabet = auto ? WordPieceTraining.derivedAlphabetCap(settings.vocabularySize(),
+        settings.reservedTokens().size() + (wp.byteSpelling() ? 256 : 0))
+        : policy.maxSize();
     Learner learner = WordPieceTraining.builder()
         .vocabularySize(settings.vocabularySize())
         .minCount(settings.minCount())
         .reservedTokens(settings.reservedTokens())
         .listener(settings.listener())
-        .maxAlphabet(alphabet)
+        .alphabet(policy)
         .minPairCount(options.longValue(MIN_PAIR_COUNT, 1, Long.MAX_VALUE))
         .score(score.equals(SCORES.get(0)) ? WordPieceTraining.Score.LIKELIHOOD_GAIN : WordPieceTraining.Score.PAIR_RATIO)
         .settings(wp)
@@ -90,32 +104,26 @@ public final class WordPieceLearnerProvider implements LearnerProvider {
           return learner.train(counts);
         } catch (IllegalArgumentException e) {
           // in the words of this provider's options
-          throw new IllegalArgumentException(e.getMessage().replace("maxAlphabet=" + alphabet, "option " + MAX_ALPHABET)
-              .replace("lower maxAlphabet", "lower option " + MAX_ALPHABET + note), e);
+          throw new IllegalArgumentException(e.getMessage()
+              .replace("lower the alphabet's maxSize or coverage", "lower option " + MAX_ALPHABET + " or "
+                  + AlphabetPolicy.COVERAGE_OPTION + note), e);
         }
       }
     };
   }
 
   /**
-   * {@code max-alphabet=auto}: the learner's default of {@value WordPieceTraining#DEFAULT_MAX_ALPHABET}
-   * code points, lowered so that both forms of every code point take at most half of the vocabulary.
-   */
-  static int autoAlphabet(int vocabularySize, int reservedIds) {
-    int room = (vocabularySize - reservedIds - 1) / AUTO_ALPHABET_DIVISOR;
-    return Math.max(1, Math.min(WordPieceTraining.DEFAULT_MAX_ALPHABET, room));
-  }
-
-  /**
-   * Options {@code max-alphabet} (the code points the base lacks that may be added; {@code auto}:
-   * {@value WordPieceTraining#DEFAULT_MAX_ALPHABET}), {@code min-pair-count} and {@code score} apply;
+   * Options {@code max-alphabet} (the code points the base lacks that may be added; {@code auto}: a
+   * quarter of the added ids, as a learner's derived cap is a quarter of its free ids),
+   * {@code min-pair-count} and {@code score} apply;
    * {@code marker} and {@code unknown-token} are the base's and must be left at their defaults or equal the base's.
    */
   @Override
   public Extender extender(ExtensionSettings settings, LearnerOptions options) {
     String score = options.choice(SCORE, SCORES);
-    int alphabet = options.string(MAX_ALPHABET).equals(AUTO) ? WordPieceTraining.DEFAULT_MAX_ALPHABET
-        : options.intValue(MAX_ALPHABET, 1, Integer.MAX_VALUE);
+    AlphabetPolicy policy = AlphabetPolicy.fromOptions(options);
+    int alphabet = policy.maxSize() == AlphabetPolicy.DERIVED_MAX_SIZE ? Math.max(1, settings.addedIds() / 4)
+        : policy.maxSize();
     Extender inner = new WordPieceExtension(settings.addedIds(), settings.minCount(), alphabet,
         options.longValue(MIN_PAIR_COUNT, 1, Long.MAX_VALUE),
         score.equals(SCORES.get(0)) ? WordPieceTraining.Score.LIKELIHOOD_GAIN : WordPieceTraining.Score.PAIR_RATIO,

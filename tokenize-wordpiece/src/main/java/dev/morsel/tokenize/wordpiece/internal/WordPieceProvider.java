@@ -1,5 +1,6 @@
 package dev.morsel.tokenize.wordpiece.internal;
 
+import dev.morsel.tokenize.format.AlphabetRecord;
 import dev.morsel.tokenize.format.ModelLimits;
 import dev.morsel.tokenize.format.ModelSections;
 import dev.morsel.tokenize.format.ReviewDocument;
@@ -21,11 +22,15 @@ public final class WordPieceProvider implements SegmenterProvider {
 
   @Override
   public Segmenter read(ModelSections sections, ModelLimits limits) {
-    return WordPieceSegmenter.read(sections, limits);
+    WordPieceSegmenter s = WordPieceSegmenter.read(sections, limits);
+    s.recordAlphabet(AlphabetRecord.read(sections));
+    return s;
   }
 
   @Override
   public Segmenter readReview(ReviewDocument review) {
-    return WordPieceSegmenter.readReview(review);
+    WordPieceSegmenter s = WordPieceSegmenter.readReview(review);
+    s.recordAlphabet(AlphabetRecord.readReview(review));
+    return s;
   }
 }

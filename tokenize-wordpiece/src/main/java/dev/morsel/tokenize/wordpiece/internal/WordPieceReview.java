@@ -26,8 +26,9 @@ final class WordPieceReview {
   private static final String UNKNOWN = "unknown";
   private static final String LIMIT = "max-piece-length";
   private static final String DERIVED = "derived";
+  private static final String BYTES = "byte-spelling";
   /** Kind words by the segmenter's kind codes. */
-  private static final String[] KINDS = {"reserved", "unknown", "initial", "continuation"};
+  private static final String[] KINDS = {"reserved", "unknown", "initial", "continuation", "byte"};
 
   private WordPieceReview() {}
 
@@ -37,6 +38,9 @@ final class WordPieceReview {
     out.row(UNKNOWN, ReviewText.escape(settings.unknownToken()));
     out.row(LIMIT, settings.maxPieceLength() == WordPieceSettings.DERIVED_PIECE_LENGTH ? DERIVED
         : Integer.toString(settings.maxPieceLength()));
+    if (settings.byteSpelling()) {
+      out.row(BYTES, "true");
+    }
     out.section(VOCABULARY, VOCABULARY_COLUMNS);
     for (int i = 0; i < spellings.length; i++) {
       out.row(Integer.toString(i), KINDS[kinds[i]], ReviewText.escape(spellings[i]));
@@ -64,10 +68,10 @@ final class WordPieceReview {
   static Read read(ReviewDocument doc) {
     ReviewDocument.Section ss = doc.section(SETTINGS, SETTINGS_COLUMNS);
     WordPieceSettings settings = WordPieceSettings.defaults();
-    ReviewDocument.Row[] seen = new ReviewDocument.Row[3];
+    ReviewDocument.Row[] seen = new ReviewDocument.Row[4];
     for (ReviewDocument.Row r : ss.rows()) {
-      String key = r.word(0, MARKER, UNKNOWN, LIMIT);
-      int k = key.equals(MARKER) ? 0 : key.equals(UNKNOWN) ? 1 : 2;
+      String key = r.word(0, MARKER, UNKNOWN, LIMIT, BYTES);
+      int k = key.equals(MARKER) ? 0 : key.equals(UNKNOWN) ? 1 : key.equals(LIMIT) ? 2 : 3;
       if (seen[k] != null) {
         throw r.fail(0, key + " repeats line " + seen[k].line());
       }
@@ -77,6 +81,8 @@ final class WordPieceReview {
           settings = settings.withMarker(r.text(1));
         } else if (k == 1) {
           settings = settings.withUnknownToken(r.text(1));
+        } else if (k == 3) {
+          settings = settings.withByteSpelling(r.word(1, "true", "false").equals("true"));
         } else {
           settings = settings.withMaxPieceLength(r.raw(1).equals(DERIVED) ? WordPieceSettings.DERIVED_PIECE_LENGTH
               : (int) r.integer(1, 1, WordPieceSettings.MAX_MAX_PIECE_LENGTH));
@@ -111,13 +117,15 @@ final class WordPieceReview {
         continue;
       } else if (id == reserved) {
         expected = KINDS[WordPieceSegmenter.UNKNOWN];
+      } else if (settings.byteSpelling() && id <= reserved + 256) {
+        expected = KINDS[WordPieceSegmenter.BYTE];
       } else {
         expected = t.length() > marker.length() && t.startsWith(marker) ? KINDS[WordPieceSegmenter.CONTINUATION]
             : KINDS[WordPieceSegmenter.INITIAL];
       }
       if (!kind.equals(expected)) {
         throw r.fail(1, "id " + id + " is " + expected + " here, not " + kind + " (reserved tokens come first, then"
-            + " the unknown token; a continuation token is spelled with the marker " + marker + " in front)");
+            + " the unknown token, then with byte-spelling the 256 byte tokens; a continuation token is spelled with the marker " + marker + " in front)");
       }
     }
     if (n == reserved) {

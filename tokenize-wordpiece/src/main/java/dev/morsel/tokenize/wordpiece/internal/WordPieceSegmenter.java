@@ -4,6 +4,7 @@ import dev.morsel.tokenize.internal.PieceTable;
 import dev.morsel.tokenize.format.ModelFormatException;
 import dev.morsel.tokenize.format.ModelLimits;
 import dev.morsel.tokenize.format.ModelSections;
+import dev.morsel.tokenize.format.AlphabetRecord;
 import dev.morsel.tokenize.format.ModelWriter;
 import dev.morsel.tokenize.format.ReviewDocument;
 import dev.morsel.tokenize.format.ReviewText;
@@ -26,13 +27,17 @@ import java.util.Objects;
 /**
  * A WordPiece segmenter: each piece is segmented greedily, longest match first, against a
  * vocabulary of word-initial and continuation tokens; a piece that cannot be covered, or that is
- * longer than {@link #pieceLimit()}, becomes the unknown token as a whole.
+ * longer than {@link #pieceLimit()}, becomes the unknown token as a whole, unless the settings have
+ * byte spelling on: then the runs of alphabet characters in it are matched on their own and every
+ * other character is spelled with byte tokens, one per UTF-8 byte, each spanning the whole
+ * character, so the encoding stays lossless.
  * Immutable and thread-safe; {@link #segment} allocates nothing in steady state and runs in time
  * linear in the piece length on every input (LinMaxMatch [3]).
  *
  * <p>Vocabulary layout: ids {@code 0..reservedCount-1} are reserved tokens (user spellings, never
  * produced by {@link #segment}), id {@code reservedCount} is the unknown token, the rest are
- * ordinary tokens. An ordinary spelling that starts with the marker and is longer than it is a
+ * ordinary tokens; with byte spelling, ids {@code reservedCount+1..reservedCount+256} are the byte
+ * tokens (spelled {@link WordPieceSettings#byteTokenText}) before them. An ordinary spelling that starts with the marker and is longer than it is a
  * continuation token whose text is the spelling without the marker; any other spelling is a
  * word-initial token. Spellings are distinct and well-formed UTF-16.
  *
@@ -56,8 +61,10 @@ public final class WordPieceSegmenter implements Segmenter {
   public static final String SETTINGS_TAG = "WPST";
   /** Section tag of the vocabulary. */
   public static final String VOCABULARY_TAG = "WPVO";
-  /** Version of the two sections' layout. */
+  /** Version of the two sections' layout without byte spelling (files of every version before it). */
   static final int FORMAT_VERSION = 1;
+  /** Version of the settings layout with byte spelling: version 1's fields, then a u8 flag. */
+  static final int FORMAT_VERSION_BYTES = 2;
   /** Most tokens a vocabulary may hold (keeps trie keys and pop runs in int range). */
   public static final int MAX_VOCABULARY_SIZE = 1 << 24;
 
@@ -65,6 +72,7 @@ public final class WordPieceSegmenter implements Segmenter {
   static final byte UNKNOWN = 1;
   static final byte INITIAL = 2;
   static final byte CONTINUATION = 3;
+  static final byte BYTE = 4;
 
   // ------------------------------------------------------------------ state
 
@@ -73,6 +81,8 @@ public final class WordPieceSegmenter implements Segmenter {
   private final int pieceLimit;
   private final int reservedCount;
   private final int unknownId;
+  /** Id of byte token 0, or -1 without byte spelling. */
+  private final int byteBase;
   private final String[] spellings;
   private final byte[] kinds;
   private final int[] bodyLength;
@@ -91,6 +101,9 @@ public final class WordPieceSegmenter implements Segmenter {
   /** Workspaces for calls that bring none; owned by this segmenter. */
   private final WorkspacePool<Matches> own;
 
+  /** What the learner's alphabet policy did, or null (a model made from a token list, or an old file). */
+  private volatile AlphabetRecord alphabetRecord;
+
   // ------------------------------------------------------------------ life-cycle
 
   /** Validates and builds; {@code errors} turns (entry index, message) into the exception to throw. */
@@ -106,6 +119,11 @@ public final class WordPieceSegmenter implements Segmenter {
     }
     this.reservedCount = reservedCount;
     this.unknownId = reservedCount;
+    this.byteBase = settings.byteSpelling() ? reservedCount + 1 : -1;
+    if (byteBase >= 0 && n < byteBase + 256) {
+      throw errors.fail(-1, "vocabulary of " + n + " tokens is too small for the unknown token and 256 byte tokens"
+          + " after " + reservedCount + " reserved tokens (byte spelling is on)");
+    }
     String marker = settings.marker();
     spellings = new String[n];
     kinds = new byte[n];
@@ -140,6 +158,15 @@ public final class WordPieceSegmenter implements Segmenter {
         }
         kinds[i] = UNKNOWN;
         text = s;
+      } else if (byteBase >= 0 && i < byteBase + 256) {
+        String expected = WordPieceSettings.byteTokenText(i - byteBase);
+        if (!s.equals(expected)) {
+          throw errors.fail(i, "expected byte token " + (i - byteBase) + " '" + expected + "' but found '" + s + "'");
+        }
+        kinds[i] = BYTE;
+        bytes[i] = new byte[] {(byte) (i - byteBase)};
+        poolSize += 1;
+        continue;
       } else if (s.length() > marker.length() && s.startsWith(marker)) {
         kinds[i] = CONTINUATION;
         text = s.substring(marker.length());
@@ -267,18 +294,27 @@ public final class WordPieceSegmenter implements Segmenter {
   public static WordPieceSegmenter read(ModelSections sections, ModelLimits limits) {
     SectionReader st = sections.reader(SETTINGS_TAG);
     int version = st.getInt("format version");
-    if (version != FORMAT_VERSION) {
-      throw st.fail("format version " + version + " is not supported (expected " + FORMAT_VERSION + ")");
+    if (version != FORMAT_VERSION && version != FORMAT_VERSION_BYTES) {
+      throw st.fail("format version " + version + " is not supported (expected " + FORMAT_VERSION + " or "
+          + FORMAT_VERSION_BYTES + ")");
     }
     String marker = st.getString("marker");
     String unknown = st.getString("unknown token");
     int maxPieceLength = st.getInt("max piece length");
     int reservedCount = st.getInt("reserved count");
+    boolean byteSpelling = false;
+    if (version == FORMAT_VERSION_BYTES) {
+      int flag = st.getByte("byte spelling flag");
+      if (flag != 1) {
+        throw st.fail("byte spelling flag " + flag + " must be 1 in format version " + FORMAT_VERSION_BYTES);
+      }
+      byteSpelling = true;
+    }
     st.expectEnd();
     WordPieceSettings settings;
     try {
       settings = WordPieceSettings.defaults().withMarker(marker).withUnknownToken(unknown)
-          .withMaxPieceLength(maxPieceLength);
+          .withMaxPieceLength(maxPieceLength).withByteSpelling(byteSpelling);
     } catch (IllegalArgumentException e) {
       throw new ModelFormatException(SETTINGS_TAG, e.getMessage(), e);
     }
@@ -378,6 +414,10 @@ public final class WordPieceSegmenter implements Segmenter {
   @Override
   public void writeReview(ReviewWriter out) {
     WordPieceReview.write(out, settings, spellings, kinds);
+    AlphabetRecord r = alphabetRecord;
+    if (r != null) {
+      r.writeReview(out);
+    }
   }
 
   /**
@@ -391,6 +431,14 @@ public final class WordPieceSegmenter implements Segmenter {
     Objects.checkFromToIndex(start, end, text.length());
     String piece = text.subSequence(start, end).toString();
     java.util.ArrayList<String> out = new java.util.ArrayList<>();
+    if (byteBase >= 0 && (piece.length() > pieceLimit || trie.match(piece, 0, piece.length(), new int[piece.length()]) < 0)) {
+      out.add(piece.length() > pieceLimit ? "the piece has " + piece.length() + " chars, over the piece limit "
+          + pieceLimit + ": byte spelling" : "no greedy match covers the piece: byte spelling, runs of alphabet"
+          + " characters matched on their own, other characters as byte tokens");
+      segment(piece, 0, piece.length(), (id, s0, e0) -> out.add("  [" + s0 + ", " + e0 + ") '" + spellings[id] + "' ("
+          + id + ")"));
+      return out;
+    }
     if (piece.length() > pieceLimit) {
       out.add("the piece has " + piece.length() + " chars, over the piece limit " + pieceLimit
           + ": unknown token '" + settings.unknownToken() + "'");
@@ -457,6 +505,10 @@ public final class WordPieceSegmenter implements Segmenter {
       return;
     }
     if (len > pieceLimit) {
+      if (byteBase >= 0) {
+        spell(text, start, end, sink, ((Matches) workspace).ids);
+        return;
+      }
       sink.token(unknownId, start, end);
       return;
     }
@@ -468,6 +520,10 @@ public final class WordPieceSegmenter implements Segmenter {
     int[] buf = ((Matches) workspace).ids;
     int n = trie.match(text, start, end, buf);
     if (n < 0) {
+      if (byteBase >= 0) {
+        spell(text, start, end, sink, buf);
+        return;
+      }
       sink.token(unknownId, start, end);
       return;
     }
@@ -481,6 +537,102 @@ public final class WordPieceSegmenter implements Segmenter {
     }
   }
 
+  /**
+   * Byte spelling of a piece that greedy matching cannot cover: each maximal run of characters that
+   * have a word-initial token is matched on its own (in chunks of at most the piece limit; a chunk
+   * that greedy matching cannot cover is spelled with bytes), and every other character is spelled
+   * with byte tokens spanning the whole character. Linear in
+   * the piece length, no allocation.
+   */
+  private void spell(CharSequence text, int start, int end, TokenSink sink, int[] buf) {
+    int k = start;
+    while (k < end) {
+      int run = k;
+      while (run < end) {
+        int cc = charCountAt(text, run, end);
+        if (whole.find(text, run, run + cc) < 0) {
+          break;
+        }
+        run += cc;
+      }
+      if (run > k) {
+        // a run over the piece limit is matched in chunks of at most the limit, never inside a pair
+        for (int a = k; a < run; ) {
+          int b = Math.min(run, a + pieceLimit);
+          if (b < run && Character.isLowSurrogate(text.charAt(b)) && Character.isHighSurrogate(text.charAt(b - 1))) {
+            b--;
+          }
+          if (b == a) { // a limit of one unit and a surrogate pair: the pair is spelled with bytes
+            spellBytes(text, a, a + 2, sink);
+            a += 2;
+            continue;
+          }
+          matchOrSpell(text, a, b, sink, buf);
+          a = b;
+        }
+        k = run;
+      } else {
+        int cc = charCountAt(text, k, end);
+        spellBytes(text, k, k + cc, sink);
+        k += cc;
+      }
+    }
+  }
+
+  /** Greedy match of text[a, b) (at most the piece limit) as a piece of its own, or its bytes if it has none. */
+  private void matchOrSpell(CharSequence text, int a, int b, TokenSink sink, int[] buf) {
+    int n = trie.match(text, a, b, buf);
+    if (n >= 0) {
+      int pos = a;
+      for (int i = 0; i < n; i++) {
+        int e = pos + bodyLength[buf[i]];
+        sink.token(buf[i], pos, e);
+        pos = e;
+      }
+      return;
+    }
+    for (int c = a; c < b; ) {
+      int cc = charCountAt(text, c, b);
+      spellBytes(text, c, c + cc, sink);
+      c += cc;
+    }
+  }
+
+  /** 2 for a surrogate pair starting at {@code i} before {@code end}, else 1. */
+  private static int charCountAt(CharSequence text, int i, int end) {
+    return Character.isHighSurrogate(text.charAt(i)) && i + 1 < end && Character.isLowSurrogate(text.charAt(i + 1))
+        ? 2 : 1;
+  }
+
+  /** The UTF-8 bytes of the character text[s, e) as byte tokens, each spanning it (a lone surrogate: U+FFFD). */
+  private void spellBytes(CharSequence text, int s, int e, TokenSink sink) {
+    int cp = e - s == 2 ? Character.toCodePoint(text.charAt(s), text.charAt(s + 1)) : text.charAt(s);
+    if (Character.isSurrogate((char) cp) && e - s == 1) {
+      cp = 0xFFFD;
+    }
+    int b = byteBase;
+    if (cp < 0x80) {
+      sink.token(b + cp, s, e);
+    } else if (cp < 0x800) {
+      sink.token(b + (0xC0 | (cp >>> 6)), s, e);
+      sink.token(b + (0x80 | (cp & 0x3F)), s, e);
+    } else if (cp < 0x10000) {
+      sink.token(b + (0xE0 | (cp >>> 12)), s, e);
+      sink.token(b + (0x80 | ((cp >>> 6) & 0x3F)), s, e);
+      sink.token(b + (0x80 | (cp & 0x3F)), s, e);
+    } else {
+      sink.token(b + (0xF0 | (cp >>> 18)), s, e);
+      sink.token(b + (0x80 | ((cp >>> 12) & 0x3F)), s, e);
+      sink.token(b + (0x80 | ((cp >>> 6) & 0x3F)), s, e);
+      sink.token(b + (0x80 | (cp & 0x3F)), s, e);
+    }
+  }
+
+  /** Whether the vocabulary has byte tokens (ids {@code reservedCount+1..reservedCount+256}). */
+  public boolean byteSpelling() {
+    return byteBase >= 0;
+  }
+
   @Override
   public void decodeToken(int id, ByteSink out) {
     Objects.checkIndex(id, spellings.length);
@@ -488,14 +640,44 @@ public final class WordPieceSegmenter implements Segmenter {
     out.write(decodePool, s, decodeStart[id + 1] - s);
   }
 
+
+  /**
+   * Records what the alphabet policy did, once, before the segmenter is shared: the model file and
+   * the review text then carry it (section {@code ALPH}, outside the fingerprint). A null record is
+   * ignored.
+   *
+   * @throws IllegalStateException if a record was set already
+   */
+  public void recordAlphabet(AlphabetRecord record) {
+    if (record == null) {
+      return;
+    }
+    if (alphabetRecord != null) {
+      throw new IllegalStateException("the alphabet record is set once");
+    }
+    alphabetRecord = record;
+  }
+
+  /** What the learner's alphabet policy did, or null when the model does not say. */
+  public AlphabetRecord alphabetRecord() {
+    return alphabetRecord;
+  }
+
   @Override
   public void write(ModelWriter out) {
+    AlphabetRecord r = alphabetRecord;
+    if (r != null) {
+      r.write(out);
+    }
     SectionWriter st = out.section(SETTINGS_TAG);
-    st.putInt(FORMAT_VERSION);
+    st.putInt(byteBase >= 0 ? FORMAT_VERSION_BYTES : FORMAT_VERSION); // version 1 bytes stay as they were
     st.putString(settings.marker());
     st.putString(settings.unknownToken());
     st.putInt(settings.maxPieceLength());
     st.putInt(reservedCount);
+    if (byteBase >= 0) {
+      st.putByte(1);
+    }
     SectionWriter vo = out.section(VOCABULARY_TAG);
     vo.putInt(spellings.length);
     for (String s : spellings) {

@@ -40,16 +40,18 @@ public final class WordPieceSettings {
   public static final int MAX_MAX_PIECE_LENGTH = 1 << 20;
 
   private static final WordPieceSettings DEFAULTS =
-      new WordPieceSettings(DEFAULT_MARKER, DEFAULT_UNKNOWN, DERIVED_PIECE_LENGTH);
+      new WordPieceSettings(DEFAULT_MARKER, DEFAULT_UNKNOWN, DERIVED_PIECE_LENGTH, false);
 
   private final String marker;
   private final String unknownToken;
   private final int maxPieceLength;
+  private final boolean byteSpelling;
 
-  private WordPieceSettings(String marker, String unknownToken, int maxPieceLength) {
+  private WordPieceSettings(String marker, String unknownToken, int maxPieceLength, boolean byteSpelling) {
     this.marker = marker;
     this.unknownToken = unknownToken;
     this.maxPieceLength = maxPieceLength;
+    this.byteSpelling = byteSpelling;
   }
 
   /** The defaults. */
@@ -76,12 +78,32 @@ public final class WordPieceSettings {
   }
 
   /**
+   * Byte spelling: whether the vocabulary holds 256 byte tokens right after the unknown token, so that
+   * a character outside the alphabet is spelled with its UTF-8 bytes instead of turning its piece
+   * into the unknown token (off in these defaults, which read models written before the option).
+   */
+  public boolean byteSpelling() {
+    return byteSpelling;
+  }
+
+  /** These settings with byte spelling on or off. */
+  public WordPieceSettings withByteSpelling(boolean on) {
+    return new WordPieceSettings(marker, unknownToken, maxPieceLength, on);
+  }
+
+  /** The spelling of byte token {@code b}: its two hex digits between U+2983 and U+2984 (white curly brackets). */
+  public static String byteTokenText(int b) {
+    return "\u2983" + Character.toUpperCase(Character.forDigit((b >>> 4) & 15, 16))
+        + Character.toUpperCase(Character.forDigit(b & 15, 16)) + "\u2984";
+  }
+
+  /**
    * These settings with another marker.
    *
    * @throws IllegalArgumentException if {@code marker} is empty, holds whitespace or a lone surrogate
    */
   public WordPieceSettings withMarker(String marker) {
-    return new WordPieceSettings(checkMarker(marker), unknownToken, maxPieceLength);
+    return new WordPieceSettings(checkMarker(marker), unknownToken, maxPieceLength, byteSpelling);
   }
 
   /**
@@ -90,7 +112,7 @@ public final class WordPieceSettings {
    * @throws IllegalArgumentException if {@code unknownToken} is empty or holds a lone surrogate
    */
   public WordPieceSettings withUnknownToken(String unknownToken) {
-    return new WordPieceSettings(marker, checkUnknown(unknownToken), maxPieceLength);
+    return new WordPieceSettings(marker, checkUnknown(unknownToken), maxPieceLength, byteSpelling);
   }
 
   /**
@@ -100,7 +122,7 @@ public final class WordPieceSettings {
    * @throws IllegalArgumentException if {@code maxPieceLength} is outside {@code [0, }{@value #MAX_MAX_PIECE_LENGTH}{@code ]}
    */
   public WordPieceSettings withMaxPieceLength(int maxPieceLength) {
-    return new WordPieceSettings(marker, unknownToken, checkMaxPieceLength(maxPieceLength));
+    return new WordPieceSettings(marker, unknownToken, checkMaxPieceLength(maxPieceLength), byteSpelling);
   }
 
   static String checkMarker(String marker) {
@@ -159,17 +181,18 @@ public final class WordPieceSettings {
   public boolean equals(Object o) {
     return o instanceof WordPieceSettings && ((WordPieceSettings) o).marker.equals(marker)
         && ((WordPieceSettings) o).unknownToken.equals(unknownToken)
-        && ((WordPieceSettings) o).maxPieceLength == maxPieceLength;
+        && ((WordPieceSettings) o).maxPieceLength == maxPieceLength && ((WordPieceSettings) o).byteSpelling == byteSpelling;
   }
 
   @Override
   public int hashCode() {
-    return Objects.hash(marker, unknownToken, maxPieceLength);
+    return Objects.hash(marker, unknownToken, maxPieceLength, byteSpelling);
   }
 
   @Override
   public String toString() {
     return "WordPieceSettings[marker=" + marker + ", unknownToken=" + unknownToken + ", maxPieceLength="
-        + (maxPieceLength == DERIVED_PIECE_LENGTH ? "derived" : Integer.toString(maxPieceLength)) + "]";
+        + (maxPieceLength == DERIVED_PIECE_LENGTH ? "derived" : Integer.toString(maxPieceLength))
+        + (byteSpelling ? ", byteSpelling" : "") + "]";
   }
 }

@@ -2,6 +2,8 @@ package dev.morsel.tokenize.wordpiece.internal;
 
 import dev.morsel.tokenize.Tokenizer;
 import dev.morsel.tokenize.Tokenizers;
+import dev.morsel.tokenize.train.Alphabet;
+import dev.morsel.tokenize.train.AlphabetPolicy;
 import dev.morsel.tokenize.train.Learner;
 import dev.morsel.tokenize.train.LearnerSettings;
 import dev.morsel.tokenize.train.PieceCounts;
@@ -36,7 +38,10 @@ import java.util.Set;
  *   <li>The count-weighted number of UTF-16 units of the kept pieces must fit a long (unit and pair
  *       counts never exceed it); otherwise {@link #train} fails rather than let a count wrap around.
  *   <li>Alphabet: the code points of the pieces, ranked by total occurrences (count-weighted), ties
- *       by smaller code point; the first {@code maxAlphabet} are kept. Pieces holding any other code
+ *       by smaller code point; the {@link AlphabetPolicy} keeps the first ones until they cover its
+ *       share of the occurrences, at most its cap (derived: a quarter of the ids left after the
+ *       reserved and unknown tokens, since every character takes two ids). The choice goes to
+ *       {@link TrainingListener#alphabet}. Pieces holding any other code
  *       point are left out of training (the encoder maps such pieces to the unknown token anyway).
  *       The initial units are both forms (word-initial and continuation) of every code point that
  *       occurs in a piece lying wholly inside the alphabet, so every such piece stays encodable
@@ -97,8 +102,18 @@ import java.util.Set;
 public final class WordPieceTraining implements Learner {
   /** Default {@code vocabularySize}, in tokens, the same for every scheme. */
   public static final int DEFAULT_VOCABULARY_SIZE = LearnerSettings.DEFAULT_VOCABULARY_SIZE;
-  /** Default {@code maxAlphabet}, in code points (covers the scripts of a typical European corpus). */
-  public static final int DEFAULT_MAX_ALPHABET = 1000;
+  /**
+   * Byte spelling is on by default from this vocabulary size up, in ids: there the 256 byte tokens
+   * take at most an eighth of the vocabulary (reason: at 8,000 ids byte spelling removed every
+   * unknown character for under 1 % more tokens, docs/guide.md "Large alphabets"; at the few hundred
+   * ids of small models they would take most of it).
+   */
+  public static final int BYTE_SPELLING_FROM = 2048;
+
+  /** The default byte spelling at {@code vocabularySize}: on from {@link #BYTE_SPELLING_FROM} ids. */
+  public static boolean defaultByteSpelling(int vocabularySize) {
+    return vocabularySize >= BYTE_SPELLING_FROM;
+  }
   /** Default {@code minCount}: every piece is used. */
   public static final long DEFAULT_MIN_COUNT = 1;
 
@@ -130,7 +145,7 @@ public final class WordPieceTraining implements Learner {
 
   private final int vocabularySize;
   private final long minCount;
-  private final int maxAlphabet;
+  private final AlphabetPolicy alphabet;
   private final List<String> reservedTokens;
   private final WordPieceSettings settings;
   private final TrainingListener listener;
@@ -140,7 +155,7 @@ public final class WordPieceTraining implements Learner {
   private WordPieceTraining(Builder b) {
     this.vocabularySize = b.vocabularySize;
     this.minCount = b.minCount;
-    this.maxAlphabet = b.maxAlphabet;
+    this.alphabet = b.alphabet;
     this.reservedTokens = List.copyOf(b.reservedTokens);
     this.settings = b.settings;
     this.listener = b.listener;
@@ -161,7 +176,7 @@ public final class WordPieceTraining implements Learner {
   public static final class Builder {
     private int vocabularySize = DEFAULT_VOCABULARY_SIZE;
     private long minCount = DEFAULT_MIN_COUNT;
-    private int maxAlphabet = DEFAULT_MAX_ALPHABET;
+    private AlphabetPolicy alphabet = AlphabetPolicy.defaults();
     private List<String> reservedTokens = List.of();
     private WordPieceSettings settings = WordPieceSettings.defaults();
     private TrainingListener listener = TrainingListener.NONE;
@@ -198,16 +213,9 @@ public final class WordPieceTraining implements Learner {
       return this;
     }
 
-    /**
-     * Most distinct code points kept in the alphabet (default {@value WordPieceTraining#DEFAULT_MAX_ALPHABET}).
-     *
-     * @throws IllegalArgumentException if below 1
-     */
-    public Builder maxAlphabet(int maxAlphabet) {
-      if (maxAlphabet < 1) {
-        throw new IllegalArgumentException("maxAlphabet=" + maxAlphabet + " must be at least 1");
-      }
-      this.maxAlphabet = maxAlphabet;
+    /** How the alphabet is chosen (default {@link AlphabetPolicy#defaults()}). */
+    public Builder alphabet(AlphabetPolicy alphabet) {
+      this.alphabet = Objects.requireNonNull(alphabet, "alphabet");
       return this;
     }
 
@@ -267,6 +275,12 @@ public final class WordPieceTraining implements Learner {
      * @throws IllegalArgumentException if a reserved token equals the unknown spelling
      */
     public WordPieceTraining build() {
+      long floor = (long) reservedTokens.size() + 1 + 256 + 1;
+      if (settings.byteSpelling() && vocabularySize < floor) {
+        throw new IllegalArgumentException("vocabularySize=" + vocabularySize + " is below " + floor + " ("
+            + reservedTokens.size() + " reserved tokens, the unknown token, 256 byte tokens and one more): too small"
+            + " for byte spelling, turn it off (byteSpelling(false), option byte-spelling=false)");
+      }
       int clash = reservedTokens.indexOf(settings.unknownToken());
       if (clash >= 0) {
         throw new IllegalArgumentException("reservedTokens[" + clash + "] '" + settings.unknownToken()
@@ -317,7 +331,7 @@ public final class WordPieceTraining implements Learner {
    * Extends {@code base} with the units this learner's criterion picks on {@code counts}: the base's
    * units are the starting units (ids unchanged), each new piece is written in them by greedy
    * longest match (as encoding writes it), code points the base lacks are added in both forms (most
-   * frequent first, at most {@code maxAlphabet}), then pairs are merged exactly as in {@link #train}
+   * frequent first, at most the policy's {@code maxSize}), then pairs are merged exactly as in {@link #train}
    * until the vocabulary reaches {@code vocabularySize}; a merge that makes a unit the base already
    * has costs no id. The result has the base's tokens first, then the new ones in the order made.
    *
@@ -328,6 +342,15 @@ public final class WordPieceTraining implements Learner {
     Objects.requireNonNull(base, "base");
     Objects.requireNonNull(counts, "counts");
     return new Run(counts, base, alsoReserved).run();
+  }
+
+  /**
+   * The alphabet cap a derived {@link AlphabetPolicy#maxSize()} stands for ({@code reservedCount}
+   * counting the byte tokens too): a quarter of the ids left after the reserved and unknown tokens (each character takes two ids, so the alphabet fills at
+   * most half of the vocabulary), at least 1.
+   */
+  public static int derivedAlphabetCap(int vocabularySize, int reservedCount) {
+    return Math.max(1, (vocabularySize - reservedCount - 1) / 4);
   }
 
   // ------------------------------------------------------------------ internals
@@ -393,8 +416,15 @@ public final class WordPieceTraining implements Learner {
       reserved.addAll(reservedTokens);
       reserved.addAll(alsoReserved);
       reserved.add(settings.unknownToken());
+      if (settings.byteSpelling()) {
+        for (int b = 0; b < 256; b++) {
+          reserved.add(WordPieceSettings.byteTokenText(b)); // a merge never makes a byte token's spelling
+        }
+      }
       unitBySpelling.defaultReturnValue(-1);
     }
+
+    private Alphabet chosenAlphabet;
 
     WordPieceSegmenter run() {
       PieceCounts kept = counts.withMinCount(minCount);
@@ -408,11 +438,13 @@ public final class WordPieceTraining implements Learner {
       } else {
         extendAlphabetAndWords(kept);
       }
-      int reservedCount = reservedTokens.size() + 1;
+      int reservedCount = reservedTokens.size() + 1 + (settings.byteSpelling() ? 256 : 0);
       int initial = reservedCount + spelling.size();
       if (vocabularySize < initial) {
         throw new IllegalArgumentException("vocabularySize=" + vocabularySize + " is smaller than the alphabet ("
-            + spelling.size() + " units) plus the reserved tokens (" + reservedCount + "); raise vocabularySize or lower maxAlphabet");
+            + spelling.size() + " units) plus the reserved, unknown and byte tokens (" + reservedCount + "); raise"
+            + " vocabularySize or lower"
+            + " the alphabet's maxSize or coverage");
       }
       for (int u = 0; u < spelling.size(); u++) {
         totalUnits += unitCount[u];
@@ -421,8 +453,17 @@ public final class WordPieceTraining implements Learner {
       merge(initial);
       List<String> vocab = new ArrayList<>(reservedTokens);
       vocab.add(settings.unknownToken());
+      if (settings.byteSpelling()) {
+        for (int b = 0; b < 256; b++) {
+          vocab.add(WordPieceSettings.byteTokenText(b));
+        }
+      }
       vocab.addAll(spelling);
-      return WordPieceSegmenter.of(vocab, reservedTokens.size(), settings);
+      WordPieceSegmenter made = WordPieceSegmenter.of(vocab, reservedTokens.size(), settings);
+      if (chosenAlphabet != null) { // an extension chooses no alphabet of its own: it keeps the base's units
+        made.recordAlphabet(chosenAlphabet.record());
+      }
+      return made;
     }
 
     /**
@@ -469,19 +510,17 @@ public final class WordPieceTraining implements Learner {
     }
 
     private void buildAlphabetAndWords(PieceCounts kept) {
-      Int2LongOpenHashMap freq = new Int2LongOpenHashMap();
-      for (int i = 0; i < kept.size(); i++) {
-        String p = kept.piece(i);
-        long w = kept.count(i);
-        for (int k = 0; k < p.length(); ) {
-          int cp = p.codePointAt(k);
-          freq.addTo(cp, w);
-          k += Character.charCount(cp);
-        }
+      Alphabet chosen = alphabet.select(kept, derivedAlphabetCap(vocabularySize,
+          reservedTokens.size() + (settings.byteSpelling() ? 256 : 0)), settings.byteSpelling());
+      chosenAlphabet = chosen;
+      listener.alphabet(WordPieceSegmenter.SCHEME, chosen);
+      int keep = chosen.size();
+      int[] cps = new int[keep];
+      int[] order = new int[keep];
+      for (int r = 0; r < keep; r++) {
+        cps[r] = chosen.codePoint(r);
+        order[r] = r;
       }
-      int[] cps = freq.keySet().toIntArray();
-      Integer[] order = byFrequency(cps, freq);
-      int keep = Math.min(maxAlphabet, cps.length);
       Int2LongOpenHashMap rank = new Int2LongOpenHashMap();
       rank.defaultReturnValue(-1);
       for (int r = 0; r < keep; r++) {
@@ -520,8 +559,7 @@ public final class WordPieceTraining implements Learner {
         }
       }
       if (usable.isEmpty()) {
-        throw new IllegalArgumentException("no piece lies inside the alphabet of maxAlphabet=" + maxAlphabet
-            + " code points");
+        throw new IllegalArgumentException("no piece lies inside the alphabet (" + chosen.summary() + ")");
       }
       // Both forms of every code point that occurs in a usable piece: a code point seen only after
       // '-' or '/' in training (the second half of "по-широко") still starts a piece at encode time
@@ -560,7 +598,7 @@ public final class WordPieceTraining implements Learner {
      * every piece written in these units by greedy longest match, leftmost first, as encoding writes it.
      */
     private void extendAlphabetAndWords(PieceCounts kept) {
-      int first = base.reservedCount() + 1;
+      int first = base.reservedCount() + 1 + (settings.byteSpelling() ? 256 : 0); // the base's units start after its byte tokens
       int maxUnitChars = 1;
       for (int id = first; id < base.vocabularySize(); id++) {
         String sp = base.token(id);
@@ -584,7 +622,7 @@ public final class WordPieceTraining implements Learner {
       int[] cps = freq.keySet().toIntArray();
       Integer[] order = byFrequency(cps, freq);
       int room = vocabularySize - first - spelling.size();
-      for (int r = 0; r < Math.min(maxAlphabet, cps.length); r++) {
+      for (int r = 0; r < Math.min(addedAlphabetCap(), cps.length); r++) {
         String c = new String(Character.toChars(cps[order[r]]));
         if (reserved.contains(c) || reserved.contains(marker + c)) {
           continue; // its spelling is taken by a reserved token: stays outside the alphabet
@@ -637,13 +675,19 @@ public final class WordPieceTraining implements Learner {
       }
       if (ws.isEmpty()) {
         throw new IllegalArgumentException("no new piece can be written in the base's units and the code points"
-            + " added (maxAlphabet=" + maxAlphabet + ")");
+            + " added (at most " + addedAlphabetCap() + ")");
       }
       words = ws.toArray(new int[0][]);
       weights = new long[words.length];
       for (int j = 0; j < words.length; j++) {
         weights[j] = kept.count(wt.getInt(j));
       }
+    }
+
+    /** Code points an extension may add: the policy's cap, or the learner's derived cap. */
+    private int addedAlphabetCap() {
+      return alphabet.maxSize() > 0 ? alphabet.maxSize()
+          : derivedAlphabetCap(vocabularySize, reservedTokens.size() + (settings.byteSpelling() ? 256 : 0));
     }
 
     /** Indices into {@code cps} by total occurrences, most first, ties by smaller code point: the alphabet rank. */
