@@ -1,5 +1,6 @@
 package dev.morsel.tokenize.bench;
 
+import dev.morsel.tokenize.hardening.kit.HostileInputs;
 import java.io.BufferedReader;
 import java.io.IOException;
 import java.io.InputStream;
@@ -119,7 +120,7 @@ public final class Corpus {
   }
 
   /** The kinds of {@link #adversarial(String, int, long)}. */
-  public static final String[] ADVERSARIAL_KINDS = {"marks", "emoji", "mixed"};
+  public static final String[] ADVERSARIAL_KINDS = HostileInputs.SCRIPT_KINDS.toArray(new String[0]);
 
   /**
    * Adversarial text of {@code bytes} UTF-8 bytes (at least; cut at a code point), seeded, with no
@@ -135,48 +136,16 @@ public final class Corpus {
    * </ul>
    */
   public static String adversarial(String kind, int bytes, long seed) {
+    if (!HostileInputs.SCRIPT_KINDS.contains(kind)) {
+      throw new IllegalArgumentException("adversarial kind '" + kind + "' is not one of "
+          + java.util.Arrays.toString(ADVERSARIAL_KINDS));
+    }
     java.util.SplittableRandom r = new java.util.SplittableRandom(seed);
     StringBuilder sb = new StringBuilder(bytes);
     long n = 0;
     while (n < bytes) {
       int from = sb.length();
-      switch (kind) {
-        case "marks":
-          String bases = "aeoiuαεοиеж";
-          sb.append(bases.charAt(r.nextInt(bases.length())));
-          for (int k = 1 + r.nextInt(200); k > 0; k--) {
-            sb.append(r.nextInt(8) == 0 ? (char) r.nextInt(0x483, 0x488) : (char) r.nextInt(0x300, 0x370));
-          }
-          break;
-        case "emoji":
-          int what = r.nextInt(3);
-          if (what == 0) {
-            for (int k = 2 + r.nextInt(3); k > 0; k--) {
-              sb.appendCodePoint(r.nextInt(0x1F466, 0x1F46A));
-              if (r.nextInt(3) == 0) {
-                sb.appendCodePoint(r.nextInt(0x1F3FB, 0x1F400));
-              }
-              if (k > 1) {
-                sb.append('\u200D');
-              }
-            }
-          } else if (what == 1) {
-            sb.appendCodePoint(r.nextInt(0x1F1E6, 0x1F200)).appendCodePoint(r.nextInt(0x1F1E6, 0x1F200));
-          } else {
-            sb.append('\u2764').append('\uFE0F');
-          }
-          break;
-        case "mixed":
-          int script = r.nextInt(4);
-          for (int k = 1 + r.nextInt(8); k > 0; k--) {
-            sb.append(script == 0 ? (char) r.nextInt('a', 'z' + 1) : script == 1 ? (char) r.nextInt(0x4E00, 0xA000)
-                : script == 2 ? (char) r.nextInt(0x430, 0x450) : (char) r.nextInt('0', '9' + 1));
-          }
-          break;
-        default:
-          throw new IllegalArgumentException("adversarial kind '" + kind + "' is not one of "
-              + java.util.Arrays.toString(ADVERSARIAL_KINDS));
-      }
+      HostileInputs.appendUnit(kind, r, sb);
       n += utf8Length(sb.subSequence(from, sb.length()).toString());
     }
     return sb.toString();

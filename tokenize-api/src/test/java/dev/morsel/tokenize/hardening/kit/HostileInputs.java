@@ -123,49 +123,61 @@ public final class HostileInputs {
   public static String withoutSpaces(String kind, long seed, int n) {
     SplittableRandom r = new SplittableRandom(seed);
     StringBuilder sb = new StringBuilder(n + 256);
+    if (!SCRIPT_KINDS.contains(kind)) {
+      throw new IllegalArgumentException("kind '" + kind + "' is not one of " + SCRIPT_KINDS);
+    }
     while (sb.length() < n) {
-      switch (kind) {
-        case "marks":
-          String bases = "aeoiu\u03B1\u03B5\u03BF\u0438\u0435\u0436";
-          sb.append(bases.charAt(r.nextInt(bases.length())));
-          for (int k = 1 + r.nextInt(200); k > 0; k--) {
-            sb.append(r.nextInt(8) == 0 ? (char) r.nextInt(0x483, 0x488) : (char) r.nextInt(0x300, 0x370));
-          }
-          break;
-        case "emoji":
-          int what = r.nextInt(3);
-          if (what == 0) {
-            for (int k = 2 + r.nextInt(3); k > 0; k--) {
-              sb.appendCodePoint(r.nextInt(0x1F466, 0x1F46A));
-              if (r.nextInt(3) == 0) {
-                sb.appendCodePoint(r.nextInt(0x1F3FB, 0x1F400));
-              }
-              if (k > 1) {
-                sb.append('\u200D');
-              }
-            }
-          } else if (what == 1) {
-            sb.appendCodePoint(r.nextInt(0x1F1E6, 0x1F200)).appendCodePoint(r.nextInt(0x1F1E6, 0x1F200));
-          } else {
-            sb.append('\u2764').append('\uFE0F');
-          }
-          break;
-        case "mixed":
-          int script = r.nextInt(4);
-          for (int k = 1 + r.nextInt(8); k > 0; k--) {
-            sb.append(script == 0 ? (char) r.nextInt('a', 'z' + 1) : script == 1 ? (char) r.nextInt(0x4E00, 0xA000)
-                : script == 2 ? (char) r.nextInt(0x430, 0x450) : (char) r.nextInt('0', '9' + 1));
-          }
-          break;
-        default:
-          throw new IllegalArgumentException("kind '" + kind + "' is not one of " + SCRIPT_KINDS);
-      }
+      appendUnit(kind, r, sb);
     }
     int cut = n;
     if (Character.isLowSurrogate(sb.charAt(cut)) && Character.isHighSurrogate(sb.charAt(cut - 1))) {
       cut--;
     }
     return sb.substring(0, cut);
+  }
+
+  /**
+   * Appends one unit of the kind to {@code sb}, drawn from {@code r}: a letter with its marks, one
+   * emoji sequence, or one run of a script (see {@link #withoutSpaces}); the benchmarks build their
+   * adversarial texts from the same units.
+   */
+  public static void appendUnit(String kind, SplittableRandom r, StringBuilder sb) {
+    switch (kind) {
+      case "marks":
+        String bases = "aeoiu\u03B1\u03B5\u03BF\u0438\u0435\u0436";
+        sb.append(bases.charAt(r.nextInt(bases.length())));
+        for (int k = 1 + r.nextInt(200); k > 0; k--) {
+          sb.append(r.nextInt(8) == 0 ? (char) r.nextInt(0x483, 0x488) : (char) r.nextInt(0x300, 0x370));
+        }
+        break;
+      case "emoji":
+        int what = r.nextInt(3);
+        if (what == 0) {
+          for (int k = 2 + r.nextInt(3); k > 0; k--) {
+            sb.appendCodePoint(r.nextInt(0x1F466, 0x1F46A));
+            if (r.nextInt(3) == 0) {
+              sb.appendCodePoint(r.nextInt(0x1F3FB, 0x1F400));
+            }
+            if (k > 1) {
+              sb.append('\u200D');
+            }
+          }
+        } else if (what == 1) {
+          sb.appendCodePoint(r.nextInt(0x1F1E6, 0x1F200)).appendCodePoint(r.nextInt(0x1F1E6, 0x1F200));
+        } else {
+          sb.append('\u2764').append('\uFE0F');
+        }
+        break;
+      case "mixed":
+        int script = r.nextInt(4);
+        for (int k = 1 + r.nextInt(8); k > 0; k--) {
+          sb.append(script == 0 ? (char) r.nextInt('a', 'z' + 1) : script == 1 ? (char) r.nextInt(0x4E00, 0xA000)
+              : script == 2 ? (char) r.nextInt(0x430, 0x450) : (char) r.nextInt('0', '9' + 1));
+        }
+        break;
+      default:
+        throw new IllegalArgumentException("kind '" + kind + "' is not one of " + SCRIPT_KINDS);
+    }
   }
 
   /** {@code n} seeded letters a-z. */
