@@ -4,6 +4,7 @@ import static org.junit.jupiter.api.Assertions.assertEquals;
 import static org.junit.jupiter.api.Assertions.assertFalse;
 import static org.junit.jupiter.api.Assertions.assertTrue;
 
+import dev.morsel.tokenize.internal.DoubleArray;
 import java.util.HashMap;
 import java.util.LinkedHashSet;
 import java.util.Map;
@@ -67,7 +68,7 @@ class PieceTrieTest {
     assertTrue(hashed.hashed());
     assertEquals(prefixes.size() + 1, packed.nodes(), "one node per distinct prefix and the root");
     assertEquals(packed.nodes(), hashed.nodes());
-    assertTrue(packed.slots() <= PieceTrie.SPARSE_LIMIT * packed.nodes() + letters.length() + 64 + letters.length() + 1,
+    assertTrue(packed.slots() <= DoubleArray.SPARSE_LIMIT * packed.nodes() + letters.length() + 64 + letters.length() + 1,
         "slots " + packed.slots() + " for " + packed.nodes() + " nodes");
     for (int probe = 0; probe < 2_000; probe++) {
       String s = probe < keys.length ? keys[probe] + word(random, letters, random.nextInt(3))
@@ -111,7 +112,7 @@ class PieceTrieTest {
     }
     PieceTrie trie = new PieceTrie(keys, values);
     if (!trie.hashed()) {
-      assertTrue(trie.slots() <= (long) PieceTrie.SPARSE_LIMIT * trie.nodes() + 2 * 11_100 + 65,
+      assertTrue(trie.slots() <= (long) DoubleArray.SPARSE_LIMIT * trie.nodes() + 2 * 11_100 + 65,
           "slots " + trie.slots() + " for " + trie.nodes() + " nodes");
     }
     for (int i = 0; i < keys.length; i++) {

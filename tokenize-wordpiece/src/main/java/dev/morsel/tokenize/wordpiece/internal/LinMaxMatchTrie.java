@@ -1,5 +1,6 @@
 package dev.morsel.tokenize.wordpiece.internal;
 
+import dev.morsel.tokenize.internal.DoubleArray;
 import it.unimi.dsi.fastutil.ints.IntArrayList;
 import java.util.Arrays;
 
@@ -32,10 +33,12 @@ import java.util.Arrays;
  * token never begins or ends inside a surrogate pair of the text, and a lone surrogate in the text
  * matches nothing.
  *
- * <p>Transitions live in one open-addressing table keyed by {@code node << 16 | char} (load at most
- * 1/2, linear probing); the ASCII children of both roots also sit in dense 128-entry tables. F(v) is
- * stored as a run {@code [popStart[v], popStart[v] + popLength[v])} of one shared {@code int[]}; the
- * runs total at most the sum of node depths.
+ * <p>Transitions live in a double array ({@link DoubleArray}: check and base of a node side by side,
+ * one array read a step), node ids being slots; the ASCII children of both roots also sit in dense
+ * 128-entry tables. A vocabulary that would make the double array too sparse keeps an
+ * open-addressing table keyed by {@code node << 16 | char} (load at most 1/2, linear probing), which is
+ * also what the automaton is built with. F(v) is stored as a run {@code [popStart[v], popStart[v] +
+ * popLength[v])} of one shared {@code int[]}; the runs total at most the sum of node depths.
  *
  * <p>References: [2] Wu et al. (2016), "Google's Neural Machine Translation System", §4.1 (greedy
  * longest-match-first); [3] Song, Salcianu, Song, Dopson, Zhou (2021), "Fast WordPiece
@@ -65,9 +68,14 @@ final class LinMaxMatchTrie {
   private int mask;
   private final int[] rootAscii;
   private final int[] contAscii;
-  private final int[] fail;
-  private final int[] popStart;
-  private final int[] popLength;
+  // written while building (renumbered to slots at the end), never after the constructor
+  private int[] fail;
+  private int[] popStart;
+  private int[] popLength;
+  // the double array (check, base per slot, side by side), or null for the hashed layout; node ids are
+  // then slots
+  private final int[] da;
+  private final char[] code;
   private final int[] pops;
   private final int nodeCount;
 
@@ -84,6 +92,11 @@ final class LinMaxMatchTrie {
    * @throws IllegalArgumentException if the vocabulary is too large for the automaton's limits
    */
   LinMaxMatchTrie(String[] bodies, boolean[] continuation, int maxLength) {
+    this(bodies, continuation, maxLength, false);
+  }
+
+  /** As {@link #LinMaxMatchTrie(String[], boolean[], int)}; {@code hashed} keeps the hashed layout (tests). */
+  LinMaxMatchTrie(String[] bodies, boolean[] continuation, int maxLength, boolean hashed) {
     long totalChars = 0;
     for (String b : bodies) {
       if (b != null && b.length() <= maxLength) {
@@ -141,9 +154,12 @@ final class LinMaxMatchTrie {
       order[byDepthStart[depth[v]]++] = v;
     }
 
-    fail = new int[n];
-    popStart = new int[n];
-    popLength = new int[n];
+    int[] fail = new int[n];
+    int[] popStart = new int[n];
+    int[] popLength = new int[n];
+    this.fail = fail;
+    this.popStart = popStart;
+    this.popLength = popLength;
     fail[ROOT] = -1;
     fail[CONT_ROOT] = -1;
     IntArrayList pool = new IntArrayList();
@@ -177,12 +193,49 @@ final class LinMaxMatchTrie {
     }
     pops = pool.toIntArray();
 
+    parent[ROOT] = -1;
+    parent[CONT_ROOT] = -1;
+    DoubleArray placed = hashed ? null : DoubleArray.place(n, parent, edge);
     rootAscii = new int[DENSE];
     contAscii = new int[DENSE];
-    for (char c = 0; c < DENSE; c++) {
-      rootAscii[c] = lookup(ROOT, c);
-      contAscii[c] = lookup(CONT_ROOT, c);
+    if (placed == null) {
+      da = null;
+      code = null;
+      for (char c = 0; c < DENSE; c++) {
+        rootAscii[c] = lookup(ROOT, c);
+        contAscii[c] = lookup(CONT_ROOT, c);
+      }
+      return;
     }
+    // node ids become slots; the roots keep 0 and 1 (placed first, in node order)
+    int slots = placed.slots();
+    int[] d = new int[2 * slots];
+    for (int s = 0; s < slots; s++) {
+      d[2 * s] = placed.check(s);
+      d[2 * s + 1] = placed.base(s);
+    }
+    int[] f = new int[slots];
+    int[] ps = new int[slots];
+    int[] pl = new int[slots];
+    Arrays.fill(f, -1);
+    for (int v = 0; v < n; v++) {
+      int s = placed.slot(v);
+      f[s] = fail[v] < 0 ? -1 : placed.slot(fail[v]);
+      ps[s] = popStart[v];
+      pl[s] = popLength[v];
+    }
+    for (char c = 0; c < DENSE; c++) {
+      int r = lookup(ROOT, c);
+      int q = lookup(CONT_ROOT, c);
+      rootAscii[c] = r < 0 ? -1 : placed.slot(r);
+      contAscii[c] = q < 0 ? -1 : placed.slot(q);
+    }
+    this.fail = f;
+    this.popStart = ps;
+    this.popLength = pl;
+    this.da = d;
+    this.code = placed.code();
+    this.table = null;
   }
 
   private void appendPops(IntArrayList pool, int node) {
@@ -273,7 +326,25 @@ final class LinMaxMatchTrie {
         return contAscii[c];
       }
     }
+    final int[] d = da;
+    if (d != null) {
+      final char[] cd = code;
+      if (c >= cd.length) {
+        return -1;
+      }
+      int k = cd[c];
+      if (k == 0) {
+        return -1;
+      }
+      int s = d[2 * node + 1] + k;
+      return d[2 * s] == node + 1 ? s : -1;
+    }
     return lookup(node, c);
+  }
+
+  /** Whether the automaton keeps the hashed layout (tests). */
+  boolean hashed() {
+    return da == null;
   }
 
   /**
