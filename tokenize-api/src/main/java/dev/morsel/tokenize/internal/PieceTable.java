@@ -7,11 +7,13 @@ package dev.morsel.tokenize.internal;
  * either way. Immutable and thread-safe: it is never written after construction, so threads share it
  * without races and without the cache-line traffic of a written cache.
  *
- * <p>Layout: open addressing with linear probing at load at most 1/2, two longs per slot so that one
- * probe reads one cache line ({@code hash << 32 | id}, -1 for an empty slot; then
- * {@code poolStart << 8 | length}), and the chars of all keys in one pool. The hash is fixed, not
- * seeded: the keys come from the model, so crafted text can cause at most the probes of the
- * model's own clusters.
+ * <p>Layout: open addressing with linear probing at load at most 1/2, one long per slot
+ * ({@code hash << 32 | recordStart}, -1 for an empty slot), and one char pool of records (length, id
+ * low and high half, then the chars). A probe reads eight bytes; a piece that is not a key (a quarter
+ * of Europarl pieces, which then go on to the segmenter) almost always stops at the first slot whose
+ * hash differs, so the table a miss touches is half the size it was with two longs per slot. The hash
+ * is fixed, not seeded: the keys come from the model, so crafted text can cause at most the probes of
+ * the model's own clusters.
  *
  * <p>Shared by the segmenters: a piece that is one whole token (about three quarters of Europarl pieces
  * under the class-run splitter) is answered with one probe instead of merging, a trie walk or Viterbi.
@@ -49,11 +51,12 @@ public final class PieceTable {
       }
     }
     int cap = Integer.highestOneBit(Math.max(4, count) * 2 - 1) << 1; // load at most 1/2
-    long[] slots = new long[2 * cap];
-    for (int i = 0; i < slots.length; i += 2) {
-      slots[i] = -1L;
+    long[] slots = new long[cap];
+    java.util.Arrays.fill(slots, -1L);
+    if (chars + 3L * count > Integer.MAX_VALUE - 8) {
+      throw new IllegalArgumentException("pieces hold " + chars + " chars; the table holds at most 2^31");
     }
-    char[] pool = new char[(int) chars];
+    char[] pool = new char[(int) (chars + 3L * count)];
     int at = 0;
     int size = 0;
     PieceTable t = new PieceTable(slots, pool, 0);
@@ -62,15 +65,17 @@ public final class PieceTable {
       if (p == null || p.isEmpty() || p.length() > MAX_CHARS || t.find(p, 0, p.length()) >= 0) {
         continue;
       }
-      p.getChars(0, p.length(), pool, at);
+      pool[at] = (char) p.length();
+      pool[at + 1] = (char) id;
+      pool[at + 2] = (char) (id >>> 16);
+      p.getChars(0, p.length(), pool, at + 3);
       int h = hash(p, 0, p.length());
       int i = h & (cap - 1);
-      while (slots[2 * i] != -1L) {
+      while (slots[i] != -1L) {
         i = (i + 1) & (cap - 1);
       }
-      slots[2 * i] = ((long) h << 32) | id;
-      slots[2 * i + 1] = ((long) at << 8) | p.length();
-      at += p.length();
+      slots[i] = ((long) h << 32) | at;
+      at += 3 + p.length();
       size++;
     }
     return new PieceTable(slots, pool, size);
@@ -89,21 +94,23 @@ public final class PieceTable {
     }
     int h = hash(text, start, end);
     final long[] sl = slots;
-    int mask = (sl.length >>> 1) - 1;
+    int mask = sl.length - 1;
     for (int i = h & mask; ; i = (i + 1) & mask) {
-      long e = sl[2 * i];
+      long e = sl[i];
       if (e == -1L) {
         return -1;
       }
-      long where = sl[2 * i + 1];
-      if ((int) (e >>> 32) == h && (int) (where & 0xFF) == len && same(text, start, (int) (where >>> 8), len)) {
-        return (int) e;
+      if ((int) (e >>> 32) == h) {
+        int at = (int) e;
+        final char[] p = pool;
+        if (p[at] == len && same(text, start, p, at + 3, len)) {
+          return p[at + 1] | p[at + 2] << 16;
+        }
       }
     }
   }
 
-  private boolean same(CharSequence text, int start, int at, int len) {
-    final char[] p = pool;
+  private static boolean same(CharSequence text, int start, char[] p, int at, int len) {
     for (int i = 0; i < len; i++) {
       if (p[at + i] != text.charAt(start + i)) {
         return false;
