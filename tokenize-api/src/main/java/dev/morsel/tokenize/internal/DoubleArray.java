@@ -209,6 +209,22 @@ public final class DoubleArray {
     return p;
   }
 
+  /**
+   * One step in a double array laid out by a segmenter as {@code stride} ints a slot, check first and
+   * base second: the slot of the child of {@code node} labelled {@code c}, or -1.
+   */
+  public static int step(int[] slots, int stride, char[] code, int node, char c) {
+    if (c >= code.length) {
+      return -1;
+    }
+    int k = code[c];
+    if (k == 0) {
+      return -1;
+    }
+    int s = slots[stride * node + 1] + k;
+    return slots[stride * s] == node + 1 ? s : -1;
+  }
+
   /** Number of slots, padding included. */
   public int slots() {
     return base.length;

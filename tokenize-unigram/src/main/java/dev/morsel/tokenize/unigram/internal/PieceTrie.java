@@ -216,16 +216,7 @@ final class PieceTrie {
     }
     final int[] d = da;
     if (d != null) {
-      final char[] cd = codeOf;
-      if (c >= cd.length) {
-        return -1;
-      }
-      int code = cd[c];
-      if (code == 0) {
-        return -1;
-      }
-      int s = d[3 * node + 1] + code;
-      return d[3 * s] == node + 1 ? s : -1;
+      return DoubleArray.step(d, 3, codeOf, node, c);
     }
     long key = (long) node << 16 | c;
     int h = hash(key) & mask;

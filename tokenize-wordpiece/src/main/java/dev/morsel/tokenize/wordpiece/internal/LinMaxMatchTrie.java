@@ -328,16 +328,7 @@ final class LinMaxMatchTrie {
     }
     final int[] d = da;
     if (d != null) {
-      final char[] cd = code;
-      if (c >= cd.length) {
-        return -1;
-      }
-      int k = cd[c];
-      if (k == 0) {
-        return -1;
-      }
-      int s = d[2 * node + 1] + k;
-      return d[2 * s] == node + 1 ? s : -1;
+      return DoubleArray.step(d, 2, code, node, c);
     }
     return lookup(node, c);
   }
