@@ -210,10 +210,10 @@ public final class DoubleArray {
   }
 
   /**
-   * One step in a double array laid out by a segmenter as {@code stride} ints a slot, check first and
+   * One step in a double array laid out by a segmenter as {@code width} ints a slot, check first and
    * base second: the slot of the child of {@code node} labelled {@code c}, or -1.
    */
-  public static int step(int[] slots, int stride, char[] code, int node, char c) {
+  public static int step(int[] slots, int width, char[] code, int node, char c) {
     if (c >= code.length) {
       return -1;
     }
@@ -221,8 +221,8 @@ public final class DoubleArray {
     if (k == 0) {
       return -1;
     }
-    int s = slots[stride * node + 1] + k;
-    return slots[stride * s] == node + 1 ? s : -1;
+    int s = slots[width * node + 1] + k;
+    return slots[width * s] == node + 1 ? s : -1;
   }
 
   /** Number of slots, padding included. */
