@@ -34,14 +34,12 @@ public final class DoubleArray {
   private final int[] base;
   private final int[] check;
   private final char[] code;
-  private final int alphabet;
 
-  private DoubleArray(int[] slotOf, int[] base, int[] check, char[] code, int alphabet) {
+  private DoubleArray(int[] slotOf, int[] base, int[] check, char[] code) {
     this.slotOf = slotOf;
     this.base = base;
     this.check = check;
     this.code = code;
-    this.alphabet = alphabet;
   }
 
   /**
@@ -196,7 +194,7 @@ public final class DoubleArray {
     for (int r = 0; r < roots; r++) {
       outCheck[r] = 0; // no step lands on a root: codes start at 1 and only children are placed
     }
-    return new DoubleArray(slotOf, outBase, outCheck, code, alphabet);
+    return new DoubleArray(slotOf, outBase, outCheck, code);
   }
 
   /** The first free slot at or after {@code p} (path halving keeps the walks short). */
@@ -235,23 +233,25 @@ public final class DoubleArray {
     return slotOf[v];
   }
 
-  /** The base of slot {@code s}. */
-  public int base(int s) {
-    return base[s];
-  }
-
-  /** The check of slot {@code s}: the parent's slot + 1, or 0 for a free slot or a root. */
-  public int check(int s) {
-    return check[s];
+  /**
+   * The array a segmenter steps through with {@link #step}: {@code width} ints a slot ({@code width >= 2}),
+   * check first and base second; the other ints of each slot are 0, for the caller's own fields.
+   */
+  public int[] layout(int width) {
+    if (width < 2) {
+      throw new IllegalArgumentException("width=" + width + " leaves no room for check and base");
+    }
+    int slots = base.length;
+    int[] out = new int[width * slots];
+    for (int s = 0; s < slots; s++) {
+      out[width * s] = check[s];
+      out[width * s + 1] = base[s];
+    }
+    return out;
   }
 
   /** The char numbering: {@code code()[c]} is c's code (1 ..), 0 for a char that labels no node. */
   public char[] code() {
     return code.clone();
-  }
-
-  /** Number of distinct labels. */
-  public int alphabet() {
-    return alphabet;
   }
 }

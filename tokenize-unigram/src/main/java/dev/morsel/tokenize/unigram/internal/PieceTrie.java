@@ -102,20 +102,20 @@ final class PieceTrie {
     fst[next] = next;
     this.maxDepth = depth;
     this.nodes = next;
-    char[][] code = new char[1][];
-    int[] built = hashed ? null : doubleArray(lab, fst, val, next, code);
-    if (built != null) {
-      this.da = built;
-      this.codeOf = code[0];
+    DoubleArray placed = hashed ? null : DoubleArray.place(next, parents(fst, next), lab);
+    if (placed != null) {
+      int[] d = placed.layout(3);
+      for (int s = 0; s < d.length; s += 3) {
+        d[s + 2] = -1;
+      }
+      for (int k = 0; k < next; k++) {
+        d[3 * placed.slot(k) + 2] = val[k];
+      }
+      this.da = d;
+      this.codeOf = placed.code();
       this.rootAscii = new int[128];
-      Arrays.fill(rootAscii, -1);
-      for (int c = 0; c < 128 && c < codeOf.length; c++) {
-        if (codeOf[c] != 0) {
-          int s = da[1] + codeOf[c];
-          if (s < da.length / 3 && da[3 * s] == 1) {
-            rootAscii[c] = s;
-          }
-        }
+      for (char c = 0; c < 128; c++) {
+        rootAscii[c] = DoubleArray.step(d, 3, codeOf, 0, c);
       }
       this.value = null;
       this.table = null;
@@ -151,8 +151,8 @@ final class PieceTrie {
     }
   }
 
-  /** The double array of the breadth-first nodes (children of k at first[k] .. first[k+1]-1), or null. */
-  private static int[] doubleArray(char[] lab, int[] fst, int[] val, int count, char[][] codeOut) {
+  /** The parent of every breadth-first node (children of k at first[k] .. first[k+1]-1); -1 for the root. */
+  private static int[] parents(int[] fst, int count) {
     int[] parent = new int[count];
     parent[0] = -1;
     for (int k = 0; k < count; k++) {
@@ -160,22 +160,7 @@ final class PieceTrie {
         parent[c] = k;
       }
     }
-    DoubleArray placed = DoubleArray.place(count, parent, lab);
-    if (placed == null) {
-      return null;
-    }
-    int slots = placed.slots();
-    int[] out = new int[3 * slots];
-    for (int s = 0; s < slots; s++) {
-      out[3 * s] = placed.check(s);
-      out[3 * s + 1] = placed.base(s);
-      out[3 * s + 2] = -1;
-    }
-    for (int k = 0; k < count; k++) {
-      out[3 * placed.slot(k) + 2] = val[k];
-    }
-    codeOut[0] = placed.code();
-    return out;
+    return parent;
   }
 
   /** The root node. */

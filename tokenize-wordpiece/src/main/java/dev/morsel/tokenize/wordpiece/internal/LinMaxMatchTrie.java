@@ -209,11 +209,7 @@ final class LinMaxMatchTrie {
     }
     // node ids become slots; the roots keep 0 and 1 (placed first, in node order)
     int slots = placed.slots();
-    int[] d = new int[2 * slots];
-    for (int s = 0; s < slots; s++) {
-      d[2 * s] = placed.check(s);
-      d[2 * s + 1] = placed.base(s);
-    }
+    int[] d = placed.layout(2);
     int[] f = new int[slots];
     int[] ps = new int[slots];
     int[] pl = new int[slots];
