@@ -61,12 +61,26 @@ public final class WordPieceExtension implements Extender {
 
   @Override
   public Tokenizer extend(Tokenizer base, PieceCounts counts) {
+    return extend(base, counts, baseSegmenter(base, counts));
+  }
+
+  /**
+   * The base's segmenter, after the checks every extender makes ({@link Extender#checkInputs}) and the
+   * check that it is this module's WordPiece segmenter.
+   *
+   * @throws IllegalArgumentException naming what is wrong
+   */
+  static WordPieceSegmenter baseSegmenter(Tokenizer base, PieceCounts counts) {
     Extender.checkInputs(WordPieceSegmenter.SCHEME, base, counts);
     Segmenter seg = Tokenizers.segmenterOf(base);
     if (!(seg instanceof WordPieceSegmenter)) {
       throw new IllegalArgumentException("the base's segmenter is not Morsel's WordPiece segmenter: " + seg);
     }
-    WordPieceSegmenter s = (WordPieceSegmenter) seg;
+    return (WordPieceSegmenter) seg;
+  }
+
+  /** {@link #extend(Tokenizer, PieceCounts)} with the base's segmenter already checked ({@link #baseSegmenter}). */
+  Tokenizer extend(Tokenizer base, PieceCounts counts, WordPieceSegmenter s) {
     long total = (long) s.vocabularySize() + addedIds;
     if (total > WordPieceSegmenter.MAX_VOCABULARY_SIZE) {
       throw new IllegalArgumentException("addedIds=" + addedIds + " would give " + total + " ids, over the "

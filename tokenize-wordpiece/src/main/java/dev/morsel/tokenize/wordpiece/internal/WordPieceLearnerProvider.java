@@ -1,7 +1,6 @@
 package dev.morsel.tokenize.wordpiece.internal;
 
 import dev.morsel.tokenize.Tokenizer;
-import dev.morsel.tokenize.Tokenizers;
 import dev.morsel.tokenize.train.Extender;
 import dev.morsel.tokenize.train.ExtensionSettings;
 import dev.morsel.tokenize.train.AlphabetPolicy;
@@ -124,7 +123,7 @@ public final class WordPieceLearnerProvider implements LearnerProvider {
     AlphabetPolicy policy = AlphabetPolicy.fromOptions(options);
     int alphabet = policy.maxSize() == AlphabetPolicy.DERIVED_MAX_SIZE ? Math.max(1, settings.addedIds() / 4)
         : policy.maxSize();
-    Extender inner = new WordPieceExtension(settings.addedIds(), settings.minCount(), alphabet,
+    WordPieceExtension inner = new WordPieceExtension(settings.addedIds(), settings.minCount(), alphabet,
         options.longValue(MIN_PAIR_COUNT, 1, Long.MAX_VALUE),
         score.equals(SCORES.get(0)) ? WordPieceTraining.Score.LIKELIHOOD_GAIN : WordPieceTraining.Score.PAIR_RATIO,
         settings.listener());
@@ -138,8 +137,8 @@ public final class WordPieceLearnerProvider implements LearnerProvider {
 
       @Override
       public Tokenizer extend(Tokenizer base, PieceCounts counts) {
-        Extender.checkInputs(WordPieceSegmenter.SCHEME, base, counts);
-        WordPieceSettings own = ((WordPieceSegmenter) Tokenizers.segmenterOf(base)).settings();
+        WordPieceSegmenter seg = WordPieceExtension.baseSegmenter(base, counts);
+        WordPieceSettings own = seg.settings();
         if (!marker.equals(WordPieceSettings.DEFAULT_MARKER) && !marker.equals(own.marker())) {
           throw options.wrong(MARKER, marker, "differs from the base's marker '" + own.marker()
               + "'; an extension keeps the base's", null);
@@ -148,7 +147,7 @@ public final class WordPieceLearnerProvider implements LearnerProvider {
           throw options.wrong(UNKNOWN_TOKEN, unknown, "differs from the base's unknown token '" + own.unknownToken()
               + "'; an extension keeps the base's", null);
         }
-        return inner.extend(base, counts);
+        return inner.extend(base, counts, seg);
       }
     };
   }
